@@ -1,0 +1,15 @@
+import pg from 'pg';
+import { drizzle, type NodePgDatabase } from 'drizzle-orm/node-postgres';
+import * as schema from './schema/index.ts';
+
+export type Database = NodePgDatabase<typeof schema>;
+/** A database handle or an open transaction: queries accept either. */
+export type Executor = Database | Parameters<Parameters<Database['transaction']>[0]>[0];
+
+export const DEFAULT_DATABASE_URL = 'postgres://postgres@127.0.0.1:54329/plumbline';
+
+export function createDb(url: string = process.env.DATABASE_URL ?? DEFAULT_DATABASE_URL) {
+  const pool = new pg.Pool({ connectionString: url, max: 10 });
+  const db = drizzle(pool, { schema, casing: 'snake_case' });
+  return { db, pool };
+}

@@ -1,0 +1,2 @@
+export * from './schema/index.ts';
+export * from './client.ts';

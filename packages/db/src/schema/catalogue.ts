@@ -1,0 +1,91 @@
+import {
+  date,
+  doublePrecision,
+  integer,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  unique,
+  uuid,
+} from 'drizzle-orm/pg-core';
+
+/** A measurand. Values are stored in `unit` (canonical UCUM); `conventionalUnit` is offered for display. */
+export const analytes = pgTable('analytes', {
+  id: uuid().primaryKey().defaultRandom(),
+  code: text().notNull().unique(),
+  name: text().notNull(),
+  loinc: text(),
+  unit: text().notNull(),
+  conventionalUnit: text(),
+  /** g/mol, for mass <-> substance conversions. */
+  molarMass: doublePrecision(),
+  decimals: integer().notNull().default(2),
+  /** Total allowable error in percent, with where it comes from. */
+  teaPct: doublePrecision(),
+  teaSource: text(),
+  teaDate: date(),
+  retiredAt: timestamp({ withTimezone: true }),
+});
+
+export const methods = pgTable('methods', {
+  id: uuid().primaryKey().defaultRandom(),
+  code: text().notNull().unique(),
+  name: text().notNull(),
+  principle: text(),
+  retiredAt: timestamp({ withTimezone: true }),
+});
+
+export const instrumentModels = pgTable('instrument_models', {
+  id: uuid().primaryKey().defaultRandom(),
+  code: text().notNull().unique(),
+  name: text().notNull(),
+  manufacturer: text(),
+  retiredAt: timestamp({ withTimezone: true }),
+});
+
+export const reagents = pgTable('reagents', {
+  id: uuid().primaryKey().defaultRandom(),
+  code: text().notNull().unique(),
+  name: text().notNull(),
+  manufacturer: text(),
+  retiredAt: timestamp({ withTimezone: true }),
+});
+
+export const controlMaterials = pgTable('control_materials', {
+  id: uuid().primaryKey().defaultRandom(),
+  code: text().notNull().unique(),
+  name: text().notNull(),
+  manufacturer: text(),
+  matrix: text(),
+  retiredAt: timestamp({ withTimezone: true }),
+});
+
+export const controlLots = pgTable(
+  'control_lots',
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    materialId: uuid()
+      .notNull()
+      .references(() => controlMaterials.id),
+    lotNumber: text().notNull().unique(),
+    levels: integer().array().notNull(),
+    expiresOn: date().notNull(),
+    /** 'active' | 'retired' */
+    state: text().notNull().default('active'),
+  },
+  (t) => [unique().on(t.materialId, t.lotNumber)],
+);
+
+/** Per-level details of a control lot (a description such as "normal" or "pathological"). */
+export const controlLotLevels = pgTable(
+  'control_lot_levels',
+  {
+    controlLotId: uuid()
+      .notNull()
+      .references(() => controlLots.id),
+    level: integer().notNull(),
+    description: text(),
+  },
+  (t) => [primaryKey({ columns: [t.controlLotId, t.level] })],
+);

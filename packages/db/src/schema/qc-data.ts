@@ -1,0 +1,78 @@
+import {
+  bigserial,
+  boolean,
+  doublePrecision,
+  index,
+  integer,
+  pgTable,
+  text,
+  timestamp,
+  unique,
+  uuid,
+} from 'drizzle-orm/pg-core';
+import { labs } from './labs.ts';
+import { procedures } from './procedures.ts';
+import { controlLots } from './catalogue.ts';
+import { periods } from './periods.ts';
+import { uploads } from './uploads.ts';
+
+/** One lab's monthly figures for a procedure, control lot and level (canonical unit). */
+export const qcSummaries = pgTable(
+  'qc_summaries',
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    labId: uuid()
+      .notNull()
+      .references(() => labs.id),
+    procedureId: uuid()
+      .notNull()
+      .references(() => procedures.id),
+    controlLotId: uuid()
+      .notNull()
+      .references(() => controlLots.id),
+    level: integer().notNull(),
+    period: text()
+      .notNull()
+      .references(() => periods.period),
+    n: integer().notNull(),
+    mean: doublePrecision().notNull(),
+    sd: doublePrecision().notNull(),
+    /** 'summary' when uploaded as a monthly summary, 'values' when derived from daily values. */
+    source: text().notNull().default('summary'),
+    late: boolean().notNull().default(false),
+    uploadId: uuid().references(() => uploads.id),
+    updatedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    unique().on(t.procedureId, t.controlLotId, t.level, t.period),
+    index().on(t.controlLotId, t.level, t.period),
+    index().on(t.labId, t.period),
+  ],
+);
+
+/** A daily control value (canonical unit) with its multirule result. */
+export const qcValues = pgTable(
+  'qc_values',
+  {
+    id: bigserial({ mode: 'number' }).primaryKey(),
+    labId: uuid()
+      .notNull()
+      .references(() => labs.id),
+    procedureId: uuid()
+      .notNull()
+      .references(() => procedures.id),
+    controlLotId: uuid()
+      .notNull()
+      .references(() => controlLots.id),
+    level: integer().notNull(),
+    period: text().notNull(),
+    measuredAt: timestamp({ withTimezone: true }).notNull(),
+    value: doublePrecision().notNull(),
+    run: text(),
+    comment: text(),
+    z: doublePrecision(),
+    rules: text().array().notNull().default([]),
+    uploadId: uuid().references(() => uploads.id),
+  },
+  (t) => [index().on(t.procedureId, t.controlLotId, t.period, t.measuredAt), index().on(t.uploadId)],
+);
