@@ -1,2 +1,3 @@
 export * from './schema/index.ts';
 export * from './client.ts';
+export * from './queries/index.ts';

@@ -1,0 +1,40 @@
+import express, { Router, type Express } from 'express';
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import type { AppDeps } from './deps.ts';
+import { configurePassport, authenticate } from './auth/authenticate.ts';
+import { errorHandler, notFoundHandler, requestId } from './http/error-handler.ts';
+import { authRouter } from './modules/auth/auth.router.ts';
+import { healthRouter } from './modules/health/health.router.ts';
+import { labsRouter } from './modules/labs/labs.router.ts';
+
+/** Builds the HTTP app (never listens, so tests drive it in-process). */
+export function createApp(deps: AppDeps): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  const passportInstance = configurePassport(deps.db, deps.env.JWT_SECRET);
+  const requireUser = authenticate(deps.db, passportInstance);
+
+  const api = Router();
+  api.use(requestId);
+  api.use(express.json({ limit: '2mb' }));
+  api.use(passportInstance.initialize());
+  api.use(healthRouter(deps));
+  api.use(authRouter(deps, passportInstance));
+  api.use(labsRouter(deps, requireUser));
+  api.use(notFoundHandler);
+  api.use(errorHandler);
+  app.use('/api', api);
+
+  serveWebApp(app, deps.env.WEB_DIST_DIR);
+  return app;
+}
+
+/** Serves the built single-page app, falling back to index.html for client-side routes. */
+function serveWebApp(app: Express, distDir?: string) {
+  const dir = resolve(distDir ?? join(import.meta.dirname, '../../web/dist'));
+  if (!existsSync(join(dir, 'index.html'))) return;
+  app.use(express.static(dir, { index: false, maxAge: '1h' }));
+  app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile(join(dir, 'index.html')));
+}

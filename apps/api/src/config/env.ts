@@ -1,0 +1,39 @@
+import { z } from 'zod';
+
+/** Configuration read once at start-up; a bad value stops the process with a clear message. */
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+  PORT: z.coerce.number().int().min(1).max(65535).default(5180),
+  HOST: z.string().default('127.0.0.1'),
+  DATABASE_URL: z.string().default('postgres://postgres@127.0.0.1:54329/plumbline'),
+  REDIS_URL: z.string().default('redis://127.0.0.1:63790'),
+  JWT_SECRET: z.string().min(32, 'JWT_SECRET must be at least 32 characters').optional(),
+  JWT_TTL_SECONDS: z.coerce.number().int().positive().default(8 * 3600),
+  STORAGE_DIR: z.string().default('.data/uploads'),
+  S3_BUCKET: z.string().optional(),
+  S3_ENDPOINT: z.string().optional(),
+  S3_REGION: z.string().default('us-east-1'),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
+  MAX_UPLOAD_BYTES: z.coerce.number().int().positive().default(100 * 1024 * 1024),
+  WEB_DIST_DIR: z.string().optional(),
+  PUBLIC_URL: z.string().default('http://127.0.0.1:5180'),
+});
+
+export type Env = z.infer<typeof envSchema> & { JWT_SECRET: string };
+
+const DEV_SECRET = 'plumbline-development-secret-not-for-production-use';
+
+export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
+  const parsed = envSchema.safeParse(source);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`).join('\n');
+    throw new Error(`Invalid configuration:\n${lines}`);
+  }
+  const env = parsed.data;
+  if (!env.JWT_SECRET) {
+    if (env.NODE_ENV === 'production') throw new Error('Invalid configuration:\n  JWT_SECRET: required in production');
+    return { ...env, JWT_SECRET: DEV_SECRET };
+  }
+  return env as Env;
+}

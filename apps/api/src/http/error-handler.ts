@@ -1,0 +1,40 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { randomUUID } from 'node:crypto';
+import { AppError } from '../errors/app-error.ts';
+
+export const requestId: RequestHandler = (req, res, next) => {
+  const id = randomUUID();
+  res.locals.requestId = id;
+  res.setHeader('x-request-id', id);
+  next();
+};
+
+export const notFoundHandler: RequestHandler = (req, _res, next) => {
+  next(new AppError('not_found', `No API route for ${req.method} ${req.path}.`));
+};
+
+/** The central error handler: every failure leaves as `{ error: { code, message, details?, requestId } }`. */
+export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
+  const requestIdValue = res.locals.requestId as string | undefined;
+  let appError: AppError;
+  if (err instanceof AppError) {
+    appError = err;
+  } else if (err?.type === 'entity.parse.failed') {
+    appError = new AppError('bad_request', 'The request body is not valid JSON.');
+  } else if (err?.type === 'entity.too.large') {
+    appError = new AppError('payload_too_large', 'The request body is too large.');
+  } else {
+    // Never leak internals; log the cause with the request id so operators can find it.
+    console.error(`[${requestIdValue}]`, err);
+    appError = new AppError('internal', 'Something went wrong on our side. Please try again.');
+  }
+  if (res.headersSent) return;
+  res.status(appError.status).json({
+    error: {
+      code: appError.code,
+      message: appError.message,
+      ...(appError.details !== undefined ? { details: appError.details } : {}),
+      ...(requestIdValue ? { requestId: requestIdValue } : {}),
+    },
+  });
+};

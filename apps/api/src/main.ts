@@ -1,0 +1,22 @@
+import { Redis } from 'ioredis';
+import { createDb } from '@plumbline/db';
+import { loadEnv } from './config/env.ts';
+import { createApp } from './app.ts';
+
+const env = loadEnv();
+const { db, pool } = createDb(env.DATABASE_URL);
+const redis = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
+const app = createApp({ env, db, redis });
+
+const server = app.listen(env.PORT, env.HOST, () => {
+  console.log(`api: listening on http://${env.HOST}:${env.PORT}`);
+});
+
+async function shutdown(signal: string) {
+  console.log(`api: ${signal} received, shutting down`);
+  server.close();
+  await Promise.allSettled([pool.end(), redis.quit()]);
+  process.exit(0);
+}
+process.on('SIGTERM', () => void shutdown('SIGTERM'));
+process.on('SIGINT', () => void shutdown('SIGINT'));

@@ -1,0 +1,52 @@
+import { Redis } from 'ioredis';
+import { randomBytes } from 'node:crypto';
+import { labs, users } from '@plumbline/db';
+import { createScratchDatabase, type ScratchDatabase } from '@plumbline/db/testing';
+import type { Role } from '@plumbline/contracts';
+import { loadEnv } from '../config/env.ts';
+import { createApp } from '../app.ts';
+import { signSession } from '../auth/jwt.ts';
+import { hashPassword } from '../auth/passwords.ts';
+import type { AppDeps } from '../deps.ts';
+
+export const TEST_PASSWORD = 'correct horse battery staple';
+
+/** An in-process app on its own scratch database and the real Redis, with helpers to make labs and users. */
+export async function createTestApp(label: string) {
+  const scratch: ScratchDatabase = await createScratchDatabase(label);
+  const env = loadEnv({ ...process.env, NODE_ENV: 'test', DATABASE_URL: scratch.url, JWT_SECRET: randomBytes(32).toString('hex') });
+  const redis = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null, lazyConnect: false });
+  const deps: AppDeps = { env, db: scratch.db, redis };
+  const app = createApp(deps);
+  let passwordHash: string | null = null;
+
+  async function makeLab(code = `T-${randomBytes(3).toString('hex')}`) {
+    const [lab] = await scratch.db.insert(labs).values({ code, name: `Test lab ${code}` }).returning();
+    return lab;
+  }
+
+  async function makeUser(role: Role, labId: string | null, overrides: { email?: string; active?: boolean } = {}) {
+    passwordHash ??= await hashPassword(TEST_PASSWORD);
+    const [user] = await scratch.db
+      .insert(users)
+      .values({
+        email: overrides.email ?? `${role}-${randomBytes(4).toString('hex')}@test.example`,
+        name: `Test ${role}`,
+        role,
+        labId,
+        passwordHash,
+        active: overrides.active ?? true,
+      })
+      .returning();
+    const { token } = signSession(user, env.JWT_SECRET, 3600);
+    return { ...user, token, auth: `Bearer ${token}` };
+  }
+
+  async function close() {
+    redis.disconnect();
+    await scratch.drop();
+  }
+
+  return { app, deps, env, db: scratch.db, makeLab, makeUser, close };
+}
+export type TestApp = Awaited<ReturnType<typeof createTestApp>>;

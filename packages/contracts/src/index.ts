@@ -1,0 +1,3 @@
+export * from './errors.ts';
+export * from './common.ts';
+export * from './auth.ts';
