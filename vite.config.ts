@@ -11,6 +11,7 @@ export default defineConfig({
       { test: { name: 'api', root: './apps/api', include: ['src/**/*.test.ts'], fileParallelism: false, testTimeout: 30000, hookTimeout: 60000 } },
       { test: { name: 'worker', root: './apps/worker', include: ['src/**/*.test.ts'], fileParallelism: false, testTimeout: 30000 } },
       './apps/web/vite.config.ts',
+      { test: { name: 'e2e', root: './tests', include: ['e2e/**/*.e2e.test.ts'], fileParallelism: false, testTimeout: 120000, hookTimeout: 120000 } },
       { test: { name: 'integration', root: './tests', include: ['integration/**/*.test.ts'], fileParallelism: false, testTimeout: 60000, hookTimeout: 120000 } },
     ],
   },

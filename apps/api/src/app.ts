@@ -7,6 +7,7 @@ import { errorHandler, notFoundHandler, requestId } from './http/error-handler.t
 import { authRouter } from './modules/auth/auth.router.ts';
 import { healthRouter } from './modules/health/health.router.ts';
 import { labsRouter } from './modules/labs/labs.router.ts';
+import { auditRouter } from './modules/audit/audit.router.ts';
 
 /** Builds the HTTP app (never listens, so tests drive it in-process). */
 export function createApp(deps: AppDeps): Express {
@@ -23,6 +24,7 @@ export function createApp(deps: AppDeps): Express {
   api.use(healthRouter(deps));
   api.use(authRouter(deps, passportInstance));
   api.use(labsRouter(deps, requireUser));
+  api.use(auditRouter(deps, requireUser));
   api.use(notFoundHandler);
   api.use(errorHandler);
   app.use('/api', api);

@@ -1,0 +1,52 @@
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { randomBytes } from 'node:crypto';
+import { fileURLToPath } from 'node:url';
+import { existsSync } from 'node:fs';
+import { Redis } from 'ioredis';
+import { createScratchDatabase, type ScratchDatabase } from '@plumbline/db/testing';
+import { createApp } from '../../apps/api/src/app.ts';
+import { loadEnv, type Env } from '../../apps/api/src/config/env.ts';
+
+export const WEB_DIST = fileURLToPath(new URL('../../apps/web/dist', import.meta.url));
+
+/**
+ * The API (serving the built web app) on a random loopback port, backed by a fresh scratch database.
+ * `prepare` runs against the database before the server starts (e.g. seeding the demo network).
+ */
+export async function startServer(
+  label: string,
+  prepare?: (scratch: ScratchDatabase) => Promise<void>,
+  extraEnv: Record<string, string> = {},
+) {
+  if (!existsSync(`${WEB_DIST}/index.html`)) {
+    throw new Error(`The web app is not built (${WEB_DIST}/index.html missing): run npm test, or npm run build first.`);
+  }
+  const scratch = await createScratchDatabase(label);
+  if (prepare) await prepare(scratch);
+  const env: Env = loadEnv({
+    ...process.env,
+    NODE_ENV: 'test',
+    DATABASE_URL: scratch.url,
+    JWT_SECRET: randomBytes(32).toString('hex'),
+    WEB_DIST_DIR: WEB_DIST,
+    ...extraEnv,
+  });
+  const redis = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
+  const app = createApp({ env, db: scratch.db, redis } as Parameters<typeof createApp>[0]);
+  const server: Server = await new Promise((resolve) => {
+    const s = app.listen(0, '127.0.0.1', () => resolve(s));
+  });
+  const { port } = server.address() as AddressInfo;
+  return {
+    url: `http://127.0.0.1:${port}`,
+    env,
+    scratch,
+    db: scratch.db,
+    close: async () => {
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+      redis.disconnect();
+      await scratch.drop();
+    },
+  };
+}
