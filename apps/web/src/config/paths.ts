@@ -3,7 +3,9 @@
 
 /** Only same-app paths may be used as a return address after sign-in (no `//host` or `https://`). */
 export function isSafeReturnPath(value: string | null | undefined): value is string {
-  return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') && !value.startsWith('/\\');
+  return (
+    typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') && !value.startsWith('/\\')
+  );
 }
 
 export const paths = {

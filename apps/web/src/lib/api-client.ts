@@ -12,7 +12,13 @@ export class ApiError extends Error {
   readonly details: unknown;
   readonly requestId: string | undefined;
 
-  constructor(input: { code: ErrorCode; message: string; status: number; details?: unknown; requestId?: string }) {
+  constructor(input: {
+    code: ErrorCode;
+    message: string;
+    status: number;
+    details?: unknown;
+    requestId?: string;
+  }) {
     super(input.message);
     this.name = 'ApiError';
     this.code = input.code;

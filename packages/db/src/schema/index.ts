@@ -8,3 +8,4 @@ export * from './qc-data.ts';
 export * from './peer-groups.ts';
 export * from './review.ts';
 export * from './audit.ts';
+export * from './invitations.ts';

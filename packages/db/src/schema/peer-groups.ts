@@ -7,6 +7,7 @@ import {
   jsonb,
   pgEnum,
   pgTable,
+  primaryKey,
   text,
   timestamp,
   unique,
@@ -121,4 +122,25 @@ export const peerExclusions = pgTable(
     revokedBy: uuid().references(() => users.id),
   },
   (t) => [index().on(t.controlLotId, t.period)],
+);
+
+/**
+ * Peer statistics waiting to be recomputed. An upload adds its (lot, analyte, level, period) keys in the
+ * transaction that stores its data, so a crash between storing and recomputing loses nothing; one
+ * recompute at a time drains the list (concurrent uploads are folded into a single pass).
+ */
+export const peerStatisticsRequests = pgTable(
+  'peer_statistics_requests',
+  {
+    controlLotId: uuid()
+      .notNull()
+      .references(() => controlLots.id),
+    analyteId: uuid()
+      .notNull()
+      .references(() => analytes.id),
+    level: integer().notNull(),
+    period: text().notNull(),
+    requestedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.controlLotId, t.analyteId, t.level, t.period] })],
 );

@@ -40,6 +40,9 @@ export const uploads = pgTable(
     /** An earlier upload of the same lab with identical content, when there is one. */
     duplicateOf: uuid(),
     attempts: integer().notNull().default(0),
+    /** Set when a user chose to store the valid rows of a file that had rejected rows. */
+    confirmedAt: timestamp({ withTimezone: true }),
+    confirmedBy: uuid().references(() => users.id),
     createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
     storedAt: timestamp({ withTimezone: true }),

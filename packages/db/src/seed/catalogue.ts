@@ -295,7 +295,11 @@ export const demoAnalytes: DemoAnalyte[] = [
 export type DemoMethod = { code: string; name: string; principle: string };
 
 export const demoMethods: DemoMethod[] = [
-  { code: 'ISE-IND', name: 'Ion-selective electrode, indirect', principle: 'Potentiometry on a diluted sample' },
+  {
+    code: 'ISE-IND',
+    name: 'Ion-selective electrode, indirect',
+    principle: 'Potentiometry on a diluted sample',
+  },
   {
     code: 'GLU-HK',
     name: 'Hexokinase',

@@ -21,11 +21,15 @@ export function RouteErrorPage() {
       <header className="bg-plumb-950 px-6 py-3">
         <Logo tone="dark" />
       </header>
-      <main id={mainContentId} tabIndex={-1} className="mx-auto w-full max-w-2xl flex-1 px-6 py-16 focus:outline-none">
+      <main
+        id={mainContentId}
+        tabIndex={-1}
+        className="mx-auto w-full max-w-2xl flex-1 px-6 py-16 focus:outline-none"
+      >
         <h1 className="text-2xl font-semibold text-plumb-950">Something went wrong</h1>
         <p className="mt-3 text-slate-700">
-          This page could not be shown. Reloading usually helps; if it keeps happening, tell the
-          network coordinator what you were doing.
+          This page could not be shown. Reloading usually helps; if it keeps happening, tell the network
+          coordinator what you were doing.
         </p>
         {detail ? (
           <p className="mt-3 rounded-md bg-slate-100 px-3 py-2 font-mono text-xs text-slate-700">{detail}</p>

@@ -50,7 +50,10 @@ function UserMenu() {
 function MainNavigation({ role }: { role: Role }) {
   const sections = navigationFor(role);
   return (
-    <nav aria-label="Main" className="border-b border-slate-200 bg-white md:w-60 md:shrink-0 md:border-r md:border-b-0">
+    <nav
+      aria-label="Main"
+      className="border-b border-slate-200 bg-white md:w-60 md:shrink-0 md:border-r md:border-b-0"
+    >
       <div className="flex gap-6 overflow-x-auto px-4 py-2 md:sticky md:top-0 md:flex-col md:gap-6 md:px-4 md:py-6">
         {sections.map((section) => (
           <div key={section.title} className="shrink-0">

@@ -14,7 +14,10 @@ export function AuthLayout({ title, children }: { title: string; children: React
         <header className="relative overflow-hidden bg-plumb-950 px-8 py-6 text-white lg:flex lg:w-[44%] lg:flex-col lg:px-14 lg:py-12">
           <Logo tone="dark" />
           {/* The motif: one long line from the top edge, ending in the brass weight. */}
-          <div aria-hidden="true" className="pointer-events-none absolute top-0 right-16 hidden h-[58%] flex-col items-center lg:flex">
+          <div
+            aria-hidden="true"
+            className="pointer-events-none absolute top-0 right-16 hidden h-[58%] flex-col items-center lg:flex"
+          >
             <div className="w-px flex-1 bg-gradient-to-b from-plumb-800 to-plumb-300" />
             <PlumbMark className="-mt-9 h-16 w-12" lineClassName="text-transparent" />
           </div>
@@ -23,9 +26,8 @@ export function AuthLayout({ title, children }: { title: string; children: React
               Where each lab stands against its peers, month by month.
             </p>
             <p className="mt-4 text-[0.95rem] leading-relaxed text-plumb-100">
-              Member laboratories submit their quality-control data; the network pools it by peer
-              group and returns peer mean and SD, SDI, CVR, bias and sigma for every measurement
-              procedure and level.
+              Member laboratories submit their quality-control data; the network pools it by peer group and
+              returns peer mean and SD, SDI, CVR, bias and sigma for every measurement procedure and level.
             </p>
             <dl className="mt-10 grid grid-cols-3 gap-6 border-t border-plumb-800 pt-6 text-sm">
               <div>

@@ -26,7 +26,9 @@ export function ContentLayout({
               <p className="text-xs font-semibold tracking-[0.12em] text-brass-700 uppercase">{area}</p>
             ) : null}
             <h1 className="mt-1 text-2xl font-semibold text-plumb-950">{title}</h1>
-            {description ? <p className="mt-2 max-w-3xl text-[0.95rem] text-slate-700">{description}</p> : null}
+            {description ? (
+              <p className="mt-2 max-w-3xl text-[0.95rem] text-slate-700">{description}</p>
+            ) : null}
           </div>
           {actions ? <div className="flex shrink-0 gap-2">{actions}</div> : null}
         </div>

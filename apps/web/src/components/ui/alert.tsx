@@ -16,7 +16,10 @@ export function Alert({
   children: ReactNode;
 }) {
   return (
-    <div role={tone === 'error' ? 'alert' : 'status'} className={`rounded-md border px-4 py-3 text-sm ${tones[tone]}`}>
+    <div
+      role={tone === 'error' ? 'alert' : 'status'}
+      className={`rounded-md border px-4 py-3 text-sm ${tones[tone]}`}
+    >
       {title ? <p className="font-semibold">{title}</p> : null}
       <div className={title ? 'mt-0.5' : undefined}>{children}</div>
     </div>

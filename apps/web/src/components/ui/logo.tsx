@@ -23,9 +23,7 @@ export function Logo({ tone = 'dark' }: { tone?: 'dark' | 'light' }) {
   return (
     <span className="inline-flex items-center gap-2">
       <PlumbMark className="h-8 w-6" lineClassName={onDark ? 'text-plumb-100' : 'text-plumb-800'} />
-      <span
-        className={`text-lg font-semibold tracking-[0.02em] ${onDark ? 'text-white' : 'text-plumb-900'}`}
-      >
+      <span className={`text-lg font-semibold tracking-[0.02em] ${onDark ? 'text-white' : 'text-plumb-900'}`}>
         Plumbline
       </span>
     </span>

@@ -1,5 +1,10 @@
 import { useId, type ComponentProps } from 'react';
 
+/** Contract messages are written in lower case ("enter your password"); shown alone they start a sentence. */
+function asSentence(message: string): string {
+  return message.charAt(0).toUpperCase() + message.slice(1);
+}
+
 type TextFieldProps = ComponentProps<'input'> & {
   label: string;
   /** Shown under the field and announced with it; marks the field invalid. */
@@ -35,7 +40,7 @@ export function TextField({ label, error, hint, id, className = '', ...inputProp
       ) : null}
       {error ? (
         <p id={errorId} className="text-sm font-medium text-alarm-700">
-          {error}
+          {asSentence(error)}
         </p>
       ) : null}
     </div>

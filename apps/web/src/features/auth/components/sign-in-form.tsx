@@ -21,7 +21,8 @@ function isFormField(path: string): path is (typeof formFields)[number] {
   return (formFields as readonly string[]).includes(path);
 }
 
-export function SignInForm({ onSuccess }: { onSuccess: (response: LoginResponse) => void }) {
+/** After a successful sign-in the session starts; the sign-in route then redirects on its own. */
+export function SignInForm({ onSuccess }: { onSuccess?: (response: LoginResponse) => void }) {
   const signIn = useSignIn({ onSuccess });
   const form = useForm<LoginRequest, unknown, SignInInput>({
     resolver: zodResolver(loginRequestSchema),

@@ -1,0 +1,165 @@
+import type { z } from 'zod';
+import { analytes, controlMaterials, instrumentModels, methods, reagents } from '@plumbline/db';
+import {
+  analyteCreateSchema,
+  analyteUpdateSchema,
+  controlMaterialCreateSchema,
+  controlMaterialUpdateSchema,
+  instrumentModelCreateSchema,
+  instrumentModelUpdateSchema,
+  methodCreateSchema,
+  methodUpdateSchema,
+  reagentCreateSchema,
+  reagentUpdateSchema,
+  type CatalogueList,
+  type FieldError,
+} from '@plumbline/contracts';
+import { ucumConversionProblem, ucumUnitProblem } from './ucum.ts';
+
+/** The lists that share one shape: a code, a name, a few descriptive fields and `retiredAt`. */
+export type SimpleList = Exclude<CatalogueList, 'control-lots'>;
+export type SimpleTable = typeof analytes | typeof methods | typeof instrumentModels | typeof reagents | typeof controlMaterials;
+export type CatalogueRecord = Record<string, unknown>;
+
+export type SimpleListSpec = {
+  list: SimpleList;
+  /** Singular name used in audit kinds and entity fields, e.g. 'analyte' → 'catalogue.analyte.create'. */
+  entity: string;
+  /** Singular name for messages, e.g. 'An analyte'. */
+  article: string;
+  table: SimpleTable;
+  createSchema: z.ZodType;
+  updateSchema: z.ZodType;
+  /** Editable fields, in the order items list them. */
+  fields: readonly string[];
+  /** Values a create gets for fields it leaves out. */
+  defaults: CatalogueRecord;
+  /** Fields `?q=` searches. */
+  searchFields: readonly string[];
+  /** CSV column → field; `numericColumns` are parsed as numbers. */
+  csvColumns: Record<string, string>;
+  numericColumns: readonly string[];
+  /** Checks that need more than one field or a library the contracts do not carry. */
+  check?: (record: CatalogueRecord) => FieldError[];
+};
+
+function checkAnalyte(record: CatalogueRecord): FieldError[] {
+  const errors: FieldError[] = [];
+  const unit = record.unit as string;
+  const conventionalUnit = record.conventionalUnit as string | null;
+  const molarMass = record.molarMass as number | null;
+  const unitProblem = ucumUnitProblem(unit);
+  if (unitProblem) errors.push({ path: 'unit', message: unitProblem });
+  if (conventionalUnit) {
+    const problem = ucumUnitProblem(conventionalUnit);
+    if (problem) errors.push({ path: 'conventionalUnit', message: problem });
+    else if (!unitProblem) {
+      const conversion = ucumConversionProblem(conventionalUnit, unit, molarMass);
+      if (conversion) errors.push({ path: 'conventionalUnit', message: conversion });
+    }
+  }
+  // A total allowable error is only usable with where it comes from and when that source was read.
+  if (record.teaPct !== null && record.teaPct !== undefined) {
+    if (!record.teaSource) errors.push({ path: 'teaSource', message: 'give the source of the total allowable error' });
+    if (!record.teaDate) errors.push({ path: 'teaDate', message: 'give the date of the total allowable error source' });
+  }
+  return errors;
+}
+
+export const simpleListSpecs: Record<SimpleList, SimpleListSpec> = {
+  analytes: {
+    list: 'analytes',
+    entity: 'analyte',
+    article: 'An analyte',
+    table: analytes,
+    createSchema: analyteCreateSchema,
+    updateSchema: analyteUpdateSchema,
+    fields: ['code', 'name', 'loinc', 'unit', 'conventionalUnit', 'molarMass', 'decimals', 'teaPct', 'teaSource', 'teaDate'],
+    defaults: {
+      loinc: null,
+      conventionalUnit: null,
+      molarMass: null,
+      decimals: 2,
+      teaPct: null,
+      teaSource: null,
+      teaDate: null,
+    },
+    searchFields: ['code', 'name', 'loinc'],
+    csvColumns: {
+      code: 'code',
+      name: 'name',
+      unit: 'unit',
+      loinc: 'loinc',
+      conventional_unit: 'conventionalUnit',
+      molar_mass: 'molarMass',
+      decimals: 'decimals',
+      tea_pct: 'teaPct',
+      tea_source: 'teaSource',
+      tea_date: 'teaDate',
+    },
+    numericColumns: ['molar_mass', 'decimals', 'tea_pct'],
+    check: checkAnalyte,
+  },
+  methods: {
+    list: 'methods',
+    entity: 'method',
+    article: 'A method',
+    table: methods,
+    createSchema: methodCreateSchema,
+    updateSchema: methodUpdateSchema,
+    fields: ['code', 'name', 'principle'],
+    defaults: { principle: null },
+    searchFields: ['code', 'name', 'principle'],
+    csvColumns: { code: 'code', name: 'name', principle: 'principle' },
+    numericColumns: [],
+  },
+  'instrument-models': {
+    list: 'instrument-models',
+    entity: 'instrument-model',
+    article: 'An instrument model',
+    table: instrumentModels,
+    createSchema: instrumentModelCreateSchema,
+    updateSchema: instrumentModelUpdateSchema,
+    fields: ['code', 'name', 'manufacturer'],
+    defaults: { manufacturer: null },
+    searchFields: ['code', 'name', 'manufacturer'],
+    csvColumns: { code: 'code', name: 'name', manufacturer: 'manufacturer' },
+    numericColumns: [],
+  },
+  reagents: {
+    list: 'reagents',
+    entity: 'reagent',
+    article: 'A reagent',
+    table: reagents,
+    createSchema: reagentCreateSchema,
+    updateSchema: reagentUpdateSchema,
+    fields: ['code', 'name', 'manufacturer'],
+    defaults: { manufacturer: null },
+    searchFields: ['code', 'name', 'manufacturer'],
+    csvColumns: { code: 'code', name: 'name', manufacturer: 'manufacturer' },
+    numericColumns: [],
+  },
+  'control-materials': {
+    list: 'control-materials',
+    entity: 'control-material',
+    article: 'A control material',
+    table: controlMaterials,
+    createSchema: controlMaterialCreateSchema,
+    updateSchema: controlMaterialUpdateSchema,
+    fields: ['code', 'name', 'manufacturer', 'matrix'],
+    defaults: { manufacturer: null, matrix: null },
+    searchFields: ['code', 'name', 'manufacturer', 'matrix'],
+    csvColumns: { code: 'code', name: 'name', manufacturer: 'manufacturer', matrix: 'matrix' },
+    numericColumns: [],
+  },
+};
+
+/** The API shape of a stored row: every editable field, plus the retirement state. */
+export function simpleItem(spec: SimpleListSpec, row: CatalogueRecord): CatalogueRecord {
+  const item: CatalogueRecord = { id: row.id };
+  for (const field of spec.fields) item[field] = row[field] ?? null;
+  const retiredAt = row.retiredAt as Date | null;
+  item.retiredAt = retiredAt ? retiredAt.toISOString() : null;
+  item.retired = retiredAt !== null;
+  return item;
+}

@@ -1,0 +1,9 @@
+import { useState, type ReactNode } from 'react';
+import { QueryClientProvider, type QueryClient } from '@tanstack/react-query';
+import { createQueryClient } from '../lib/query-client.ts';
+
+/** Everything the app needs around the router. Tests pass their own QueryClient. */
+export function AppProvider({ children, queryClient }: { children: ReactNode; queryClient?: QueryClient }) {
+  const [client] = useState(() => queryClient ?? createQueryClient());
+  return <QueryClientProvider client={client}>{children}</QueryClientProvider>;
+}

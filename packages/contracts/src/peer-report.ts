@@ -1,0 +1,79 @@
+import { z } from 'zod';
+import { periodKeySchema, uuidSchema } from './common.ts';
+
+/** Peer tiers, narrowest first: instrument model + method + reagent; method; every procedure for the analyte. */
+export const peerTiers = ['instrument', 'method', 'analyte'] as const;
+export const peerTierSchema = z.enum(peerTiers);
+export type PeerTier = z.infer<typeof peerTierSchema>;
+
+export const flagSeverities = ['fine', 'acceptable', 'warning', 'action'] as const;
+export const flagSchema = z.object({
+  kind: z.enum(['sdi', 'cvr', 'exclusion']),
+  severity: z.enum(flagSeverities),
+  message: z.string(),
+});
+export type ReportFlag = z.infer<typeof flagSchema>;
+
+export const labFiguresSchema = z.object({ n: z.number().int(), mean: z.number(), sd: z.number(), cv: z.number().nullable() });
+export type LabFigures = z.infer<typeof labFiguresSchema>;
+
+export const peerFiguresSchema = z.object({
+  tier: peerTierSchema,
+  labs: z.number().int(),
+  n: z.number().int(),
+  mean: z.number(),
+  sd: z.number(),
+  cv: z.number().nullable(),
+  withinCv: z.number().nullable(),
+});
+export type PeerFigures = z.infer<typeof peerFiguresSchema>;
+
+export const peerReportRowSchema = z.object({
+  procedure: z.object({ id: uuidSchema, code: z.string() }),
+  analyte: z.object({
+    code: z.string(),
+    name: z.string(),
+    unit: z.string(),
+    decimals: z.number().int(),
+    teaPct: z.number().nullable(),
+    teaSource: z.string().nullable(),
+  }),
+  controlLot: z.object({ id: uuidSchema, lotNumber: z.string() }),
+  level: z.number().int(),
+  /** The analyte's canonical unit, in which every figure of the row is given. */
+  unit: z.string(),
+  /** 'summary' (uploaded as a monthly summary) or 'values' (derived from daily values). */
+  source: z.enum(['summary', 'values']),
+  /** The data arrived after the period was closed. */
+  late: z.boolean(),
+  lab: labFiguresSchema,
+  /** Null when no tier had enough labs. */
+  peer: peerFiguresSchema.nullable(),
+  /** Which peer group the row is compared with and, when a narrower one was passed over, why. */
+  peerNote: z.string(),
+  sdi: z.number().nullable(),
+  cvr: z.number().nullable(),
+  biasPct: z.number().nullable(),
+  sigma: z.number().nullable(),
+  cumulative: z.object({
+    lab: labFiguresSchema.nullable(),
+    peer: peerFiguresSchema.nullable(),
+    sdi: z.number().nullable(),
+    cvr: z.number().nullable(),
+  }),
+  /** Set when this lab's data was left out of the peer figures. */
+  excluded: z.object({ reason: z.enum(['outlier', 'manual']), note: z.string().nullable() }).nullable(),
+  flags: z.array(flagSchema),
+});
+export type PeerReportRow = z.infer<typeof peerReportRowSchema>;
+
+export const peerReportSchema = z.object({
+  period: periodKeySchema,
+  lab: z.object({ id: uuidSchema, code: z.string(), name: z.string() }),
+  /** The published snapshot the peer figures come from; null while they are provisional. */
+  published: z.object({ version: z.number().int(), publishedAt: z.string() }).nullable(),
+  rows: z.array(peerReportRowSchema),
+});
+export type PeerReport = z.infer<typeof peerReportSchema>;
+
+export const peerReportQuerySchema = z.object({ period: periodKeySchema });

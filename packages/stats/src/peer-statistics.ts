@@ -1,0 +1,199 @@
+import { algorithmA } from './robust-mean-sd.ts';
+import { pool } from './pool.ts';
+import { checkFinite, checkInteger, fail } from './validate.ts';
+
+/** One member lab's summary for the period. */
+export interface LabSummary {
+  id: string;
+  n: number;
+  mean: number;
+  sd: number;
+}
+
+/** Options of {@link peerStatistics}. */
+export interface PeerStatisticsOptions {
+  /** Fewest labs that must remain for the figures to be published (default 3). */
+  minLabs?: number;
+  /** Labs excluded by the coordinator; ids not present are ignored. */
+  excludeIds?: readonly string[];
+  /** Fewest labs for the Algorithm A outlier screen to run (default 5); below it no lab is excluded as an outlier. */
+  minLabsForScreening?: number;
+}
+
+/** A lab left out of the peer figures and why. */
+export interface PeerExclusion {
+  id: string;
+  reason: 'outlier' | 'manual';
+}
+
+/** Peer-group figures for one group, control lot, level and period. */
+export interface PeerStatistics {
+  /** Number of labs in the figures (after exclusions). */
+  labs: number;
+  /** Number of values in the figures. */
+  n: number;
+  /** n-weighted mean of the remaining labs' means. */
+  mean: number;
+  /** Total SD of the remaining labs' data by the pooling formula. */
+  sd: number;
+  /** 100 · sd / mean. */
+  cv: number;
+  /** Pooled within-lab SD √(Σ(nᵢ − 1)sᵢ² / Σ(nᵢ − 1)). */
+  withinSd: number;
+  /** 100 · withinSd / mean. */
+  withinCv: number;
+  /** Algorithm A robust mean x* of the lab means (after manual exclusions). */
+  robustMean: number;
+  /** Algorithm A robust SD s* of the lab means: the between-lab robust SD. */
+  robustSd: number;
+  excluded: PeerExclusion[];
+  /** True when at least minLabs labs remain. */
+  sufficient: boolean;
+}
+
+export const DEFAULT_MIN_LABS = 3;
+export const DEFAULT_MIN_LABS_FOR_SCREENING = 5;
+
+/**
+ * Peer-group statistics from member labs' summaries (METHODS.md §2).
+ *
+ * 1. Labs in `excludeIds` are left out with reason 'manual'.
+ * 2. Algorithm A (ISO 13528) gives the robust mean x* and robust SD s* of the remaining lab
+ *    means; a lab whose mean lies strictly outside x* ± 3s* is left out with reason 'outlier'.
+ *    The screen runs only with at least `minLabsForScreening` labs (default 5: with fewer, a
+ *    median-based scale rests on two or three labs) and only when s* > 0.
+ * 3. Peer mean = Σnᵢx̄ᵢ / Σnᵢ; peer SD = total SD by the pooling formula (within-lab plus
+ *    between-lab); pooled within-lab SD and CV; `sufficient` = at least `minLabs` labs remain.
+ * With one lab remaining, robustSd is NaN; with none, every figure is NaN.
+ *
+ * Source: ISO 13528:2015 Annex C.3 (Algorithm A); the x* ± 3s* limit mirrors the standard's
+ * |z| > 3 action signal (METHODS.md §2); pooling as in {@link pool}.
+ *
+ * @throws {Error} when `labs` is empty, an id is empty or repeated, a lab has n < 2, a non-finite
+ *   mean, a negative or non-finite SD, or the options are invalid.
+ * @example
+ * peerStatistics([
+ *   { id: 'a', n: 20, mean: 5.0, sd: 0.1 }, { id: 'b', n: 20, mean: 5.1, sd: 0.1 },
+ *   { id: 'c', n: 20, mean: 4.9, sd: 0.1 }, { id: 'd', n: 20, mean: 5.05, sd: 0.1 },
+ *   { id: 'e', n: 20, mean: 7.0, sd: 0.1 },
+ * ]).excluded;
+ * // => [{ id: 'e', reason: 'outlier' }]
+ */
+export function peerStatistics(labs: readonly LabSummary[], options: PeerStatisticsOptions = {}): PeerStatistics {
+  const fn = 'peerStatistics';
+  if (!Array.isArray(labs) || labs.length === 0) fail(fn, 'needs at least 1 lab, got 0');
+  const minLabs = options.minLabs ?? DEFAULT_MIN_LABS;
+  const minLabsForScreening = options.minLabsForScreening ?? DEFAULT_MIN_LABS_FOR_SCREENING;
+  checkInteger(fn, 'minLabs', minLabs, 1);
+  checkInteger(fn, 'minLabsForScreening', minLabsForScreening, 3);
+  const seen = new Set<string>();
+  labs.forEach((lab, i) => {
+    if (typeof lab.id !== 'string' || lab.id === '') fail(fn, `lab ${i} has no id`);
+    if (seen.has(lab.id)) fail(fn, `lab id '${lab.id}' appears more than once`);
+    seen.add(lab.id);
+    checkInteger(fn, `lab '${lab.id}' n`, lab.n, 2);
+    checkFinite(fn, `lab '${lab.id}' mean`, lab.mean);
+    checkFinite(fn, `lab '${lab.id}' sd`, lab.sd);
+    if (lab.sd < 0) fail(fn, `lab '${lab.id}' sd must not be negative, got ${lab.sd}`);
+  });
+
+  const manual = new Set(options.excludeIds ?? []);
+  const excluded: PeerExclusion[] = [];
+  const candidates: LabSummary[] = [];
+  for (const lab of labs) {
+    if (manual.has(lab.id)) excluded.push({ id: lab.id, reason: 'manual' });
+    else candidates.push(lab);
+  }
+
+  let robustMean = Number.NaN;
+  let robustSd = Number.NaN;
+  let kept = candidates;
+  if (candidates.length === 1) {
+    robustMean = candidates[0].mean;
+  } else if (candidates.length >= 2) {
+    const means = new Float64Array(candidates.length);
+    for (let i = 0; i < candidates.length; i++) means[i] = candidates[i].mean;
+    const robust = algorithmA(means, 1e-10, 1000);
+    robustMean = robust.mean;
+    robustSd = robust.sd;
+    if (candidates.length >= minLabsForScreening && robustSd > 0) {
+      const low = robustMean - 3 * robustSd;
+      const high = robustMean + 3 * robustSd;
+      kept = [];
+      for (const lab of candidates) {
+        if (lab.mean < low || lab.mean > high) excluded.push({ id: lab.id, reason: 'outlier' });
+        else kept.push(lab);
+      }
+    }
+  }
+
+  const base = { robustMean, robustSd, excluded, sufficient: kept.length >= minLabs };
+  if (kept.length === 0) {
+    const nan = Number.NaN;
+    return { labs: 0, n: 0, mean: nan, sd: nan, cv: nan, withinSd: nan, withinCv: nan, ...base };
+  }
+  const pooled = pool(kept);
+  return {
+    labs: kept.length,
+    n: pooled.n,
+    mean: pooled.mean,
+    sd: pooled.sd,
+    cv: (100 * pooled.sd) / pooled.mean,
+    withinSd: pooled.withinSd,
+    withinCv: (100 * pooled.withinSd) / pooled.mean,
+    ...base,
+  };
+}
+
+/** One peer tier with its member labs, narrowest first when passed to {@link selectPeerTier}. */
+export interface PeerTier<T extends string = string> {
+  tier: T;
+  labs: readonly LabSummary[];
+}
+
+/** The tier whose figures are published, and the narrower tiers passed over. */
+export interface PeerTierChoice<T extends string = string> {
+  tier: T;
+  statistics: PeerStatistics;
+  /** Narrower tiers skipped because too few labs remained (or they had no labs). */
+  skipped: { tier: T; labs: number }[];
+}
+
+/**
+ * Peer figures from the narrowest tier that keeps at least `minLabs` labs after exclusions,
+ * e.g. [instrument model + method + reagent, method principle, all procedures for the analyte].
+ * When no tier is sufficient, the broadest tier with labs is returned with `sufficient: false`.
+ *
+ * Source: METHODS.md §2 (tier fallback), a choice of this service (no published source).
+ *
+ * @throws {Error} when no tier has any lab, or as {@link peerStatistics}.
+ * @example
+ * selectPeerTier([
+ *   { tier: 'instrument', labs: [{ id: 'a', n: 20, mean: 5, sd: 0.1 }] },
+ *   { tier: 'method', labs: [
+ *     { id: 'a', n: 20, mean: 5, sd: 0.1 }, { id: 'b', n: 20, mean: 5.1, sd: 0.1 },
+ *     { id: 'c', n: 20, mean: 4.9, sd: 0.1 } ] },
+ * ]).tier;
+ * // => 'method'
+ */
+export function selectPeerTier<T extends string>(
+  tiers: readonly PeerTier<T>[],
+  options: PeerStatisticsOptions = {},
+): PeerTierChoice<T> {
+  const skipped: { tier: T; labs: number }[] = [];
+  let broadest: { tier: T; statistics: PeerStatistics; skippedIndex: number } | null = null;
+  for (const { tier, labs } of tiers) {
+    if (labs.length === 0) {
+      skipped.push({ tier, labs: 0 });
+      continue;
+    }
+    const statistics = peerStatistics(labs, options);
+    if (statistics.sufficient) return { tier, statistics, skipped };
+    broadest = { tier, statistics, skippedIndex: skipped.length };
+    skipped.push({ tier, labs: statistics.labs });
+  }
+  if (!broadest) fail('selectPeerTier', 'needs at least 1 tier with labs');
+  // The tier returned is not one of the skipped ones.
+  skipped.splice(broadest.skippedIndex, 1);
+  return { tier: broadest.tier, statistics: broadest.statistics, skipped };
+}

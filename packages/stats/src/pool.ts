@@ -1,0 +1,68 @@
+import { checkFinite, checkInteger, fail } from './validate.ts';
+
+/** One part to pool: a month, a lab, a period. */
+export interface PoolPart {
+  n: number;
+  mean: number;
+  sd: number;
+}
+
+/** Pooled figures of several parts. */
+export interface Pooled {
+  n: number;
+  mean: number;
+  /** Total SD of all values (within-part plus between-part spread). */
+  sd: number;
+  /** Pooled within-part SD, √(Σ(nᵢ − 1)sᵢ² / Σ(nᵢ − 1)); NaN when no part has n ≥ 2. */
+  withinSd: number;
+}
+
+/**
+ * Pool summaries (n, mean, SD) into the figures of all their values together:
+ * N = Σnᵢ, mean = Σnᵢx̄ᵢ / N, SS = Σ(nᵢ − 1)sᵢ² + Σnᵢ(x̄ᵢ − mean)², SD = √(SS / (N − 1)),
+ * and the pooled within-part SD √(Σ(nᵢ − 1)sᵢ² / Σ(nᵢ − 1)).
+ *
+ * Source: the analysis-of-variance decomposition of the total sum of squares (any one-way
+ * ANOVA text); METHODS.md §1. A part with n = 1 must have SD 0.
+ *
+ * @throws {Error} when there are no parts, a part has a non-integer n < 1, a non-finite mean,
+ *   a negative or non-finite SD, or all parts together hold fewer than 2 values.
+ * @example
+ * pool([{ n: 3, mean: 2, sd: 1 }, { n: 3, mean: 5, sd: 1 }]);
+ * // => { n: 6, mean: 3.5, sd: 1.8708286933869707, withinSd: 1 }
+ */
+export function pool(parts: readonly PoolPart[]): Pooled {
+  const fn = 'pool';
+  if (!Array.isArray(parts) || parts.length === 0) fail(fn, 'needs at least 1 part, got 0');
+  let total = 0;
+  parts.forEach((part, i) => {
+    checkInteger(fn, `part ${i} n`, part.n, 1);
+    checkFinite(fn, `part ${i} mean`, part.mean);
+    checkFinite(fn, `part ${i} sd`, part.sd);
+    if (part.sd < 0) fail(fn, `part ${i} sd must not be negative, got ${part.sd}`);
+    total += part.n;
+  });
+  if (total < 2) fail(fn, `needs at least 2 values in all parts together, got ${total}`);
+
+  // Work relative to the first mean so large offsets do not cost precision.
+  const offset = parts[0].mean;
+  let weighted = 0;
+  for (const part of parts) weighted += part.n * (part.mean - offset);
+  const mean = offset + weighted / total;
+
+  let withinSquares = 0;
+  let withinDegrees = 0;
+  let betweenSquares = 0;
+  for (const part of parts) {
+    withinSquares += (part.n - 1) * part.sd * part.sd;
+    withinDegrees += part.n - 1;
+    const d = part.mean - mean;
+    betweenSquares += part.n * d * d;
+  }
+  return {
+    n: total,
+    mean,
+    sd: Math.sqrt((withinSquares + betweenSquares) / (total - 1)),
+    withinSd: withinDegrees > 0 ? Math.sqrt(withinSquares / withinDegrees) : Number.NaN,
+  };
+}

@@ -1,0 +1,98 @@
+import { boxCoxLambda, boxCoxUnchecked } from './box-cox.ts';
+import { percentileOfSorted } from './percentile.ts';
+import { checkValues, fail } from './validate.ts';
+
+export interface OutlierScreen {
+  /** Values kept, in their original order. */
+  kept: number[];
+  /** Values removed, in their original order. */
+  removed: number[];
+}
+
+/**
+ * Screen reference values for outliers.
+ *
+ * 'tukey' (Horn et al.): transform the values with the maximum-likelihood Box-Cox λ
+ * ({@link boxCoxLambda}), take the quartiles Q1, Q3 of the transformed values (rank p(n + 1),
+ * interpolated) and remove values outside [Q1 − 1.5·IQR, Q3 + 1.5·IQR]; one pass. Needs values
+ * greater than 0 and at least 4 values.
+ *
+ * 'dixon' (Reed, Henry & Mason; Dixon): with D the gap between the most extreme value and its
+ * neighbour and R the range, remove the extreme when D/R ≥ 1/3; the lowest and highest are
+ * tested, and the test is repeated on what is left until neither end qualifies or fewer than 3
+ * values remain. Equal values at an end are never split (D = 0).
+ *
+ * Sources: Horn PS, Pesce AJ, Copeland BE, Clin Chem 1998;44:622–631 and Horn PS et al.,
+ * Clin Chem 2001;47:2137–2145 (Box-Cox then Tukey fences; memory); Tukey JW, Exploratory Data
+ * Analysis 1977 (fences); Reed AH, Henry RJ, Mason WB, Clin Chem 1971;17:275–284 (D/R ≥ 1/3);
+ * CLSI EP28-A3c.
+ *
+ * @throws {Error} when the method is unknown, there are too few values (4 for 'tukey', 3 for
+ *   'dixon'), a value is not finite, or ('tukey') a value is not greater than 0.
+ * @example
+ * screenOutliers([3.1, 3.3, 3.4, 3.4, 3.5, 3.6, 3.7, 3.8, 9.9], 'dixon');
+ * // => { kept: [3.1, 3.3, 3.4, 3.4, 3.5, 3.6, 3.7, 3.8], removed: [9.9] }
+ */
+export function screenOutliers(values: readonly number[], method: 'tukey' | 'dixon'): OutlierScreen {
+  const fn = 'screenOutliers';
+  if (method === 'tukey') {
+    checkValues(fn, values, 4);
+    values.forEach((v, i) => {
+      if (v <= 0) fail(fn, `Tukey screening after a Box-Cox transform needs values greater than 0; value at index ${i} is ${v}`);
+    });
+    const [low, high] = tukeyFences(values);
+    return split(values, (v) => v >= low && v <= high);
+  }
+  if (method === 'dixon') {
+    checkValues(fn, values, 3);
+    const [low, high] = dixonBounds(values);
+    return split(values, (v) => v >= low && v <= high);
+  }
+  return fail(fn, `unknown method '${String(method)}', expected 'tukey' or 'dixon'`);
+}
+
+/** Fences in the original units: back-transformation keeps the order, so compare transformed values. */
+function tukeyFences(values: readonly number[]): [number, number] {
+  const lambda = boxCoxLambda(values);
+  const transformed = Float64Array.from(values, (v) => boxCoxUnchecked(v, lambda)).sort();
+  const q1 = percentileOfSorted('screenOutliers', transformed, 0.25);
+  const q3 = percentileOfSorted('screenOutliers', transformed, 0.75);
+  const iqr = q3 - q1;
+  const lowT = q1 - 1.5 * iqr;
+  const highT = q3 + 1.5 * iqr;
+  // Smallest and largest values whose transform lies inside the fences.
+  let low = Infinity;
+  let high = -Infinity;
+  for (const v of values) {
+    const t = boxCoxUnchecked(v, lambda);
+    if (t >= lowT && t <= highT) {
+      if (v < low) low = v;
+      if (v > high) high = v;
+    }
+  }
+  return [low, high];
+}
+
+/** The smallest and largest values kept by the repeated D/R ≥ 1/3 test. */
+function dixonBounds(values: readonly number[]): [number, number] {
+  const sorted = new Float64Array(values).sort();
+  let first = 0;
+  let last = sorted.length - 1;
+  while (last - first + 1 >= 3) {
+    const range = sorted[last] - sorted[first];
+    if (range === 0) break;
+    const lowOut = (sorted[first + 1] - sorted[first]) / range >= 1 / 3;
+    const highOut = (sorted[last] - sorted[last - 1]) / range >= 1 / 3;
+    if (!lowOut && !highOut) break;
+    if (lowOut) first++;
+    if (highOut) last--;
+  }
+  return [sorted[first], sorted[last]];
+}
+
+function split(values: readonly number[], keep: (v: number) => boolean): OutlierScreen {
+  const kept: number[] = [];
+  const removed: number[] = [];
+  for (const v of values) (keep(v) ? kept : removed).push(v);
+  return { kept, removed };
+}
