@@ -42,7 +42,7 @@ for _ in $(seq 1 100); do curl -fs "http://127.0.0.1:$PORT/api/health" >/dev/nul
 cat <<MSG
 
   Plumbline is running at http://127.0.0.1:$PORT
-  Demo accounts (password: ${DEMO_PASSWORD:-plumbline-demo}):
+  Demo accounts (password: plumbline-demo, or the value of DEMO_PASSWORD at first seeding):
 $("$(tsx_bin)" packages/db/src/seed/accounts.ts 2>/dev/null | sed 's/^/    /')
 
   Press Ctrl-C to stop.

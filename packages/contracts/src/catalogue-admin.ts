@@ -219,6 +219,8 @@ export const importRowSchema = z.object({
   row: z.number(),
   action: z.enum(['create', 'update', 'error']),
   data: z.record(z.string(), z.unknown()).optional(),
+  /** For an update: the fields that change (empty when the row matches what is stored). */
+  changes: z.array(z.string()).optional(),
   errors: z.array(z.object({ column: z.string(), message: z.string() })).optional(),
 });
 export type ImportRow = z.infer<typeof importRowSchema>;

@@ -121,3 +121,57 @@ function fillFromHeaders(
 function missingRequired(kind: UploadKind, mapping: Record<string, string | null>): string[] {
   return canonicalColumns[kind].filter((c) => c.required && !mapping[c.name]).map((c) => c.name);
 }
+
+/**
+ * Splits the start of a CSV text into rows of cells (RFC 4180 quoting: fields in double quotes may hold
+ * delimiters and line breaks, "" is a quote). Reads at most `maxRows` rows; a last row cut off by the end
+ * of a partial text (`complete: false`) is dropped. Blank lines are skipped. Meant for previews of the
+ * first lines, not for whole files.
+ */
+export function parseCsvStart(
+  text: string,
+  delimiter: Delimiter,
+  options: { maxRows: number; complete: boolean },
+): string[][] {
+  const rows: string[][] = [];
+  let row: string[] = [];
+  let cell = '';
+  let quoted = false;
+  let i = 0;
+  const endRow = () => {
+    row.push(cell);
+    if (!(row.length === 1 && row[0].trim() === '')) rows.push(row);
+    row = [];
+    cell = '';
+  };
+  while (i < text.length && rows.length < options.maxRows) {
+    const ch = text[i];
+    if (quoted) {
+      if (ch === '"' && text[i + 1] === '"') {
+        cell += '"';
+        i += 2;
+        continue;
+      }
+      if (ch === '"') quoted = false;
+      else cell += ch;
+      i += 1;
+      continue;
+    }
+    if (ch === '"' && cell.trim() === '') {
+      quoted = true;
+      cell = '';
+    } else if (ch === delimiter) {
+      row.push(cell);
+      cell = '';
+    } else if (ch === '\r' || ch === '\n') {
+      if (ch === '\r' && text[i + 1] === '\n') i += 1;
+      endRow();
+    } else {
+      cell += ch;
+    }
+    i += 1;
+  }
+  // The text ended inside a row: keep it only when the text is the whole file.
+  if (rows.length < options.maxRows && (cell !== '' || row.length > 0) && options.complete && !quoted) endRow();
+  return rows;
+}

@@ -16,6 +16,8 @@ const envSchema = z.object({
   S3_ACCESS_KEY_ID: z.string().optional(),
   S3_SECRET_ACCESS_KEY: z.string().optional(),
   MAX_UPLOAD_BYTES: z.coerce.number().int().positive().default(100 * 1024 * 1024),
+  /** Redis key prefix of the BullMQ queues; the API and the worker must agree on it. */
+  QUEUE_PREFIX: z.string().min(1).default('plumbline'),
   WEB_DIST_DIR: z.string().optional(),
   PUBLIC_URL: z.string().default('http://127.0.0.1:5180'),
 });

@@ -1,1 +1,3 @@
 export * from './audit.ts';
+export * from './peer-groups.ts';
+export * from './peer-statistics.ts';

@@ -39,6 +39,8 @@ export type SimpleListSpec = {
   /** CSV column → field; `numericColumns` are parsed as numbers. */
   csvColumns: Record<string, string>;
   numericColumns: readonly string[];
+  /** Columns whose blank cell means "not given" (the default, or unchanged) rather than "no value". */
+  blankNotGivenColumns?: readonly string[];
   /** Checks that need more than one field or a library the contracts do not carry. */
   check?: (record: CatalogueRecord) => FieldError[];
 };
@@ -98,6 +100,7 @@ export const simpleListSpecs: Record<SimpleList, SimpleListSpec> = {
       tea_date: 'teaDate',
     },
     numericColumns: ['molar_mass', 'decimals', 'tea_pct'],
+    blankNotGivenColumns: ['decimals'],
     check: checkAnalyte,
   },
   methods: {

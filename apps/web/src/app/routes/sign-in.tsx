@@ -19,16 +19,21 @@ export default function SignInRoute() {
 
   return (
     <AuthLayout title="Sign in">
-      <h1 className="text-2xl font-semibold text-plumb-950">Sign in</h1>
-      <p className="mt-2 mb-8 text-sm leading-relaxed text-slate-600">
-        Use the e-mail address your lab supervisor or the network coordinator registered for you.
+      <div className="rounded-xl border border-slate-200 bg-white px-6 py-8 shadow-sm sm:px-8">
+        <h1 className="text-2xl font-semibold text-plumb-950">Sign in</h1>
+        <p className="mt-2 mb-7 text-sm leading-relaxed text-slate-600">
+          Use the e-mail address your lab supervisor or the network coordinator registered for you.
+        </p>
+        {endReason === 'expired' ? (
+          <div className="mb-5">
+            <Alert tone="info">Your session has ended. Sign in again to continue.</Alert>
+          </div>
+        ) : null}
+        <SignInForm />
+      </div>
+      <p className="mt-6 text-center text-sm text-slate-600">
+        No account yet? Your lab supervisor or the network coordinator can invite you.
       </p>
-      {endReason === 'expired' ? (
-        <div className="mb-5">
-          <Alert tone="info">Your session has ended. Sign in again to continue.</Alert>
-        </div>
-      ) : null}
-      <SignInForm />
     </AuthLayout>
   );
 }

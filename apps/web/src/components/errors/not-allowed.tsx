@@ -18,8 +18,7 @@ export function NotAllowedForRole() {
               (<strong className="font-semibold text-slate-900">{roleLabels[role]}</strong>)
             </>
           ) : null}
-          . If your work needs it, ask your lab&rsquo;s supervisor or the network coordinator to change your
-          role.
+          . If your work needs it, ask whoever manages your account to change your role.
         </p>
         {role ? (
           <p>

@@ -1,6 +1,6 @@
 // The signed-in frame: header (who and which lab), navigation for the user's role, main, footer.
-import type { ReactNode } from 'react';
-import { Link, NavLink, useNavigate } from 'react-router-dom';
+import { useEffect, useRef, type ReactNode } from 'react';
+import { Link, NavLink, useLocation, useNavigate } from 'react-router-dom';
 import type { Role } from '@plumbline/contracts';
 import { paths } from '../../config/paths.ts';
 import { useSession, useSignOut, useUser } from '../../lib/auth.tsx';
@@ -49,12 +49,27 @@ function UserMenu() {
 
 function MainNavigation({ role }: { role: Role }) {
   const sections = navigationFor(role);
+  const scroller = useRef<HTMLDivElement>(null);
+  const { pathname } = useLocation();
+
+  // On narrow screens the navigation scrolls sideways: bring the current page into view.
+  useEffect(() => {
+    const container = scroller.current;
+    const current = container?.querySelector<HTMLElement>('[aria-current="page"]');
+    if (!container || !current || container.scrollWidth <= container.clientWidth) return;
+    container.scrollLeft +=
+      current.getBoundingClientRect().left - container.getBoundingClientRect().left - 16;
+  }, [pathname]);
+
   return (
     <nav
       aria-label="Main"
       className="border-b border-slate-200 bg-white md:w-60 md:shrink-0 md:border-r md:border-b-0"
     >
-      <div className="flex gap-6 overflow-x-auto px-4 py-2 md:sticky md:top-0 md:flex-col md:gap-6 md:px-4 md:py-6">
+      <div
+        ref={scroller}
+        className="flex gap-1 overflow-x-auto px-4 py-2 md:sticky md:top-0 md:flex-col md:gap-6 md:px-4 md:py-6"
+      >
         {sections.map((section) => (
           <div key={section.title} className="shrink-0">
             <p className="hidden px-3 pb-2 text-[0.7rem] font-semibold tracking-[0.14em] text-slate-500 uppercase md:block">

@@ -19,7 +19,7 @@ export function AuthLayout({ title, children }: { title: string; children: React
             className="pointer-events-none absolute top-0 right-16 hidden h-[58%] flex-col items-center lg:flex"
           >
             <div className="w-px flex-1 bg-gradient-to-b from-plumb-800 to-plumb-300" />
-            <PlumbMark className="-mt-9 h-16 w-12" lineClassName="text-transparent" />
+            <PlumbMark className="-mt-[45px] h-20 w-[60px]" lineClassName="text-transparent" />
           </div>
           <div className="mt-auto hidden max-w-md lg:block">
             <p className="text-3xl leading-tight font-semibold text-white">
@@ -50,7 +50,7 @@ export function AuthLayout({ title, children }: { title: string; children: React
           tabIndex={-1}
           className="flex flex-1 items-center justify-center px-6 py-12 focus:outline-none"
         >
-          <div className="w-full max-w-sm">{children}</div>
+          <div className="w-full max-w-[26rem]">{children}</div>
         </main>
       </div>
       <SiteFooter />
