@@ -7,7 +7,14 @@ import { errorHandler, notFoundHandler, requestId } from './http/error-handler.t
 import { authRouter } from './modules/auth/auth.router.ts';
 import { healthRouter } from './modules/health/health.router.ts';
 import { labsRouter } from './modules/labs/labs.router.ts';
+import { uploadsRouter } from './modules/uploads/uploads.router.ts';
+import { labTokensRouter } from './modules/lab-tokens/lab-tokens.router.ts';
+import { lookupsRouter } from './modules/lookups/lookups.router.ts';
+import { peerReportRouter } from './modules/peer-report/peer-report.router.ts';
 import { auditRouter } from './modules/audit/audit.router.ts';
+import { catalogueAdminRouter } from './modules/catalogue-admin/catalogue-admin.router.ts';
+import { networkLabsRouter } from './modules/network-labs/network-labs.router.ts';
+import { cyclesRouter } from './modules/cycles/cycles.router.ts';
 
 /** Builds the HTTP app (never listens, so tests drive it in-process). */
 export function createApp(deps: AppDeps): Express {
@@ -16,6 +23,8 @@ export function createApp(deps: AppDeps): Express {
   app.set('trust proxy', 'loopback');
   const passportInstance = configurePassport(deps.db, deps.env.JWT_SECRET);
   const requireUser = authenticate(deps.db, passportInstance);
+  // Lab API tokens are accepted on the upload routes only (POST /uploads, GET /uploads/:id).
+  const requireUploader = authenticate(deps.db, passportInstance, { allowLabTokens: true });
 
   const api = Router();
   api.use(requestId);
@@ -24,7 +33,14 @@ export function createApp(deps: AppDeps): Express {
   api.use(healthRouter(deps));
   api.use(authRouter(deps, passportInstance));
   api.use(labsRouter(deps, requireUser));
+  api.use(uploadsRouter(deps, { requireUser, requireUploader }));
+  api.use(labTokensRouter(deps, requireUser));
+  api.use(lookupsRouter(deps, requireUser));
+  api.use(peerReportRouter(deps, requireUser));
   api.use(auditRouter(deps, requireUser));
+  api.use(catalogueAdminRouter(deps, requireUser));
+  api.use(networkLabsRouter(deps, requireUser));
+  api.use(cyclesRouter(deps, requireUser));
   api.use(notFoundHandler);
   api.use(errorHandler);
   app.use('/api', api);

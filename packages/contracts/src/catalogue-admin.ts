@@ -38,7 +38,8 @@ export function loincProblem(code: string): string | null {
   const match = LOINC_FORMAT.exec(code);
   if (!match) return 'expected a LOINC code as digits, a hyphen and a check digit, e.g. 2345-7';
   const expected = loincCheckDigit(match[1]);
-  if (expected !== Number(match[2])) return `LOINC check digit does not match: ${match[1]}-${expected} expected`;
+  if (expected !== Number(match[2]))
+    return `LOINC check digit does not match: ${match[1]}-${expected} expected`;
   return null;
 }
 
@@ -46,7 +47,8 @@ export function loincProblem(code: string): string | null {
 const blankToNull = (value: unknown) => (typeof value === 'string' && value.trim() === '' ? null : value);
 
 /** An optional, clearable text field: undefined leaves a stored value alone, null (or '') clears it. */
-const optionalText = (max: number) => z.preprocess(blankToNull, z.string().trim().max(max).nullable()).optional();
+const optionalText = (max: number) =>
+  z.preprocess(blankToNull, z.string().trim().max(max).nullable()).optional();
 
 export const catalogueCodeSchema = z
   .string()
@@ -78,7 +80,12 @@ const analyteFields = {
   molarMass: z.number().positive('must be greater than 0').max(10_000_000).nullable().optional(),
   decimals: z.number().int('must be a whole number').min(0).max(6).optional(),
   /** Total allowable error, percent. */
-  teaPct: z.number().positive('must be greater than 0').max(100, 'must be at most 100 %').nullable().optional(),
+  teaPct: z
+    .number()
+    .positive('must be greater than 0')
+    .max(100, 'must be at most 100 %')
+    .nullable()
+    .optional(),
   teaSource: optionalText(300),
   teaDate: z.preprocess(blankToNull, z.iso.date('expected a date as YYYY-MM-DD').nullable()).optional(),
 };
@@ -93,9 +100,16 @@ const methodFields = { code: catalogueCodeSchema, name: nameSchema, principle: o
 export const methodCreateSchema = z.object({ ...methodFields, reason: optionalText(500) });
 export const methodUpdateSchema = z.object({ ...partialFields(methodFields), reason: optionalText(500) });
 
-const instrumentModelFields = { code: catalogueCodeSchema, name: nameSchema, manufacturer: optionalText(200) };
+const instrumentModelFields = {
+  code: catalogueCodeSchema,
+  name: nameSchema,
+  manufacturer: optionalText(200),
+};
 export const instrumentModelCreateSchema = z.object({ ...instrumentModelFields, reason: optionalText(500) });
-export const instrumentModelUpdateSchema = z.object({ ...partialFields(instrumentModelFields), reason: optionalText(500) });
+export const instrumentModelUpdateSchema = z.object({
+  ...partialFields(instrumentModelFields),
+  reason: optionalText(500),
+});
 
 const reagentFields = { code: catalogueCodeSchema, name: nameSchema, manufacturer: optionalText(200) };
 export const reagentCreateSchema = z.object({ ...reagentFields, reason: optionalText(500) });
@@ -108,7 +122,10 @@ const controlMaterialFields = {
   matrix: optionalText(200),
 };
 export const controlMaterialCreateSchema = z.object({ ...controlMaterialFields, reason: optionalText(500) });
-export const controlMaterialUpdateSchema = z.object({ ...partialFields(controlMaterialFields), reason: optionalText(500) });
+export const controlMaterialUpdateSchema = z.object({
+  ...partialFields(controlMaterialFields),
+  reason: optionalText(500),
+});
 
 // ---------- control lots ----------
 
@@ -123,7 +140,8 @@ const controlLotLevelsSchema = z
   .superRefine((levels, ctx) => {
     const seen = new Set<number>();
     levels.forEach((l, i) => {
-      if (seen.has(l.level)) ctx.addIssue({ code: 'custom', path: [i, 'level'], message: `level ${l.level} is listed twice` });
+      if (seen.has(l.level))
+        ctx.addIssue({ code: 'custom', path: [i, 'level'], message: `level ${l.level} is listed twice` });
       seen.add(l.level);
     });
   });
@@ -134,7 +152,10 @@ const controlLotFields = {
   levels: controlLotLevelsSchema,
 };
 export const controlLotCreateSchema = z.object({ ...controlLotFields, reason: optionalText(500) });
-export const controlLotUpdateSchema = z.object({ ...partialFields(controlLotFields), reason: optionalText(500) });
+export const controlLotUpdateSchema = z.object({
+  ...partialFields(controlLotFields),
+  reason: optionalText(500),
+});
 export type ControlLotCreate = z.infer<typeof controlLotCreateSchema>;
 export type ControlLotUpdate = z.infer<typeof controlLotUpdateSchema>;
 
@@ -158,7 +179,13 @@ export const analyteItemSchema = z.object({
   teaDate: z.string().nullable(),
   ...retirable,
 });
-export const methodItemSchema = z.object({ id: uuidSchema, code: z.string(), name: z.string(), principle: z.string().nullable(), ...retirable });
+export const methodItemSchema = z.object({
+  id: uuidSchema,
+  code: z.string(),
+  name: z.string(),
+  principle: z.string().nullable(),
+  ...retirable,
+});
 export const instrumentModelItemSchema = z.object({
   id: uuidSchema,
   code: z.string(),
@@ -245,11 +272,16 @@ export const catalogueCsvColumns = {
   'instrument-models': { required: ['code', 'name'], optional: ['manufacturer'] },
   reagents: { required: ['code', 'name'], optional: ['manufacturer'] },
   'control-materials': { required: ['code', 'name'], optional: ['manufacturer', 'matrix'] },
-  'control-lots': { required: ['lot_number', 'material_code', 'expires_on', 'levels'], optional: ['level_descriptions'] },
+  'control-lots': {
+    required: ['lot_number', 'material_code', 'expires_on', 'levels'],
+    optional: ['level_descriptions'],
+  },
 } as const satisfies Record<CatalogueList, { required: readonly string[]; optional: readonly string[] }>;
 
 /** Makes every field optional (for PATCH bodies) while keeping each field's own checks. */
-function partialFields<T extends Record<string, z.ZodType>>(fields: T): { [K in keyof T]: z.ZodOptional<T[K]> } {
+function partialFields<T extends Record<string, z.ZodType>>(
+  fields: T,
+): { [K in keyof T]: z.ZodOptional<T[K]> } {
   return Object.fromEntries(Object.entries(fields).map(([k, v]) => [k, v.optional()])) as {
     [K in keyof T]: z.ZodOptional<T[K]>;
   };

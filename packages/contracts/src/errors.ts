@@ -8,6 +8,7 @@ export const errorCodes = [
   'forbidden',
   'not_found',
   'conflict',
+  'gone',
   'payload_too_large',
   'unsupported_media_type',
   'service_unavailable',

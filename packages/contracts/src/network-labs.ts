@@ -2,7 +2,10 @@ import { z } from 'zod';
 import { uuidSchema } from './common.ts';
 
 const reasonSchema = z
-  .preprocess((v) => (typeof v === 'string' && v.trim() === '' ? null : v), z.string().trim().max(500).nullable())
+  .preprocess(
+    (v) => (typeof v === 'string' && v.trim() === '' ? null : v),
+    z.string().trim().max(500).nullable(),
+  )
   .optional();
 
 // ---------- labs ----------
@@ -57,7 +60,13 @@ export type InvitationCreate = z.input<typeof invitationCreateSchema>;
 
 export const invitationCreatedSchema = z.object({
   invitationId: uuidSchema,
-  user: z.object({ id: uuidSchema, email: z.string(), name: z.string(), role: labRoleSchema, labId: uuidSchema }),
+  user: z.object({
+    id: uuidSchema,
+    email: z.string(),
+    name: z.string(),
+    role: labRoleSchema,
+    labId: uuidSchema,
+  }),
   expiresAt: z.string(),
   /** Shown to the inviter until invitations are e-mailed. */
   link: z.string(),
@@ -98,7 +107,9 @@ export type LabUser = z.infer<typeof labUserSchema>;
 
 export const labUserUpdateSchema = z
   .object({ role: labRoleSchema.optional(), active: z.boolean().optional(), reason: reasonSchema })
-  .refine((v) => v.role !== undefined || v.active !== undefined, { message: 'give a role or an active flag to change' });
+  .refine((v) => v.role !== undefined || v.active !== undefined, {
+    message: 'give a role or an active flag to change',
+  });
 export type LabUserUpdate = z.infer<typeof labUserUpdateSchema>;
 
 // ---------- procedures across the network ----------

@@ -13,3 +13,8 @@ export function createDb(url: string = process.env.DATABASE_URL ?? DEFAULT_DATAB
   const db = drizzle(pool, { schema, casing: 'snake_case' });
   return { db, pool };
 }
+
+/** A Drizzle handle on one checked-out connection, for work that mixes Drizzle queries with COPY in one transaction. */
+export function dbOnClient(client: pg.PoolClient): Database {
+  return drizzle(client, { schema, casing: 'snake_case' }) as unknown as Database;
+}

@@ -73,3 +73,4 @@ export async function createScratchDatabase(label = 'test'): Promise<ScratchData
     },
   };
 }
+export * from './qc-fixtures.ts';

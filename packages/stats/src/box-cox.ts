@@ -2,7 +2,7 @@ import { checkFinite, checkValues, fail } from './validate.ts';
 
 /**
  * Box-Cox power transform of one positive value: (x^λ − 1) / λ, or ln x when λ = 0.
- * Computed as expm1(λ ln x) / λ so that λ near 0 loses no precision.
+ * Computed as expm1(λ ln x) / λ so that λ near 0 loses no precision; |λ| < 1e-12 counts as 0.
  *
  * Source: Box GEP, Cox DR. An analysis of transformations. J R Stat Soc B 1964;26:211–252.
  *
@@ -16,10 +16,14 @@ export function boxCox(x: number, lambda: number): number {
   return boxCoxUnchecked(x, lambda);
 }
 
+// Below this |λ| the transform is taken as ln x: the difference is about λ(ln x)²/2, and tiny
+// (subnormal) λ would lose all precision in λ · ln x.
+const LOG_LAMBDA = 1e-12;
+
 /** Box-Cox transform without input checks, for inner loops over checked data. */
 export function boxCoxUnchecked(x: number, lambda: number): number {
   const logX = Math.log(x);
-  return lambda === 0 ? logX : Math.expm1(lambda * logX) / lambda;
+  return Math.abs(lambda) < LOG_LAMBDA ? logX : Math.expm1(lambda * logX) / lambda;
 }
 
 /**
@@ -40,7 +44,7 @@ export function boxCoxInverse(y: number, lambda: number): number {
 
 /** Inverse Box-Cox transform without input checks. */
 export function boxCoxInverseUnchecked(y: number, lambda: number): number {
-  if (lambda === 0) return Math.exp(y);
+  if (Math.abs(lambda) < LOG_LAMBDA) return Math.exp(y);
   const base = lambda * y + 1;
   return base > 0 ? Math.exp(Math.log1p(lambda * y) / lambda) : Number.NaN;
 }
@@ -111,11 +115,12 @@ function logLikelihood(logs: Float64Array, sumLogs: number, lambda: number): num
   const n = logs.length;
   // Two-pass variance of the transformed values.
   let mean = 0;
-  for (const l of logs) mean += lambda === 0 ? l : Math.expm1(lambda * l) / lambda;
+  const asLog = Math.abs(lambda) < LOG_LAMBDA;
+  for (const l of logs) mean += asLog ? l : Math.expm1(lambda * l) / lambda;
   mean /= n;
   let squares = 0;
   for (const l of logs) {
-    const d = (lambda === 0 ? l : Math.expm1(lambda * l) / lambda) - mean;
+    const d = (asLog ? l : Math.expm1(lambda * l) / lambda) - mean;
     squares += d * d;
   }
   return -(n / 2) * Math.log(squares / n) + (lambda - 1) * sumLogs;

@@ -54,20 +54,20 @@ export function harmoniseIntervals(sites: readonly SiteValues[], options: Harmon
     if (typeof site.id !== 'string' || site.id === '') fail(fn, 'every site needs an id');
     if (ids.has(site.id)) fail(fn, `site id '${site.id}' appears more than once`);
     ids.add(site.id);
-    checkValues(fn, site.values, 2, `values of site '${site.id}'`);
+    checkValues(fn, site.values, 2, ` of site '${site.id}'`);
   }
   const all = sites.flatMap((site) => [...site.values]);
   const transform = options.transform ?? 'none';
   if (transform !== 'none' && transform !== 'box-cox') fail(fn, `unknown transform '${String(transform)}'`);
   let lambda: number | null = null;
-  let compared = sites.map((site) => site.values);
+  let compared: readonly (readonly number[])[] = sites.map((site) => site.values);
   if (transform === 'box-cox') {
     all.forEach((v) => {
       if (v <= 0) fail(fn, `a Box-Cox transform needs values greater than 0, got ${v}`);
     });
     const fitted = boxCoxLambda(all);
     lambda = fitted;
-    compared = sites.map((site) => site.values.map((v) => boxCoxUnchecked(v, fitted)));
+    compared = sites.map((site) => site.values.map((v: number) => boxCoxUnchecked(v, fitted)));
   }
   const comparisons: SiteComparison[] = [];
   for (let i = 0; i < sites.length; i++) {

@@ -28,8 +28,8 @@ export interface HarrisBoydResult {
  */
 export function harrisBoyd(a: readonly number[], b: readonly number[]): HarrisBoydResult {
   const fn = 'harrisBoyd';
-  checkValues(fn, a, 2, 'values in the first group');
-  checkValues(fn, b, 2, 'values in the second group');
+  checkValues(fn, a, 2, ' in the first group');
+  checkValues(fn, b, 2, ' in the second group');
   const first = summarize(a);
   const second = summarize(b);
   if (first.sd === 0 && second.sd === 0) fail(fn, 'both groups have SD 0, so the test is undefined');

@@ -60,8 +60,9 @@ export const DEFAULT_MIN_LABS_FOR_SCREENING = 5;
  * 1. Labs in `excludeIds` are left out with reason 'manual'.
  * 2. Algorithm A (ISO 13528) gives the robust mean x* and robust SD s* of the remaining lab
  *    means; a lab whose mean lies strictly outside x* ± 3s* is left out with reason 'outlier'.
- *    The screen runs only with at least `minLabsForScreening` labs (default 5: with fewer, a
- *    median-based scale rests on two or three labs) and only when s* > 0.
+ *    The screen runs only with at least `minLabsForScreening` labs (default 5: with 4 labs, one
+ *    far lab breaks Algorithm A down to the plain mean and SD), only when s* > 0 and only when
+ *    Algorithm A converged.
  * 3. Peer mean = Σnᵢx̄ᵢ / Σnᵢ; peer SD = total SD by the pooling formula (within-lab plus
  *    between-lab); pooled within-lab SD and CV; `sufficient` = at least `minLabs` labs remain.
  * With one lab remaining, robustSd is NaN; with none, every figure is NaN.
@@ -116,7 +117,7 @@ export function peerStatistics(labs: readonly LabSummary[], options: PeerStatist
     const robust = algorithmA(means, 1e-10, 1000);
     robustMean = robust.mean;
     robustSd = robust.sd;
-    if (candidates.length >= minLabsForScreening && robustSd > 0) {
+    if (candidates.length >= minLabsForScreening && robustSd > 0 && robust.converged) {
       const low = robustMean - 3 * robustSd;
       const high = robustMean + 3 * robustSd;
       kept = [];

@@ -8,6 +8,8 @@ export interface RobustMeanSd {
   sd: number;
   /** Number of iterations done after the start values (0 = start values only). */
   iterations: number;
+  /** False when the iteration cap was reached before the stopping rule was met. */
+  converged: boolean;
 }
 
 /** Options of {@link robustMeanSd}. */
@@ -27,8 +29,11 @@ export interface RobustMeanSdOptions {
  *
  * Stopping rule (our choice, stricter than the standard's "no change in the third significant
  * figure"): stop when both x* and s* change by less than `tolerance` · s* from one iteration to
- * the next, or after `maxIterations`. When s* is 0 at the start (more than half the values equal)
- * the start values are returned: winsorising cannot move them.
+ * the next, or after `maxIterations` (then `converged` is false). When s* is 0 at the start (more
+ * than half the values equal) the start values are returned: winsorising cannot move them.
+ * With very few values one far value breaks the estimate down: with 3 values close together and 1
+ * far away, s* grows by the factor 1.134 in every iteration until the far value is no longer
+ * clipped, ending at the plain mean and 1.134 · SD; from 5 values on, one far value cannot do this.
  *
  * Source: ISO 13528:2015, Annex C.3 (Algorithm A); worked example in ISO 13528:2015 Annex E.3 /
  * ISO 5725-5:1998 §6.2.
@@ -36,7 +41,7 @@ export interface RobustMeanSdOptions {
  * @throws {Error} when there are fewer than 2 values, a value is not finite, or the options are invalid.
  * @example
  * robustMeanSd([1.69, 0.74, 2.05, 1.14, 2.19, 1.39, 1.52, 1.50, 1.58, 0.80, 1.21, 1.63]);
- * // => { mean: 1.4533333..., sd: 0.4961481..., iterations: ... } (see the test for all digits)
+ * // => { mean: 1.4533333333333331, sd: 0.49614831763385936, iterations: 6, converged: true }
  */
 export function robustMeanSd(values: readonly number[], options: RobustMeanSdOptions = {}): RobustMeanSd {
   const fn = 'robustMeanSd';
@@ -57,9 +62,10 @@ export function algorithmA(work: Float64Array, tolerance: number, maxIterations:
   for (let i = 0; i < p; i++) work[i] = Math.abs(values[i] - mean);
   work.sort();
   let sd = 1.483 * medianOfSorted(work);
-  if (sd === 0) return { mean, sd, iterations: 0 };
+  if (sd === 0) return { mean, sd, iterations: 0, converged: true };
 
   let iterations = 0;
+  let converged = false;
   while (iterations < maxIterations) {
     const delta = 1.5 * sd;
     const low = mean - delta;
@@ -78,10 +84,10 @@ export function algorithmA(work: Float64Array, tolerance: number, maxIterations:
     }
     const nextSd = 1.134 * Math.sqrt(squares / (p - 1));
     iterations++;
-    const converged = Math.abs(nextMean - mean) < tolerance * nextSd && Math.abs(nextSd - sd) < tolerance * nextSd;
+    converged = Math.abs(nextMean - mean) < tolerance * nextSd && Math.abs(nextSd - sd) < tolerance * nextSd;
     mean = nextMean;
     sd = nextSd;
     if (converged) break;
   }
-  return { mean, sd, iterations };
+  return { mean, sd, iterations, converged };
 }

@@ -6,14 +6,23 @@ export function fail(fn: string, problem: string): never {
   throw new Error(`${fn}: ${problem}`);
 }
 
-/** Checks that `values` is an array of at least `min` finite numbers. */
-export function checkValues(fn: string, values: readonly number[], min: number, what = 'values'): void {
-  if (!Array.isArray(values)) fail(fn, `${what} must be an array of numbers`);
-  if (values.length < min) fail(fn, `needs at least ${min} ${what}, got ${values.length}`);
+/**
+ * Checks that `values` is an array of at least `min` finite numbers. `suffix` places the values,
+ * e.g. " in the first group"; `noun` is the plural and singular used in messages.
+ */
+export function checkValues(
+  fn: string,
+  values: readonly number[],
+  min: number,
+  suffix = '',
+  noun: [string, string] = ['values', 'value'],
+): void {
+  if (!Array.isArray(values)) fail(fn, `${noun[0]}${suffix} must be an array of numbers`);
+  if (values.length < min) fail(fn, `needs at least ${min} ${noun[0]}${suffix}, got ${values.length}`);
   for (let i = 0; i < values.length; i++) {
     const v = values[i];
     if (typeof v !== 'number' || !Number.isFinite(v)) {
-      fail(fn, `${what} at index ${i} is not a finite number (${String(v)})`);
+      fail(fn, `${noun[1]} at index ${i}${suffix} is not a finite number (${String(v)})`);
     }
   }
 }

@@ -25,7 +25,7 @@ export interface IntervalVerification {
  */
 export function verifyInterval(values: readonly number[], interval: readonly [number, number]): IntervalVerification {
   const fn = 'verifyInterval';
-  checkValues(fn, values, 0, 'results');
+  checkValues(fn, values, 0, '', ['results', 'result']);
   if (values.length !== 20) fail(fn, `needs exactly 20 results, got ${values.length}`);
   if (!Array.isArray(interval) || interval.length !== 2) fail(fn, 'interval must be [lower, upper]');
   const [lower, upper] = interval;

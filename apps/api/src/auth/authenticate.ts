@@ -29,8 +29,15 @@ export function configurePassport(db: Database, secret: string): passport.Passpo
 async function userFromClaims(db: Database, claims: SessionClaims): Promise<Principal | null> {
   const [revoked] = await db.select().from(revokedSessions).where(eq(revokedSessions.jti, claims.jti)).limit(1);
   if (revoked) return null;
-  const [user] = await db.select().from(users).where(eq(users.id, claims.sub)).limit(1);
-  if (!user || !user.active) return null;
+  const [row] = await db
+    .select({ user: users, labActive: labs.active })
+    .from(users)
+    .leftJoin(labs, eq(labs.id, users.labId))
+    .where(eq(users.id, claims.sub))
+    .limit(1);
+  const user = row?.user;
+  // A deactivated account, or an account of a deactivated lab, can no longer act.
+  if (!user || !user.active || row.labActive === false) return null;
   return {
     kind: 'user',
     userId: user.id,

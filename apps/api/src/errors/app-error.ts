@@ -7,6 +7,7 @@ const statusByCode: Record<ErrorCode, number> = {
   forbidden: 403,
   not_found: 404,
   conflict: 409,
+  gone: 410,
   payload_too_large: 413,
   unsupported_media_type: 415,
   service_unavailable: 503,

@@ -8,15 +8,33 @@ import { createApp } from '../app.ts';
 import { signSession } from '../auth/jwt.ts';
 import { hashPassword } from '../auth/passwords.ts';
 import type { AppDeps } from '../deps.ts';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { LocalFileStorage } from '../storage/local-storage.ts';
+import { createIngestQueue } from '../queues/ingest-queue.ts';
 
 export const TEST_PASSWORD = 'correct horse battery staple';
 
 /** An in-process app on its own scratch database and the real Redis, with helpers to make labs and users. */
-export async function createTestApp(label: string) {
+export async function createTestApp(label: string, options: { env?: Record<string, string> } = {}) {
   const scratch: ScratchDatabase = await createScratchDatabase(label);
-  const env = loadEnv({ ...process.env, NODE_ENV: 'test', DATABASE_URL: scratch.url, JWT_SECRET: randomBytes(32).toString('hex') });
+  // Each test app has its own storage directory and queue prefix, so parallel test files never share jobs.
+  const storageDir = mkdtempSync(join(tmpdir(), `plumbline-${label.replace(/[^a-z0-9]/gi, '')}-`));
+  const queuePrefix = `plumbline-test-${label.replace(/[^a-z0-9]/gi, '')}-${randomBytes(4).toString('hex')}`;
+  const env = loadEnv({
+    ...process.env,
+    NODE_ENV: 'test',
+    DATABASE_URL: scratch.url,
+    JWT_SECRET: randomBytes(32).toString('hex'),
+    STORAGE_DIR: storageDir,
+    QUEUE_PREFIX: queuePrefix,
+    S3_BUCKET: '',
+    ...options.env,
+  });
   const redis = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null, lazyConnect: false });
-  const deps: AppDeps = { env, db: scratch.db, redis };
+  const ingestQueue = createIngestQueue(redis, queuePrefix);
+  const deps: AppDeps = { env, db: scratch.db, redis, storage: new LocalFileStorage(storageDir), ingestQueue };
   const app = createApp(deps);
   let passwordHash: string | null = null;
 
@@ -43,10 +61,12 @@ export async function createTestApp(label: string) {
   }
 
   async function close() {
+    await ingestQueue.close().catch(() => {});
     redis.disconnect();
     await scratch.drop();
+    rmSync(storageDir, { recursive: true, force: true });
   }
 
-  return { app, deps, env, db: scratch.db, makeLab, makeUser, close };
+  return { app, deps, env, db: scratch.db, databaseUrl: scratch.url, storageDir, queuePrefix, makeLab, makeUser, close };
 }
 export type TestApp = Awaited<ReturnType<typeof createTestApp>>;

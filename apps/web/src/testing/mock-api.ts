@@ -1,7 +1,14 @@
 // Replaces fetch with answers keyed by "METHOD /path" (path without the query string).
 import { vi } from 'vitest';
 
-export type RecordedRequest = { method: string; path: string; headers: Headers; body: unknown };
+export type RecordedRequest = {
+  method: string;
+  path: string;
+  /** The query string's parameters (handlers are keyed by path only). */
+  query: URLSearchParams;
+  headers: Headers;
+  body: unknown;
+};
 export type MockAnswer = { status: number; body?: unknown };
 type Handler = MockAnswer | ((request: RecordedRequest) => MockAnswer);
 
@@ -19,7 +26,13 @@ export function mockApi(handlers: Record<string, Handler>) {
     const url = new URL(String(input), 'http://localhost');
     const method = (init.method ?? 'GET').toUpperCase();
     const body = typeof init.body === 'string' ? JSON.parse(init.body) : init.body;
-    const request: RecordedRequest = { method, path: url.pathname, headers: new Headers(init.headers), body };
+    const request: RecordedRequest = {
+      method,
+      path: url.pathname,
+      query: url.searchParams,
+      headers: new Headers(init.headers),
+      body,
+    };
     requests.push(request);
     const handler = handlers[`${method} ${url.pathname}`];
     if (!handler) {

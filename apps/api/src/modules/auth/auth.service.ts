@@ -11,8 +11,14 @@ export async function signIn(
   jwtSecret: string,
   ttlSeconds: number,
 ): Promise<LoginResponse> {
-  const [user] = await db.select().from(users).where(eq(users.email, input.email.toLowerCase())).limit(1);
-  const ok = user && user.active && (await verifyPassword(user.passwordHash, input.password));
+  const [row] = await db
+    .select({ user: users, labActive: labs.active })
+    .from(users)
+    .leftJoin(labs, eq(labs.id, users.labId))
+    .where(eq(users.email, input.email.toLowerCase()))
+    .limit(1);
+  const user = row?.user;
+  const ok = user && user.active && row.labActive !== false && (await verifyPassword(user.passwordHash, input.password));
   if (!user || !ok) throw unauthenticated('The e-mail address or password is incorrect.');
   const { token, expiresAt } = signSession(user, jwtSecret, ttlSeconds);
   await recordAudit(db, { kind: 'auth.sign-in', actorId: user.id, labId: user.labId });

@@ -134,3 +134,16 @@ describe('health', () => {
     expect(res.body.error.code).toBe('not_found');
   });
 });
+
+describe('deactivated labs', () => {
+  it("when a lab is deactivated, then its users can neither sign in nor use an existing session", async () => {
+    const { labs } = await import('@plumbline/db');
+    const { eq } = await import('drizzle-orm');
+    const lab = await t.makeLab();
+    const user = await t.makeUser('analyst', lab.id);
+    await t.db.update(labs).set({ active: false }).where(eq(labs.id, lab.id));
+    const login = await request(t.app).post('/api/auth/login').send({ email: user.email, password: TEST_PASSWORD });
+    expect(login.status).toBe(401);
+    expect((await request(t.app).get('/api/me').set('Authorization', user.auth)).status).toBe(401);
+  });
+});

@@ -1,4 +1,17 @@
-import { and, asc, count, desc, eq, getTableColumns, ilike, inArray, isNotNull, isNull, or, type SQL } from 'drizzle-orm';
+import {
+  and,
+  asc,
+  count,
+  desc,
+  eq,
+  getTableColumns,
+  ilike,
+  inArray,
+  isNotNull,
+  isNull,
+  or,
+  type SQL,
+} from 'drizzle-orm';
 import type { AnyPgColumn } from 'drizzle-orm/pg-core';
 import {
   controlLotLevels,
@@ -51,7 +64,11 @@ export async function listSimpleRows(
   return { total, rows: rows as CatalogueRecord[] };
 }
 
-export async function findSimpleRow(db: Executor, spec: SimpleListSpec, id: string): Promise<CatalogueRecord | null> {
+export async function findSimpleRow(
+  db: Executor,
+  spec: SimpleListSpec,
+  id: string,
+): Promise<CatalogueRecord | null> {
   const columns = columnsOf(spec.table);
   const [row] = await db.select().from(spec.table).where(eq(columns.id, id)).limit(1);
   return (row as CatalogueRecord | undefined) ?? null;
@@ -68,7 +85,11 @@ export async function findSimpleRowsByCode(
   return new Map(rows.map((row) => [row.code as string, row]));
 }
 
-export async function insertSimpleRow(db: Executor, spec: SimpleListSpec, values: CatalogueRecord): Promise<CatalogueRecord> {
+export async function insertSimpleRow(
+  db: Executor,
+  spec: SimpleListSpec,
+  values: CatalogueRecord,
+): Promise<CatalogueRecord> {
   // The values were checked against the list's contract; the cast only bridges the union of tables.
   const [row] = await db
     .insert(spec.table)
@@ -94,7 +115,11 @@ export async function updateSimpleRow(
 
 /** Whether any lab's measurement procedure names this analyte (its canonical unit is then fixed). */
 export async function analyteHasProcedures(db: Executor, analyteId: string): Promise<boolean> {
-  const rows = await db.select({ id: procedures.id }).from(procedures).where(eq(procedures.analyteId, analyteId)).limit(1);
+  const rows = await db
+    .select({ id: procedures.id })
+    .from(procedures)
+    .where(eq(procedures.analyteId, analyteId))
+    .limit(1);
   return rows.length > 0;
 }
 
@@ -165,7 +190,11 @@ export async function listLotRows(
   if (query.q) {
     const pattern = containsPattern(query.q);
     conditions.push(
-      or(ilike(controlLots.lotNumber, pattern), ilike(controlMaterials.code, pattern), ilike(controlMaterials.name, pattern)),
+      or(
+        ilike(controlLots.lotNumber, pattern),
+        ilike(controlMaterials.code, pattern),
+        ilike(controlMaterials.name, pattern),
+      ),
     );
   }
   const where = and(...conditions);
@@ -227,9 +256,9 @@ export type LotValues = {
 
 async function writeLevels(db: Executor, lotId: string, levels: LotValues['levels']) {
   await db.delete(controlLotLevels).where(eq(controlLotLevels.controlLotId, lotId));
-  await db.insert(controlLotLevels).values(
-    levels.map((l) => ({ controlLotId: lotId, level: l.level, description: l.description })),
-  );
+  await db
+    .insert(controlLotLevels)
+    .values(levels.map((l) => ({ controlLotId: lotId, level: l.level, description: l.description })));
 }
 
 const levelNumbers = (levels: LotValues['levels']) => levels.map((l) => l.level).sort((a, b) => a - b);

@@ -1,5 +1,10 @@
 import { Router, type Request, type RequestHandler } from 'express';
-import { catalogueImportQuerySchema, catalogueListSchema, catalogueLists, type CatalogueList } from '@plumbline/contracts';
+import {
+  catalogueImportQuerySchema,
+  catalogueListSchema,
+  catalogueLists,
+  type CatalogueList,
+} from '@plumbline/contracts';
 import type { AppDeps } from '../../deps.ts';
 import { principalOf, requireRole } from '../../auth/authenticate.ts';
 import { AppError } from '../../errors/app-error.ts';
@@ -16,7 +21,10 @@ import { readCsvBody } from './csv-body.ts';
 function listOf(req: Request): CatalogueList {
   const parsed = catalogueListSchema.safeParse(req.params.list);
   if (!parsed.success) {
-    throw new AppError('not_found', `No catalogue list "${String(req.params.list)}"; the lists are ${catalogueLists.join(', ')}.`);
+    throw new AppError(
+      'not_found',
+      `No catalogue list "${String(req.params.list)}"; the lists are ${catalogueLists.join(', ')}.`,
+    );
   }
   return parsed.data;
 }
@@ -42,15 +50,35 @@ export function catalogueAdminRouter(deps: AppDeps, requireUser: RequestHandler)
   });
 
   router.patch('/catalogue/:list/:id', ...coordinatorOnly, async (req, res) => {
-    res.json(await updateCatalogueEntry(deps.db, principalOf(req), listOf(req), String(req.params.id), req.body));
+    res.json(
+      await updateCatalogueEntry(deps.db, principalOf(req), listOf(req), String(req.params.id), req.body),
+    );
   });
 
   router.post('/catalogue/:list/:id/retire', ...coordinatorOnly, async (req, res) => {
-    res.json(await setCatalogueEntryRetired(deps.db, principalOf(req), listOf(req), String(req.params.id), req.body, true));
+    res.json(
+      await setCatalogueEntryRetired(
+        deps.db,
+        principalOf(req),
+        listOf(req),
+        String(req.params.id),
+        req.body,
+        true,
+      ),
+    );
   });
 
   router.post('/catalogue/:list/:id/restore', ...coordinatorOnly, async (req, res) => {
-    res.json(await setCatalogueEntryRetired(deps.db, principalOf(req), listOf(req), String(req.params.id), req.body, false));
+    res.json(
+      await setCatalogueEntryRetired(
+        deps.db,
+        principalOf(req),
+        listOf(req),
+        String(req.params.id),
+        req.body,
+        false,
+      ),
+    );
   });
 
   return router;

@@ -13,7 +13,13 @@ import {
 import { actorOf, type Principal } from '../../auth/principal.ts';
 import { AppError, badRequest, conflict, notFound } from '../../errors/app-error.ts';
 import { parseInput } from '../../http/validate.ts';
-import { simpleItem, simpleListSpecs, type CatalogueRecord, type SimpleList, type SimpleListSpec } from './catalogue-lists.ts';
+import {
+  simpleItem,
+  simpleListSpecs,
+  type CatalogueRecord,
+  type SimpleList,
+  type SimpleListSpec,
+} from './catalogue-lists.ts';
 import {
   analyteHasProcedures,
   findLotRow,
@@ -42,7 +48,11 @@ export function invalidFields(errors: FieldError[]): AppError {
 }
 
 /** Runs a write in a transaction; a broken unique constraint becomes 409 with the caller's message. */
-export async function writeOrConflict<T>(db: Database, conflictMessage: string, work: (tx: Executor) => Promise<T>): Promise<T> {
+export async function writeOrConflict<T>(
+  db: Database,
+  conflictMessage: string,
+  work: (tx: Executor) => Promise<T>,
+): Promise<T> {
   try {
     return await db.transaction(work);
   } catch (err) {
@@ -59,7 +69,10 @@ function givenFields(spec: { fields: readonly string[] }, input: CatalogueRecord
 }
 
 /** Field-by-field differences between a stored record and the values a request gives. */
-export function changesBetween(existing: CatalogueRecord, values: CatalogueRecord): Record<string, { from: unknown; to: unknown }> {
+export function changesBetween(
+  existing: CatalogueRecord,
+  values: CatalogueRecord,
+): Record<string, { from: unknown; to: unknown }> {
   const changes: Record<string, { from: unknown; to: unknown }> = {};
   for (const [field, to] of Object.entries(values)) {
     const from = existing[field] ?? null;
@@ -85,7 +98,11 @@ export function lotItem(row: LotRow): ControlLotItem {
 
 // ---------- reading ----------
 
-export async function listCatalogue(db: Database, list: CatalogueList, rawQuery: unknown): Promise<CataloguePage<unknown>> {
+export async function listCatalogue(
+  db: Database,
+  list: CatalogueList,
+  rawQuery: unknown,
+): Promise<CataloguePage<unknown>> {
   const query = parseInput(catalogueListQuerySchema, rawQuery, 'query');
   const allowed: readonly string[] = catalogueSortColumns[list];
   const sort = query.sort ?? allowed[0];
@@ -115,9 +132,12 @@ const duplicateCodeMessage = (spec: SimpleListSpec, code: unknown) =>
   `${spec.article} with the code "${String(code)}" already exists; codes must be unique.`;
 
 /** The values a new entry gets, checked; throws 400 with field errors. */
-export function newSimpleValues(spec: SimpleListSpec, input: CatalogueRecord): { values: CatalogueRecord; errors: FieldError[] } {
+export function newSimpleValues(
+  spec: SimpleListSpec,
+  input: CatalogueRecord,
+): { values: CatalogueRecord; errors: FieldError[] } {
   const values = { ...spec.defaults, ...givenFields(spec, input) };
-  return { values, errors: spec.check?.(values) ?? [] };
+  return { values, errors: spec.check?.(values, 'all') ?? [] };
 }
 
 /** What an edit changes, checked against the whole edited record. */
@@ -134,7 +154,7 @@ export async function editedSimpleValues(
 }> {
   const changes = changesBetween(existing, givenFields(spec, input));
   const values = Object.fromEntries(Object.entries(changes).map(([field, c]) => [field, c.to]));
-  const errors = spec.check?.({ ...existing, ...values }) ?? [];
+  const errors = spec.check?.({ ...existing, ...values }, Object.keys(changes)) ?? [];
   // Values are stored in the canonical unit, so it is fixed once procedures use the analyte.
   const unitLocked =
     spec.list === 'analytes' && 'unit' in changes && (await analyteHasProcedures(db, existing.id as string));
@@ -162,7 +182,13 @@ async function createSimple(db: Database, principal: Principal, spec: SimpleList
   return simpleItem(spec, row);
 }
 
-async function updateSimple(db: Database, principal: Principal, spec: SimpleListSpec, id: string, body: unknown) {
+async function updateSimple(
+  db: Database,
+  principal: Principal,
+  spec: SimpleListSpec,
+  id: string,
+  body: unknown,
+) {
   const { reason, ...input } = parseInput(spec.updateSchema, body) as CatalogueRecord;
   const existing = await loadSimple(db, spec, id);
   const { values, changes, errors, unitLocked } = await editedSimpleValues(db, spec, existing, input);
@@ -234,14 +260,22 @@ export async function materialProblem(db: Executor, materialId: string): Promise
 }
 
 /** Levels an edit would drop although data already refers to them. */
-export async function droppedLevelsWithData(db: Executor, existing: LotRow, levels: LotValues['levels']): Promise<number[]> {
+export async function droppedLevelsWithData(
+  db: Executor,
+  existing: LotRow,
+  levels: LotValues['levels'],
+): Promise<number[]> {
   const kept = new Set(levels.map((l) => l.level));
   const dropped = existing.levels.map((l) => l.level).filter((level) => !kept.has(level));
   return levelsWithData(db, existing.id, dropped);
 }
 
-export function normaliseLevels(levels: Array<{ level: number; description?: string | null }>): LotValues['levels'] {
-  return [...levels].sort((a, b) => a.level - b.level).map((l) => ({ level: l.level, description: l.description ?? null }));
+export function normaliseLevels(
+  levels: Array<{ level: number; description?: string | null }>,
+): LotValues['levels'] {
+  return [...levels]
+    .sort((a, b) => a.level - b.level)
+    .map((l) => ({ level: l.level, description: l.description ?? null }));
 }
 
 async function createLot(db: Database, principal: Principal, body: unknown): Promise<ControlLotItem> {
@@ -264,10 +298,20 @@ async function createLot(db: Database, principal: Principal, body: unknown): Pro
 }
 
 function lotValuesOf(row: LotRow): LotValues {
-  return { materialId: row.material.id, lotNumber: row.lotNumber, expiresOn: row.expiresOn, levels: row.levels };
+  return {
+    materialId: row.material.id,
+    lotNumber: row.lotNumber,
+    expiresOn: row.expiresOn,
+    levels: row.levels,
+  };
 }
 
-async function updateLotEntry(db: Database, principal: Principal, id: string, body: unknown): Promise<ControlLotItem> {
+async function updateLotEntry(
+  db: Database,
+  principal: Principal,
+  id: string,
+  body: unknown,
+): Promise<ControlLotItem> {
   const { reason, ...input } = parseInput(controlLotUpdateSchema, body);
   const existing = await loadLot(db, id);
   const current = lotValuesOf(existing);
@@ -285,9 +329,10 @@ async function updateLotEntry(db: Database, principal: Principal, id: string, bo
   }
   const dropped = await droppedLevelsWithData(db, existing, next.levels);
   if (dropped.length) {
-    throw conflict(`Levels ${dropped.join(', ')} of lot "${existing.lotNumber}" already have QC data and cannot be removed.`, [
-      { path: 'levels', message: `levels with data: ${dropped.join(', ')}` },
-    ]);
+    throw conflict(
+      `Levels ${dropped.join(', ')} of lot "${existing.lotNumber}" already have QC data and cannot be removed.`,
+      [{ path: 'levels', message: `levels with data: ${dropped.join(', ')}` }],
+    );
   }
   await writeOrConflict(db, duplicateLotMessage(next.lotNumber), async (tx) => {
     await updateLot(tx, id, next);
@@ -324,10 +369,18 @@ async function setLotRetired(db: Database, principal: Principal, id: string, bod
 // ---------- one entry point per verb ----------
 
 export function createCatalogueEntry(db: Database, principal: Principal, list: CatalogueList, body: unknown) {
-  return isSimpleList(list) ? createSimple(db, principal, simpleListSpecs[list], body) : createLot(db, principal, body);
+  return isSimpleList(list)
+    ? createSimple(db, principal, simpleListSpecs[list], body)
+    : createLot(db, principal, body);
 }
 
-export function updateCatalogueEntry(db: Database, principal: Principal, list: CatalogueList, id: string, body: unknown) {
+export function updateCatalogueEntry(
+  db: Database,
+  principal: Principal,
+  list: CatalogueList,
+  id: string,
+  body: unknown,
+) {
   return isSimpleList(list)
     ? updateSimple(db, principal, simpleListSpecs[list], id, body)
     : updateLotEntry(db, principal, id, body);

@@ -52,20 +52,25 @@ function readCsv(text: string, list: CatalogueList): { header: string[]; records
     const message = err instanceof Error ? err.message : String(err);
     throw badRequest(`The CSV file could not be read: ${message}`);
   }
-  if (parsed.length === 0) throw badRequest('The CSV file is empty: expected a header row and at least one data row.');
+  if (parsed.length === 0)
+    throw badRequest('The CSV file is empty: expected a header row and at least one data row.');
   const header = parsed[0].record.map((h) => h.trim().toLowerCase());
   const { required, optional } = catalogueCsvColumns[list];
   const known: readonly string[] = [...required, ...optional];
   const problems: FieldError[] = [];
   for (const column of header) {
-    if (!known.includes(column)) problems.push({ path: 'header', message: `unknown column "${column}"; expected ${known.join(', ')}` });
+    if (!known.includes(column))
+      problems.push({ path: 'header', message: `unknown column "${column}"; expected ${known.join(', ')}` });
   }
   for (const column of required) {
-    if (!header.includes(column)) problems.push({ path: 'header', message: `missing required column "${column}"` });
+    if (!header.includes(column))
+      problems.push({ path: 'header', message: `missing required column "${column}"` });
   }
   const duplicates = header.filter((h, i) => header.indexOf(h) !== i);
-  for (const column of new Set(duplicates)) problems.push({ path: 'header', message: `column "${column}" appears twice` });
-  if (problems.length) throw badRequest(`The CSV header is not valid: ${problems.map((p) => p.message).join('; ')}`, problems);
+  for (const column of new Set(duplicates))
+    problems.push({ path: 'header', message: `column "${column}" appears twice` });
+  if (problems.length)
+    throw badRequest(`The CSV header is not valid: ${problems.map((p) => p.message).join('; ')}`, problems);
   if (parsed.length === 1) throw badRequest('The CSV file has a header but no data rows.');
 
   const records = parsed.slice(1).map(({ record, info }) => {
@@ -90,7 +95,9 @@ const fieldErrorsToCells = (errors: FieldError[], fieldToColumn: Record<string, 
 
 function cellCountError(record: CsvRecord, header: string[]): CellError[] {
   const count = record.cells['#count'];
-  return count === undefined ? [] : [{ column: 'row', message: `expected ${header.length} cells, found ${count}` }];
+  return count === undefined
+    ? []
+    : [{ column: 'row', message: `expected ${header.length} cells, found ${count}` }];
 }
 
 /** Marks the second and later rows that use a key already used higher up in the file. */
@@ -100,7 +107,8 @@ function duplicateKeyErrors(keys: string[], records: CsvRecord[], keyColumn: str
   keys.forEach((key, i) => {
     if (!key) return;
     const seen = firstLine.get(key);
-    if (seen !== undefined) errors.set(i, { column: keyColumn, message: `"${key}" is also on row ${seen} of this file` });
+    if (seen !== undefined)
+      errors.set(i, { column: keyColumn, message: `"${key}" is also on row ${seen} of this file` });
     else firstLine.set(key, records[i].line);
   });
   return errors;
@@ -117,7 +125,9 @@ async function planSimpleRows(
   header: string[],
   records: CsvRecord[],
 ): Promise<PlannedRow[]> {
-  const fieldToColumn = Object.fromEntries(Object.entries(spec.csvColumns).map(([column, field]) => [field, column]));
+  const fieldToColumn = Object.fromEntries(
+    Object.entries(spec.csvColumns).map(([column, field]) => [field, column]),
+  );
   const keys = records.map((r) => r.cells.code ?? '');
   const existingByCode = await findSimpleRowsByCode(db, spec, [...new Set(keys.filter(Boolean))]);
   const duplicates = duplicateKeyErrors(keys, records, 'code');
@@ -158,7 +168,11 @@ async function planSimpleRows(
     if (!existing) {
       const { values, errors: checkErrors } = newSimpleValues(spec, data);
       if (checkErrors.length) {
-        planned.push({ row: record.line, action: 'error', errors: fieldErrorsToCells(checkErrors, fieldToColumn) });
+        planned.push({
+          row: record.line,
+          action: 'error',
+          errors: fieldErrorsToCells(checkErrors, fieldToColumn),
+        });
         continue;
       }
       planned.push({
@@ -190,7 +204,12 @@ async function planSimpleRows(
     planned.push({
       row: record.line,
       action: 'update',
-      data: { id, ...Object.fromEntries(spec.fields.map((f) => [f, f in edit.values ? edit.values[f] : (existing[f] ?? null)])) },
+      data: {
+        id,
+        ...Object.fromEntries(
+          spec.fields.map((f) => [f, f in edit.values ? edit.values[f] : (existing[f] ?? null)]),
+        ),
+      },
       changes: Object.keys(edit.changes),
       apply: async (tx) => {
         if (Object.keys(edit.changes).length === 0) return;
@@ -228,10 +247,12 @@ function parseLevels(
 ): { levels?: Array<{ level: number; description: string | null }>; errors: CellError[] } {
   const errors: CellError[] = [];
   const parts = levelsCell.split(';').map((p) => p.trim());
-  if (levelsCell.trim() === '') return { errors: [{ column: 'levels', message: 'list the levels, e.g. 1;2;3' }] };
+  if (levelsCell.trim() === '')
+    return { errors: [{ column: 'levels', message: 'list the levels, e.g. 1;2;3' }] };
   const numbers: number[] = [];
   for (const part of parts) {
-    if (!/^\d+$/.test(part)) errors.push({ column: 'levels', message: `"${part}" is not a whole level number` });
+    if (!/^\d+$/.test(part))
+      errors.push({ column: 'levels', message: `"${part}" is not a whole level number` });
     else numbers.push(Number(part));
   }
   let descriptions: Array<string | null>;
@@ -254,10 +275,17 @@ function parseLevels(
   return { levels: numbers.map((level, i) => ({ level, description: descriptions[i] ?? null })), errors };
 }
 
-async function planLotRows(db: Database, principal: Principal, header: string[], records: CsvRecord[]): Promise<PlannedRow[]> {
+async function planLotRows(
+  db: Database,
+  principal: Principal,
+  header: string[],
+  records: CsvRecord[],
+): Promise<PlannedRow[]> {
   const keys = records.map((r) => r.cells.lot_number ?? '');
   const existingByNumber = await findLotRowsByNumber(db, [...new Set(keys.filter(Boolean))]);
-  const materials = await findMaterialsByCode(db, [...new Set(records.map((r) => r.cells.material_code).filter(Boolean))]);
+  const materials = await findMaterialsByCode(db, [
+    ...new Set(records.map((r) => r.cells.material_code).filter(Boolean)),
+  ]);
   const duplicates = duplicateKeyErrors(keys, records, 'lot_number');
   const planned: PlannedRow[] = [];
 
@@ -269,7 +297,8 @@ async function planLotRows(db: Database, principal: Principal, header: string[],
     const materialCode = record.cells.material_code;
     const material = materials.get(materialCode);
     if (!materialCode) errors.push({ column: 'material_code', message: 'give the control material code' });
-    else if (!material) errors.push({ column: 'material_code', message: `no control material has the code "${materialCode}"` });
+    else if (!material)
+      errors.push({ column: 'material_code', message: `no control material has the code "${materialCode}"` });
     else if (material.retiredAt && material.id !== existing?.material.id) {
       errors.push({ column: 'material_code', message: `the control material "${materialCode}" is retired` });
     }
@@ -328,7 +357,12 @@ async function planLotRows(db: Database, principal: Principal, header: string[],
       planned.push({
         row: record.line,
         action: 'error',
-        errors: [{ column: 'levels', message: `levels ${dropped.join(', ')} already have QC data and cannot be removed` }],
+        errors: [
+          {
+            column: 'levels',
+            message: `levels ${dropped.join(', ')} already have QC data and cannot be removed`,
+          },
+        ],
       });
       continue;
     }
@@ -385,8 +419,12 @@ export async function importCatalogueCsv(
       { ...summary, applied: false },
     );
   }
-  await writeOrConflict(db, 'Another change to this list was saved while the import ran; preview the file again.', async (tx) => {
-    for (const row of planned) await row.apply?.(tx);
-  });
+  await writeOrConflict(
+    db,
+    'Another change to this list was saved while the import ran; preview the file again.',
+    async (tx) => {
+      for (const row of planned) await row.apply?.(tx);
+    },
+  );
   return { ...summary, applied: true };
 }

@@ -18,7 +18,8 @@ import { ucumConversionProblem, ucumUnitProblem } from './ucum.ts';
 
 /** The lists that share one shape: a code, a name, a few descriptive fields and `retiredAt`. */
 export type SimpleList = Exclude<CatalogueList, 'control-lots'>;
-export type SimpleTable = typeof analytes | typeof methods | typeof instrumentModels | typeof reagents | typeof controlMaterials;
+export type SimpleTable =
+  typeof analytes | typeof methods | typeof instrumentModels | typeof reagents | typeof controlMaterials;
 export type CatalogueRecord = Record<string, unknown>;
 
 export type SimpleListSpec = {
@@ -41,18 +42,27 @@ export type SimpleListSpec = {
   numericColumns: readonly string[];
   /** Columns whose blank cell means "not given" (the default, or unchanged) rather than "no value". */
   blankNotGivenColumns?: readonly string[];
-  /** Checks that need more than one field or a library the contracts do not carry. */
-  check?: (record: CatalogueRecord) => FieldError[];
+  /**
+   * Checks that need more than one field or a library the contracts do not carry. `changed` lists the
+   * fields an edit changes ('all' for a new entry): a rule runs only when its fields are touched, so an
+   * older entry that predates a rule can still be renamed.
+   */
+  check?: (record: CatalogueRecord, changed: readonly string[] | 'all') => FieldError[];
 };
 
-function checkAnalyte(record: CatalogueRecord): FieldError[] {
+const touches = (changed: readonly string[] | 'all', fields: string[]) =>
+  changed === 'all' || fields.some((f) => changed.includes(f));
+
+function checkAnalyte(record: CatalogueRecord, changed: readonly string[] | 'all'): FieldError[] {
   const errors: FieldError[] = [];
   const unit = record.unit as string;
   const conventionalUnit = record.conventionalUnit as string | null;
   const molarMass = record.molarMass as number | null;
-  const unitProblem = ucumUnitProblem(unit);
+  const unitProblem = touches(changed, ['unit', 'conventionalUnit', 'molarMass'])
+    ? ucumUnitProblem(unit)
+    : null;
   if (unitProblem) errors.push({ path: 'unit', message: unitProblem });
-  if (conventionalUnit) {
+  if (conventionalUnit && touches(changed, ['unit', 'conventionalUnit', 'molarMass'])) {
     const problem = ucumUnitProblem(conventionalUnit);
     if (problem) errors.push({ path: 'conventionalUnit', message: problem });
     else if (!unitProblem) {
@@ -61,9 +71,12 @@ function checkAnalyte(record: CatalogueRecord): FieldError[] {
     }
   }
   // A total allowable error is only usable with where it comes from and when that source was read.
-  if (record.teaPct !== null && record.teaPct !== undefined) {
-    if (!record.teaSource) errors.push({ path: 'teaSource', message: 'give the source of the total allowable error' });
-    if (!record.teaDate) errors.push({ path: 'teaDate', message: 'give the date of the total allowable error source' });
+  const teaGiven = record.teaPct !== null && record.teaPct !== undefined;
+  if (teaGiven && touches(changed, ['teaPct', 'teaSource', 'teaDate'])) {
+    if (!record.teaSource)
+      errors.push({ path: 'teaSource', message: 'give the source of the total allowable error' });
+    if (!record.teaDate)
+      errors.push({ path: 'teaDate', message: 'give the date of the total allowable error source' });
   }
   return errors;
 }
@@ -76,7 +89,18 @@ export const simpleListSpecs: Record<SimpleList, SimpleListSpec> = {
     table: analytes,
     createSchema: analyteCreateSchema,
     updateSchema: analyteUpdateSchema,
-    fields: ['code', 'name', 'loinc', 'unit', 'conventionalUnit', 'molarMass', 'decimals', 'teaPct', 'teaSource', 'teaDate'],
+    fields: [
+      'code',
+      'name',
+      'loinc',
+      'unit',
+      'conventionalUnit',
+      'molarMass',
+      'decimals',
+      'teaPct',
+      'teaSource',
+      'teaDate',
+    ],
     defaults: {
       loinc: null,
       conventionalUnit: null,

@@ -8,7 +8,10 @@ export const MAX_CATALOGUE_CSV_BYTES = 5 * 1024 * 1024;
 const CSV_TYPES = ['text/csv', 'text/plain', 'application/csv', 'application/vnd.ms-excel'];
 
 const tooLarge = () =>
-  new AppError('payload_too_large', `The CSV file is larger than ${MAX_CATALOGUE_CSV_BYTES / 1024 / 1024} MB.`);
+  new AppError(
+    'payload_too_large',
+    `The CSV file is larger than ${MAX_CATALOGUE_CSV_BYTES / 1024 / 1024} MB.`,
+  );
 
 function readRaw(req: Request): Promise<Buffer> {
   return new Promise((resolve, reject) => {
@@ -53,7 +56,8 @@ function readMultipartFile(req: Request): Promise<Buffer> {
     parser.on('error', () => reject(new AppError('bad_request', 'The multipart body could not be read.')));
     parser.on('close', () => {
       if (failure) reject(failure);
-      else if (!file) reject(new AppError('bad_request', 'Attach the CSV file in a form field named "file".'));
+      else if (!file)
+        reject(new AppError('bad_request', 'Attach the CSV file in a form field named "file".'));
       else resolve(file);
     });
     req.pipe(parser);

@@ -2,7 +2,11 @@ import { createRequire } from 'node:module';
 
 /** The parts of @lhncbc/ucum-lhc we use (the package ships no type declarations). */
 type UcumUtils = {
-  validateUnitString(unit: string): { status: 'valid' | 'invalid' | 'error'; ucumCode: string | null; msg: string[] };
+  validateUnitString(unit: string): {
+    status: 'valid' | 'invalid' | 'error';
+    ucumCode: string | null;
+    msg: string[];
+  };
   convertUnitTo(
     from: string,
     value: number,

@@ -6,7 +6,8 @@ export function uniqueViolation(err: unknown): string | null {
   let current: unknown = err;
   for (let depth = 0; current && typeof current === 'object' && depth < 5; depth++) {
     const candidate = current as { code?: unknown; constraint?: unknown; cause?: unknown };
-    if (candidate.code === '23505') return typeof candidate.constraint === 'string' ? candidate.constraint : '';
+    if (candidate.code === '23505')
+      return typeof candidate.constraint === 'string' ? candidate.constraint : '';
     current = candidate.cause;
   }
   return null;

@@ -11,12 +11,19 @@ export async function findLab(db: Executor, id: string): Promise<LabRow | null> 
   return row ?? null;
 }
 
-export async function insertLab(db: Executor, values: { code: string; name: string; preferredUnits?: string }): Promise<LabRow> {
+export async function insertLab(
+  db: Executor,
+  values: { code: string; name: string; preferredUnits?: string },
+): Promise<LabRow> {
   const [row] = await db.insert(labs).values(values).returning();
   return row;
 }
 
-export async function updateLab(db: Executor, id: string, values: Partial<Omit<LabRow, 'id' | 'createdAt'>>): Promise<LabRow> {
+export async function updateLab(
+  db: Executor,
+  id: string,
+  values: Partial<Omit<LabRow, 'id' | 'createdAt'>>,
+): Promise<LabRow> {
   const [row] = await db.update(labs).set(values).where(eq(labs.id, id)).returning();
   return row;
 }
@@ -46,8 +53,15 @@ export async function listLabUsers(db: Executor, labId: string) {
     .from(invitations)
     .where(and(eq(invitations.labId, labId), isNull(invitations.acceptedAt), isNull(invitations.revokedAt)));
   const pending = new Set(pendingIds.map((r) => r.userId));
-  const rows = await db.select().from(users).where(eq(users.labId, labId)).orderBy(asc(users.name), asc(users.email));
-  return rows.map((user) => ({ user, invitationPending: pending.has(user.id) && user.passwordHash === null }));
+  const rows = await db
+    .select()
+    .from(users)
+    .where(eq(users.labId, labId))
+    .orderBy(asc(users.name), asc(users.email));
+  return rows.map((user) => ({
+    user,
+    invitationPending: pending.has(user.id) && user.passwordHash === null,
+  }));
 }
 
 export async function insertUser(db: Executor, values: typeof users.$inferInsert): Promise<UserRow> {
@@ -55,7 +69,11 @@ export async function insertUser(db: Executor, values: typeof users.$inferInsert
   return row;
 }
 
-export async function updateUser(db: Executor, id: string, values: Partial<typeof users.$inferInsert>): Promise<UserRow> {
+export async function updateUser(
+  db: Executor,
+  id: string,
+  values: Partial<typeof users.$inferInsert>,
+): Promise<UserRow> {
   const [row] = await db.update(users).set(values).where(eq(users.id, id)).returning();
   return row;
 }
@@ -64,10 +82,15 @@ export async function revokeOpenInvitations(db: Executor, userId: string): Promi
   await db
     .update(invitations)
     .set({ revokedAt: new Date() })
-    .where(and(eq(invitations.userId, userId), isNull(invitations.acceptedAt), isNull(invitations.revokedAt)));
+    .where(
+      and(eq(invitations.userId, userId), isNull(invitations.acceptedAt), isNull(invitations.revokedAt)),
+    );
 }
 
-export async function insertInvitation(db: Executor, values: typeof invitations.$inferInsert): Promise<InvitationRow> {
+export async function insertInvitation(
+  db: Executor,
+  values: typeof invitations.$inferInsert,
+): Promise<InvitationRow> {
   const [row] = await db.insert(invitations).values(values).returning();
   return row;
 }
@@ -198,7 +221,11 @@ export async function listNetworkProcedures(
       instrumentModel: { id: r.model_id, code: r.model_code, name: r.model_name },
       method: { id: r.method_id, code: r.method_code, name: r.method_name },
       reagent: { id: r.reagent_id, code: r.reagent_code, name: r.reagent_name },
-      peerable: { instrument: tier(r.instrument_labs), method: tier(r.method_labs), analyte: tier(r.analyte_labs) },
+      peerable: {
+        instrument: tier(r.instrument_labs),
+        method: tier(r.method_labs),
+        analyte: tier(r.analyte_labs),
+      },
       unpeerable: r.analyte_labs < query.minLabs,
     })),
   };

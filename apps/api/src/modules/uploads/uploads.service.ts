@@ -166,7 +166,7 @@ export async function getUploadDetail(deps: UploadDeps, principal: Principal, id
   const row = await visibleUpload(deps, principal, id);
   return {
     ...toSummary(row),
-    errors: row.errors,
+    errors: row.errors as UploadDetail['errors'],
     errorsTruncated: row.rowsRejected > row.errors.length && row.errors.length >= MAX_STORED_ROW_ERRORS,
     columnMapping: row.columnMapping ?? null,
   };

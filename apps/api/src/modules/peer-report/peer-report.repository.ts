@@ -1,0 +1,93 @@
+import { and, asc, desc, eq, inArray, lte } from 'drizzle-orm';
+import {
+  analytes,
+  controlLots,
+  labs,
+  peerStatistics,
+  procedures,
+  publications,
+  qcSummaries,
+  type Executor,
+} from '@plumbline/db';
+
+export async function findLab(db: Executor, labId: string) {
+  const [lab] = await db.select({ id: labs.id, code: labs.code, name: labs.name }).from(labs).where(eq(labs.id, labId)).limit(1);
+  return lab ?? null;
+}
+
+/** The latest publication of the period, or null while its figures are provisional. */
+export async function latestPublication(db: Executor, period: string) {
+  const [row] = await db
+    .select({ version: publications.version, publishedAt: publications.publishedAt })
+    .from(publications)
+    .where(eq(publications.period, period))
+    .orderBy(desc(publications.version))
+    .limit(1);
+  return row ?? null;
+}
+
+/** The lab's monthly summaries of the period with their procedure, analyte and control lot. */
+export async function labSummaries(db: Executor, labId: string, period: string) {
+  return db
+    .select({
+      procedureId: procedures.id,
+      procedureCode: procedures.code,
+      analyteId: analytes.id,
+      analyte: {
+        code: analytes.code,
+        name: analytes.name,
+        unit: analytes.unit,
+        decimals: analytes.decimals,
+        teaPct: analytes.teaPct,
+        teaSource: analytes.teaSource,
+      },
+      controlLotId: controlLots.id,
+      lotNumber: controlLots.lotNumber,
+      level: qcSummaries.level,
+      n: qcSummaries.n,
+      mean: qcSummaries.mean,
+      sd: qcSummaries.sd,
+      source: qcSummaries.source,
+      late: qcSummaries.late,
+    })
+    .from(qcSummaries)
+    .innerJoin(procedures, eq(procedures.id, qcSummaries.procedureId))
+    .innerJoin(analytes, eq(analytes.id, procedures.analyteId))
+    .innerJoin(controlLots, eq(controlLots.id, qcSummaries.controlLotId))
+    .where(and(eq(qcSummaries.labId, labId), eq(qcSummaries.period, period)))
+    .orderBy(asc(analytes.name), asc(procedures.code), asc(controlLots.lotNumber), asc(qcSummaries.level));
+}
+
+/** Summaries of the given procedures up to and including the period (for lot-to-date figures). */
+export async function summariesToDate(db: Executor, procedureIds: string[], period: string) {
+  if (procedureIds.length === 0) return [];
+  return db
+    .select({
+      procedureId: qcSummaries.procedureId,
+      controlLotId: qcSummaries.controlLotId,
+      level: qcSummaries.level,
+      period: qcSummaries.period,
+      n: qcSummaries.n,
+      mean: qcSummaries.mean,
+      sd: qcSummaries.sd,
+    })
+    .from(qcSummaries)
+    .where(and(inArray(qcSummaries.procedureId, procedureIds), lte(qcSummaries.period, period)))
+    .orderBy(asc(qcSummaries.period));
+}
+
+export type PeerStatisticsRow = typeof peerStatistics.$inferSelect;
+
+export async function peerStatisticsFor(db: Executor, groupIds: string[], period: string, versions: number[]) {
+  if (groupIds.length === 0) return [];
+  return db
+    .select()
+    .from(peerStatistics)
+    .where(
+      and(
+        inArray(peerStatistics.peerGroupId, groupIds),
+        eq(peerStatistics.period, period),
+        inArray(peerStatistics.version, versions),
+      ),
+    );
+}

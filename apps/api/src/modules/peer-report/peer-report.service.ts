@@ -1,0 +1,138 @@
+import { pool, sigmaMetric, standing, DEFAULT_MIN_LABS } from '@plumbline/stats';
+import { PEER_TIERS, loadPeerKeyParts, resolvePeerMembership, type Database, type PeerMembership } from '@plumbline/db';
+import type { LabFigures, PeerFigures, PeerReport, PeerReportRow, ReportFlag } from '@plumbline/contracts';
+import type { Principal } from '../../auth/principal.ts';
+import { assertLabAccess } from '../../auth/authenticate.ts';
+import { notFound } from '../../errors/app-error.ts';
+import { cvrFlag, exclusionFlag, peerNote, sdiFlag, type TierCandidate } from './flags.ts';
+import * as repo from './peer-report.repository.ts';
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+export type PeerReportSettings = { minLabs?: number };
+
+/**
+ * A lab's report for one period: per procedure, control lot and level its own figures beside the peer
+ * figures of the narrowest tier with enough labs, with SDI, CVR, bias, sigma and flags, and the same
+ * comparison lot to date. Peer figures come from the latest published version of the period, or the
+ * provisional ones (version 0) while nothing is published.
+ */
+export async function buildPeerReport(
+  db: Database,
+  principal: Principal,
+  labId: string,
+  period: string,
+  settings: PeerReportSettings = {},
+): Promise<PeerReport> {
+  assertLabAccess(principal, labId);
+  const lab = UUID.test(labId) ? await repo.findLab(db, labId) : null;
+  if (!lab) throw notFound('Lab');
+  const minLabs = settings.minLabs ?? DEFAULT_MIN_LABS;
+
+  const publication = await repo.latestPublication(db, period);
+  const version = publication?.version ?? 0;
+  const summaries = await repo.labSummaries(db, labId, period);
+
+  // Peer group of each procedure at each tier, per control lot and analyte.
+  const memberships = new Map<string, PeerMembership>();
+  for (const s of summaries) {
+    const key = `${s.controlLotId}|${s.analyteId}`;
+    if (memberships.has(key)) continue;
+    const procedureIds = [...new Set(summaries.filter((x) => x.controlLotId === s.controlLotId && x.analyteId === s.analyteId).map((x) => x.procedureId))];
+    const parts = await loadPeerKeyParts(db, procedureIds);
+    memberships.set(key, await resolvePeerMembership(db, s.controlLotId, s.analyteId, parts, { create: false }));
+  }
+  const groupIds = new Set<string>();
+  for (const membership of memberships.values()) {
+    for (const groups of membership.values()) for (const g of Object.values(groups)) if (g) groupIds.add(g.id);
+  }
+  const statistics = await repo.peerStatisticsFor(db, [...groupIds], period, [...new Set([0, version])]);
+  const statisticsOf = (groupId: string, level: number, scope: 'period' | 'cumulative') => {
+    const at = (v: number) =>
+      statistics.find((r) => r.peerGroupId === groupId && r.level === level && r.scope === scope && r.version === v);
+    // Lot-to-date figures fall back to the provisional ones when a snapshot holds none.
+    return scope === 'period' ? at(version) : (at(version) ?? at(0));
+  };
+
+  const toDate = await repo.summariesToDate(db, [...new Set(summaries.map((s) => s.procedureId))], period);
+
+  const rows: PeerReportRow[] = summaries.map((s) => {
+    const groups = memberships.get(`${s.controlLotId}|${s.analyteId}`)?.get(s.procedureId) ?? {};
+    const choose = (scope: 'period' | 'cumulative') => {
+      const candidates: (TierCandidate & { row: repo.PeerStatisticsRow | undefined })[] = PEER_TIERS.map((tier) => {
+        const group = groups[tier];
+        const row = group ? statisticsOf(group.id, s.level, scope) : undefined;
+        return { tier, labs: row ? row.labs : null, sufficient: Boolean(row?.sufficient && row.mean !== null && row.sd !== null), row };
+      });
+      return { candidates, chosen: candidates.find((c) => c.sufficient) };
+    };
+
+    const labFigures = figuresOf(s);
+    const current = choose('period');
+    const peer = current.chosen ? peerFiguresOf(current.chosen.tier, current.chosen.row!) : null;
+    const position = peer ? safeStanding(labFigures, peer) : null;
+
+    const labToDateParts = toDate.filter(
+      (t) => t.procedureId === s.procedureId && t.controlLotId === s.controlLotId && t.level === s.level,
+    );
+    const labToDate = labToDateParts.length ? figuresOf(labToDateParts.length === 1 ? labToDateParts[0] : pool(labToDateParts)) : null;
+    const cumulative = choose('cumulative');
+    const peerToDate = cumulative.chosen ? peerFiguresOf(cumulative.chosen.tier, cumulative.chosen.row!) : null;
+    const positionToDate = labToDate && peerToDate ? safeStanding(labToDate, peerToDate) : null;
+
+    const excludedEntry = current.chosen?.row?.excluded.find((e) => e.id === s.procedureId);
+    const excluded = excludedEntry ? { reason: excludedEntry.reason, note: excludedEntry.note ?? null } : null;
+
+    const sigma =
+      position && s.analyte.teaPct !== null && labFigures.cv !== null && labFigures.cv > 0
+        ? sigmaMetric(s.analyte.teaPct, position.biasPct, labFigures.cv)
+        : null;
+
+    const flags: ReportFlag[] = [];
+    if (position) flags.push(sdiFlag(position.sdi), cvrFlag(position.cvr));
+    if (excluded) flags.push(exclusionFlag(excluded));
+
+    return {
+      procedure: { id: s.procedureId, code: s.procedureCode },
+      analyte: s.analyte,
+      controlLot: { id: s.controlLotId, lotNumber: s.lotNumber },
+      level: s.level,
+      unit: s.analyte.unit,
+      source: s.source === 'values' ? 'values' : 'summary',
+      late: s.late,
+      lab: labFigures,
+      peer,
+      peerNote: peerNote(current.candidates, minLabs),
+      sdi: position?.sdi ?? null,
+      cvr: position?.cvr ?? null,
+      biasPct: position?.biasPct ?? null,
+      sigma: sigma !== null && Number.isFinite(sigma) ? sigma : null,
+      cumulative: { lab: labToDate, peer: peerToDate, sdi: positionToDate?.sdi ?? null, cvr: positionToDate?.cvr ?? null },
+      excluded,
+      flags,
+    };
+  });
+
+  return {
+    period,
+    lab,
+    published: publication ? { version: publication.version, publishedAt: publication.publishedAt.toISOString() } : null,
+    rows,
+  };
+}
+
+function figuresOf(s: { n: number; mean: number; sd: number }): LabFigures {
+  return { n: s.n, mean: s.mean, sd: s.sd, cv: s.mean !== 0 ? (100 * s.sd) / Math.abs(s.mean) : null };
+}
+
+function peerFiguresOf(tier: PeerFigures['tier'], row: repo.PeerStatisticsRow): PeerFigures {
+  return { tier, labs: row.labs, n: row.n, mean: row.mean!, sd: row.sd!, cv: row.cv, withinCv: row.withinCv };
+}
+
+/** SDI, CVR and bias when the figures allow them (a peer SD or within-lab CV of 0 does not). */
+function safeStanding(lab: LabFigures, peer: PeerFigures) {
+  if (!(peer.sd > 0) || !(peer.mean > 0) || !(peer.withinCv !== null && peer.withinCv > 0) || lab.mean === 0 || lab.n < 2) {
+    return null;
+  }
+  return standing(lab, { mean: peer.mean, sd: peer.sd, withinCv: peer.withinCv });
+}

@@ -1,0 +1,38 @@
+import { z } from 'zod';
+
+/** Worker configuration, read once at start-up; a bad value stops the process with a clear message. */
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+  DATABASE_URL: z.string().default('postgres://postgres@127.0.0.1:54329/plumbline'),
+  REDIS_URL: z.string().default('redis://127.0.0.1:63790'),
+  /** Redis key prefix of the BullMQ queues; the API and the worker must agree on it. */
+  QUEUE_PREFIX: z.string().min(1).default('plumbline'),
+  STORAGE_DIR: z.string().default('.data/uploads'),
+  S3_BUCKET: z.string().optional(),
+  S3_ENDPOINT: z.string().optional(),
+  S3_REGION: z.string().default('us-east-1'),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
+  /** Uploads processed at the same time by this process. */
+  INGEST_CONCURRENCY: z.coerce.number().int().min(1).max(32).default(2),
+  /** Labs a peer group needs before its figures are published (METHODS.md §2: 3, a setting). */
+  PEER_MIN_LABS: z.coerce.number().int().min(1).max(100).default(3),
+  /** How often uploads stuck in queued/processing are handed to the queue again, in ms. */
+  RECOVERY_INTERVAL_MS: z.coerce.number().int().min(1000).default(60_000),
+  /**
+   * Crash-recovery testing only: keep the storing transaction open this long before COMMIT, so a test
+   * can kill the process mid-transaction. 0 (the default) in every real deployment.
+   */
+  INGEST_HOLD_BEFORE_COMMIT_MS: z.coerce.number().int().min(0).default(0),
+});
+
+export type WorkerEnv = z.infer<typeof envSchema>;
+
+export function loadWorkerEnv(source: NodeJS.ProcessEnv = process.env): WorkerEnv {
+  const parsed = envSchema.safeParse(source);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`).join('\n');
+    throw new Error(`Invalid worker configuration:\n${lines}`);
+  }
+  return parsed.data;
+}

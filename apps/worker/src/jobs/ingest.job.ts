@@ -1,0 +1,321 @@
+import type pg from 'pg';
+import {
+  MAX_STORED_ROW_ERRORS,
+  allowsDecimalComma,
+  canonicalColumns,
+  suggestMapping,
+  type RowError,
+} from '@plumbline/contracts';
+import { dbOnClient, drainPeerStatisticsRequests, recordAudit, type Database } from '@plumbline/db';
+import type { FileSource } from '../storage/file-source.ts';
+import { FileFormatError, openCsv, type CsvRecord } from '../ingest/csv-reader.ts';
+import { rowErrorsOf, summaryRowSchema, valueRowSchema, type RowContext, type SummaryRow } from '../ingest/row-schemas.ts';
+import { UnitConverter } from '../ingest/units.ts';
+import { ValuesBuffer } from '../ingest/values-buffer.ts';
+import { storeSummaries, storeValues, type StoreContext } from '../ingest/store.ts';
+import * as repo from '../ingest/ingest.repository.ts';
+
+export type IngestDeps = {
+  db: Database;
+  pool: pg.Pool;
+  files: FileSource;
+  /** Labs a peer group needs before its figures are published. */
+  minLabs: number;
+  /** Crash-recovery tests only: keep the storing transaction open this long before COMMIT. */
+  holdBeforeCommitMs?: number;
+  log?: (message: string) => void;
+};
+
+export type IngestOutcome = 'stored' | 'needs-review' | 'failed' | 'skipped';
+
+/** One shared converter: UCUM conversions are computed once per unit pair and molar mass. */
+const units = new UnitConverter();
+
+/**
+ * Processes one upload, exactly once: reads the file as a stream, checks every row, and either stops at
+ * needs-review (rejected rows, not yet confirmed), fails (the file cannot be read), or stores the valid
+ * rows in one transaction and recomputes the peer statistics it touched. PostgreSQL holds the state, so
+ * running it again — after a crash, or as a duplicate job — finishes what is left and never stores twice.
+ */
+export async function processUpload(
+  deps: IngestDeps,
+  uploadId: string,
+  reportProgress: (progress: number) => Promise<void> = async () => {},
+): Promise<IngestOutcome> {
+  const log = deps.log ?? (() => {});
+  const upload = await repo.loadUpload(deps.db, uploadId);
+  if (!upload) return 'skipped';
+  if (upload.storedAt) {
+    // The data was committed before a crash; only the peer statistics and the final status are left.
+    await finishStored(deps, uploadId, reportProgress);
+    return 'stored';
+  }
+  if (!(await repo.markProcessing(deps.db, uploadId))) return 'skipped';
+
+  let lastSaved = 0;
+  const progress = async (value: number, force = false) => {
+    const now = Date.now();
+    if (!force && now - lastSaved < 250) return;
+    lastSaved = now;
+    const clamped = Math.max(0, Math.min(1, value));
+    await Promise.all([reportProgress(clamped), repo.saveProgress(deps.db, uploadId, clamped)]);
+  };
+
+  let read: ReadResult;
+  try {
+    read = await readUpload(deps, upload, (fraction) => progress(0.6 * fraction));
+  } catch (error) {
+    if (error instanceof FileFormatError) {
+      await repo.markFailed(deps.db, uploadId, error.message, [error.error]);
+      log(`upload ${uploadId}: failed: ${error.message}`);
+      return 'failed';
+    }
+    throw error;
+  }
+
+  const counts = { rowsTotal: read.rowsTotal, rowsAccepted: read.rowsAccepted, rowsRejected: read.rowsRejected };
+  if (read.rowsRejected > 0 && !upload.confirmedAt) {
+    await repo.markNeedsReview(deps.db, uploadId, counts, read.errors);
+    log(`upload ${uploadId}: needs review (${read.rowsRejected} of ${read.rowsTotal} rows rejected)`);
+    return 'needs-review';
+  }
+  if (read.rowsAccepted === 0) {
+    await repo.markFailed(deps.db, uploadId, 'No row of the file is valid, so nothing was stored.', read.errors);
+    return 'failed';
+  }
+
+  await progress(0.6, true);
+  const stored = await storeInOneTransaction(deps, upload, read, counts, (fraction) => progress(0.6 + 0.3 * fraction));
+  if (!stored) return 'skipped';
+  await finishStored(deps, uploadId, reportProgress);
+  log(`upload ${uploadId}: stored ${read.rowsAccepted} rows`);
+  return 'stored';
+}
+
+async function finishStored(deps: IngestDeps, uploadId: string, reportProgress: (p: number) => Promise<void>) {
+  await reportProgress(0.9);
+  await drainPeerStatisticsRequests(deps.db, { minLabs: deps.minLabs });
+  await repo.markStored(deps.db, uploadId);
+  await reportProgress(1);
+}
+
+type ReadResult = {
+  rowsTotal: number;
+  rowsAccepted: number;
+  rowsRejected: number;
+  errors: RowError[];
+  summaries: SummaryRow[];
+  values: ValuesBuffer;
+};
+
+/** Streams the file through the row checks; accepted rows are kept compactly, the file never whole. */
+async function readUpload(
+  deps: IngestDeps,
+  upload: repo.UploadRecord,
+  onFraction: (fraction: number) => Promise<void>,
+): Promise<ReadResult> {
+  const lookups = await repo.loadRowLookups(deps.db, upload.labId);
+  let source;
+  try {
+    source = await deps.files.open(upload.storageKey);
+  } catch {
+    throw new FileFormatError({ row: 1, column: null, code: 'malformed_csv', message: 'The uploaded file is no longer in storage; upload it again.' });
+  }
+  let bytesRead = 0;
+  const csv = await openCsv(source, (n) => {
+    bytesRead += n;
+  });
+  const iterator = csv.records[Symbol.asyncIterator]();
+  const first = await iterator.next();
+  if (first.done) {
+    throw new FileFormatError({ row: 1, column: null, code: 'missing_column', message: 'The file is empty: it has no header line.' });
+  }
+  const headerLine = first.value as CsvRecord;
+  const headers = headerLine.cells.map((h) => h.trim());
+  const columns = resolveColumns(upload, headers, await repo.savedColumnMapping(deps.db, upload.labId, upload.kind));
+
+  const context: RowContext = {
+    decimalComma: allowsDecimalComma(csv.delimiter),
+    procedures: lookups.procedures,
+    lots: lookups.lots,
+    periods: lookups.periods,
+    units,
+  };
+  const result: ReadResult = {
+    rowsTotal: 0,
+    rowsAccepted: 0,
+    rowsRejected: 0,
+    errors: [],
+    summaries: [],
+    values: new ValuesBuffer(),
+  };
+  const addErrors = (errors: RowError[]) => {
+    for (const e of errors) if (result.errors.length < MAX_STORED_ROW_ERRORS) result.errors.push(e);
+  };
+  const summaryLines = new Map<string, number>();
+  const summarySchema = upload.kind === 'qc-summary' ? summaryRowSchema(context) : null;
+  const valueSchema = upload.kind === 'qc-values' ? valueRowSchema(context) : null;
+  const entries = Object.entries(columns.indexOf);
+
+  while (true) {
+    const next = await iterator.next();
+    if (next.done) break;
+    const { line, cells } = next.value as CsvRecord;
+    result.rowsTotal += 1;
+    if (result.rowsTotal % 2000 === 0) await onFraction(upload.size > 0 ? bytesRead / upload.size : 0);
+
+    const rowErrors: RowError[] = [];
+    if (cells.length > headers.length && cells.slice(headers.length).some((c) => c.trim() !== '')) {
+      rowErrors.push({
+        row: line,
+        column: null,
+        code: 'wrong_column_count',
+        message: `the line has ${cells.length} cells but the header has ${headers.length} columns`,
+      });
+    }
+    const raw: Record<string, string> = {};
+    for (const [canonical, index] of entries) raw[canonical] = cells[index] ?? '';
+
+    if (summarySchema) {
+      const parsed = summarySchema.safeParse(raw);
+      if (!parsed.success) rowErrors.push(...rowErrorsOf(parsed.error.issues, line, columns.headerOf));
+      else if (rowErrors.length === 0) {
+        const row = parsed.data;
+        const key = `${row.procedure.id}|${row.lot.id}|${row.level}|${row.period.period}`;
+        const earlier = summaryLines.get(key);
+        if (earlier !== undefined) {
+          rowErrors.push({
+            row: line,
+            column: null,
+            code: 'duplicate_row',
+            message: `line ${earlier} already gives ${row.procedure.code}, lot ${row.lot.lotNumber}, level ${row.level}, ${row.period.period}`,
+          });
+        } else {
+          summaryLines.set(key, line);
+          result.summaries.push(row);
+        }
+      }
+    } else if (valueSchema) {
+      const parsed = valueSchema.safeParse(raw);
+      if (!parsed.success) rowErrors.push(...rowErrorsOf(parsed.error.issues, line, columns.headerOf));
+      else if (rowErrors.length === 0) result.values.add(parsed.data);
+    }
+
+    if (rowErrors.length) {
+      result.rowsRejected += 1;
+      addErrors(rowErrors);
+    } else {
+      result.rowsAccepted += 1;
+    }
+  }
+  if (result.rowsTotal === 0) {
+    throw new FileFormatError({ row: 2, column: null, code: 'required', message: 'The file has a header line but no data rows.' });
+  }
+  await onFraction(1);
+  return result;
+}
+
+/**
+ * Which file column holds each canonical column: the mapping sent with the upload, else the lab's saved
+ * mapping, else matching header names. A missing required column makes the whole file unreadable.
+ */
+function resolveColumns(
+  upload: repo.UploadRecord,
+  headers: string[],
+  saved: Record<string, string> | null,
+): { indexOf: Record<string, number>; headerOf: (canonical: string) => string | null } {
+  const explicit = upload.columnMapping && Object.keys(upload.columnMapping).length ? upload.columnMapping : null;
+  if (explicit) {
+    const absent = Object.entries(explicit).filter(([, header]) => !headers.includes(header));
+    if (absent.length) {
+      throw new FileFormatError({
+        row: 1,
+        column: absent[0][1],
+        code: 'missing_column',
+        message:
+          `The column mapping names ${absent.map(([c, h]) => `"${h}" (for ${c})`).join(', ')}, ` +
+          `but the file's header has ${headers.map((h) => `"${h}"`).join(', ')}.`,
+      });
+    }
+  }
+  const suggestion = suggestMapping(upload.kind, headers, explicit ?? saved);
+  if (suggestion.missing.length) {
+    const first = suggestion.missing[0];
+    throw new FileFormatError({
+      row: 1,
+      column: first,
+      code: 'missing_column',
+      message:
+        `No column of the file holds ${suggestion.missing.map((m) => `"${m}"`).join(', ')}. ` +
+        `The header has ${headers.map((h) => `"${h}"`).join(', ')}; map the columns and upload again.`,
+    });
+  }
+  const indexOf: Record<string, number> = {};
+  for (const column of canonicalColumns[upload.kind]) {
+    const header = suggestion.mapping[column.name];
+    if (header) indexOf[column.name] = headers.indexOf(header);
+  }
+  return { indexOf, headerOf: (canonical) => suggestion.mapping[canonical] ?? null };
+}
+
+/**
+ * Writes the accepted rows, the upload's counts and the recompute requests in one transaction: the file
+ * is stored whole or not at all. The upload row is locked first, so two runs of the same upload (a
+ * duplicate job, a stalled one retried) cannot both store it, and a cancel waits for the outcome.
+ */
+async function storeInOneTransaction(
+  deps: IngestDeps,
+  upload: repo.UploadRecord,
+  read: ReadResult,
+  counts: { rowsTotal: number; rowsAccepted: number; rowsRejected: number },
+  onFraction: (fraction: number) => Promise<void>,
+): Promise<boolean> {
+  const client = await deps.pool.connect();
+  let broken = false;
+  try {
+    await client.query('begin');
+    const locked = await client.query<{ status: string; stored_at: Date | null }>(
+      'select status, stored_at from uploads where id = $1 for update',
+      [upload.id],
+    );
+    const current = locked.rows[0];
+    if (!current || current.status !== 'processing' || current.stored_at) {
+      await client.query('rollback');
+      return false;
+    }
+    const tx = dbOnClient(client);
+    const ctx: StoreContext = {
+      tx,
+      client,
+      upload: { id: upload.id, labId: upload.labId },
+      actor: upload.uploadedBy
+        ? { actorId: upload.uploadedBy, actorLabel: null }
+        : { actorId: null, actorLabel: upload.tokenId ? `lab-token:${upload.tokenId}` : 'ingest-worker' },
+    };
+    const { replaced } =
+      upload.kind === 'qc-summary' ? await storeSummaries(ctx, read.summaries) : await storeValues(ctx, read.values, onFraction);
+    await client.query(
+      `update uploads set stored_at = now(), progress = 0.9, rows_total = $2, rows_accepted = $3, rows_rejected = $4,
+              errors = $5::jsonb, updated_at = now() where id = $1`,
+      [upload.id, counts.rowsTotal, counts.rowsAccepted, counts.rowsRejected, JSON.stringify(read.errors)],
+    );
+    await recordAudit(tx, {
+      kind: 'upload.stored',
+      ...ctx.actor,
+      labId: upload.labId,
+      entity: 'upload',
+      entityId: upload.id,
+      details: { ...counts, replaced, confirmed: upload.confirmedAt !== null },
+    });
+    if (deps.holdBeforeCommitMs) await new Promise((resolve) => setTimeout(resolve, deps.holdBeforeCommitMs));
+    await client.query('commit');
+    return true;
+  } catch (error) {
+    await client.query('rollback').catch(() => {
+      broken = true;
+    });
+    throw error;
+  } finally {
+    client.release(broken);
+  }
+}

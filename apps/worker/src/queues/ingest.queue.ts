@@ -1,0 +1,93 @@
+import { Queue, UnrecoverableError, Worker, type Job } from 'bullmq';
+import type { Redis } from 'ioredis';
+import { INGEST_QUEUE_NAME, ingestJobId, ingestJobSchema, type IngestJob } from '@plumbline/contracts';
+import { drainPeerStatisticsRequests } from '@plumbline/db';
+import { processUpload, type IngestDeps, type IngestOutcome } from '../jobs/ingest.job.ts';
+import * as repo from '../ingest/ingest.repository.ts';
+
+export type IngestWorkerOptions = {
+  connection: Redis;
+  prefix: string;
+  concurrency: number;
+  /** How often uploads left queued/processing are handed to the queue again (0: only at start). */
+  recoveryIntervalMs: number;
+};
+
+export type IngestWorker = {
+  worker: Worker<IngestJob, IngestOutcome>;
+  queue: Queue<IngestJob>;
+  /** Re-enqueues every upload PostgreSQL says is queued or processing; returns how many. */
+  recover(): Promise<number>;
+  /** Stops taking jobs, lets running ones finish, and closes the queue handles. */
+  close(): Promise<void>;
+};
+
+const JOB_OPTIONS = {
+  attempts: 3,
+  backoff: { type: 'exponential' as const, delay: 2000 },
+  removeOnComplete: true,
+  removeOnFail: true,
+};
+
+/** The ingest queue's consumer: one processor, payloads parsed at the door (a bad payload is not retried). */
+export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions): IngestWorker {
+  const log = deps.log ?? (() => {});
+  const queue = new Queue<IngestJob>(INGEST_QUEUE_NAME, { connection: options.connection, prefix: options.prefix });
+
+  const worker = new Worker<IngestJob, IngestOutcome>(
+    INGEST_QUEUE_NAME,
+    async (job: Job<IngestJob>) => {
+      const payload = ingestJobSchema.safeParse(job.data);
+      if (!payload.success) throw new UnrecoverableError(`ingest job ${job.id}: invalid payload`);
+      try {
+        return await processUpload(deps, payload.data.uploadId, (progress) => job.updateProgress(Math.round(progress * 1000) / 1000));
+      } catch (error) {
+        const lastAttempt = job.attemptsMade + 1 >= (job.opts.attempts ?? 1);
+        log(`upload ${payload.data.uploadId}: attempt ${job.attemptsMade + 1} failed: ${(error as Error).message}`);
+        if (lastAttempt) {
+          await repo
+            .markFailed(deps.db, payload.data.uploadId, 'The file could not be processed because of a problem on our side. Upload it again, or contact the network coordinator if this repeats.')
+            .catch(() => {});
+        }
+        throw error;
+      }
+    },
+    {
+      connection: options.connection,
+      prefix: options.prefix,
+      concurrency: options.concurrency,
+      lockDuration: 60_000,
+    },
+  );
+  worker.on('error', (error) => log(`ingest worker: ${error.message}`));
+
+  async function recover(): Promise<number> {
+    const pending = await repo.uploadsToRecover(deps.db);
+    for (const upload of pending) {
+      // The same job id as the API uses, so an upload that is still in the queue is not added twice.
+      await queue.add('ingest', { uploadId: upload.id }, { ...JOB_OPTIONS, jobId: ingestJobId(upload.id, upload.confirmed ? 'confirmed' : 'initial') });
+    }
+    // Recompute requests left by a crash between storing and recomputing.
+    await drainPeerStatisticsRequests(deps.db, { minLabs: deps.minLabs });
+    return pending.length;
+  }
+
+  const timer =
+    options.recoveryIntervalMs > 0
+      ? setInterval(() => {
+          recover().catch((error: Error) => log(`ingest recovery: ${error.message}`));
+        }, options.recoveryIntervalMs)
+      : null;
+  timer?.unref();
+
+  return {
+    worker,
+    queue,
+    recover,
+    async close() {
+      if (timer) clearInterval(timer);
+      await worker.close();
+      await queue.close();
+    },
+  };
+}

@@ -1,0 +1,105 @@
+import { describe, expect, it } from 'vitest';
+import { evaluateMultirule, type ControlPoint } from '../src/index.ts';
+
+// Westgard JO, Barry PL, Hunt MR, Groth T. Clin Chem 1981;27:493–501 published the rule definitions
+// but no numeric example, so every sequence here is built from the definitions (CHECKS.md).
+const targets = { 1: { mean: 100, sd: 2 }, 2: { mean: 200, sd: 4 } };
+const valueAt = (level: 1 | 2, z: number) => targets[level].mean + z * targets[level].sd;
+
+/** Runs given as z-scores per level, e.g. [[2.1, 0], [0, 0]] = two runs with levels 1 and 2. */
+function runsOf(zs: number[][]): ControlPoint[] {
+  return zs.flatMap((run, r) => run.map((z, l) => ({ run: `run-${r + 1}`, level: l + 1, value: valueAt((l + 1) as 1 | 2, z) })));
+}
+const verdicts = (zs: number[][]) => evaluateMultirule(runsOf(zs), targets).runs.map((r) => `${r.verdict}:${r.rules.join(',')}`);
+
+describe('evaluateMultirule', () => {
+  it('when values are within 2s, then every run is accepted and z = (value − mean)/SD', () => {
+    const result = evaluateMultirule(runsOf([[0.5, -1.5]]), targets);
+    expect(result.points.map((p) => p.z)).toEqual([0.5, -1.5]);
+    expect(result.runs).toEqual([{ run: 'run-1', verdict: 'accept', rules: [] }]);
+  });
+
+  it('when one value is beyond 2s, then 1-2s warns; exactly at 2s does not (strict "beyond")', () => {
+    expect(verdicts([[2.5, 0]])).toEqual(['warn:1-2s']);
+    expect(verdicts([[2, 0]])).toEqual(['accept:']);
+    expect(verdicts([[0, -2.25]])).toEqual(['warn:1-2s']);
+  });
+
+  it('when one value is beyond 3s, then 1-3s rejects; exactly at 3s only warns', () => {
+    expect(verdicts([[3.5, 0]])).toEqual(['reject:1-2s,1-3s']);
+    expect(verdicts([[3, 0]])).toEqual(['warn:1-2s']);
+  });
+
+  it('when both levels of a run are beyond the same 2s limit, then 2-2s rejects (within run, across levels)', () => {
+    expect(verdicts([[2.25, 2.5]])).toEqual(['reject:1-2s,2-2s']);
+    expect(verdicts([[-2.25, -2.5]])).toEqual(['reject:1-2s,2-2s']);
+  });
+
+  it('when one level is beyond the same 2s limit in two consecutive runs, then the second run is rejected by 2-2s (across runs, within level)', () => {
+    expect(verdicts([[2.25, 0], [2.5, 0]])).toEqual(['warn:1-2s', 'reject:1-2s,2-2s']);
+    // Opposite limits or different levels in consecutive runs are not 2-2s.
+    expect(verdicts([[2.25, 0], [-2.5, 0]])).toEqual(['warn:1-2s', 'warn:1-2s']);
+    expect(verdicts([[2.25, 0], [0, 2.5]])).toEqual(['warn:1-2s', 'warn:1-2s']);
+  });
+
+  it('when in one run one value is beyond +2s and another beyond −2s, then R-4s rejects; not across runs', () => {
+    expect(verdicts([[2.25, -2.25]])).toEqual(['reject:1-2s,R-4s']);
+    expect(verdicts([[2.25, 0], [0, -2.25]])).toEqual(['warn:1-2s', 'warn:1-2s']);
+  });
+
+  it('when four consecutive values of one level are beyond the same 1s limit, then 4-1s rejects the run completing them', () => {
+    expect(verdicts([[1.5, 0], [1.5, 0], [1.5, 0], [1.5, 0]])).toEqual(['accept:', 'accept:', 'accept:', 'reject:4-1s']);
+    expect(verdicts([[-1.25, 0], [-1.5, 0], [-1.75, 0], [-1.25, 0]])).toEqual(['accept:', 'accept:', 'accept:', 'reject:4-1s']);
+    // Exactly at 1s breaks the sequence.
+    expect(verdicts([[1.5, 0], [1, 0], [1.5, 0], [1.5, 0]])).toEqual(['accept:', 'accept:', 'accept:', 'accept:']);
+  });
+
+  it('when four consecutive values across levels are beyond the same 1s limit, then 4-1s rejects (across levels)', () => {
+    expect(verdicts([[1.25, 1.5], [1.5, 1.25]])).toEqual(['accept:', 'reject:4-1s']);
+    const points = evaluateMultirule(runsOf([[1.25, 1.5], [1.5, 1.25]]), targets).points;
+    expect(points.map((p) => p.rules)).toEqual([[], [], ['4-1s'], ['4-1s']]); // earlier runs keep their verdict
+  });
+
+  it('when ten consecutive values of one level are on the same side of the mean, then 10-x rejects the tenth run', () => {
+    const zs = Array.from({ length: 10 }, () => [0.5, 0]);
+    const result = verdicts(zs);
+    expect(result.slice(0, 9).every((v) => v === 'accept:')).toBe(true);
+    expect(result[9]).toBe('reject:10-x');
+    // A value exactly at the mean breaks the sequence.
+    const broken = Array.from({ length: 10 }, (_, i) => [i === 4 ? 0 : 0.5, 0]);
+    expect(verdicts(broken)[9]).toBe('accept:');
+  });
+
+  it('when ten consecutive values across levels are on the same side of the mean, then 10-x rejects (across levels, 5 runs × 2 levels)', () => {
+    const zs = Array.from({ length: 5 }, () => [-0.25, -0.5]);
+    expect(verdicts(zs)).toEqual(['accept:', 'accept:', 'accept:', 'accept:', 'reject:10-x']);
+  });
+
+  it('when several rules are violated, then they are listed in the fixed order 1-2s, 1-3s, 2-2s, R-4s, 4-1s, 10-x', () => {
+    expect(verdicts([[3.5, -2.5]])).toEqual(['reject:1-2s,1-3s,R-4s']);
+  });
+
+  it('when a level has no target, then it throws naming the level, point and run', () => {
+    expect(() => evaluateMultirule([{ run: 'a', level: 3, value: 1 }], targets)).toThrow(
+      "evaluateMultirule: no target for level 3 (point 0, run 'a')",
+    );
+  });
+
+  it('when a target SD is not positive or a value not finite, then it throws', () => {
+    expect(() => evaluateMultirule([{ run: 'a', level: 1, value: 1 }], { 1: { mean: 1, sd: 0 } })).toThrow(
+      'evaluateMultirule: target sd of level 1 must be greater than 0, got 0',
+    );
+    expect(() => evaluateMultirule([{ run: 'a', level: 1, value: Number.NaN }], targets)).toThrow(
+      "evaluateMultirule: point 0 (run 'a') value is not a finite number",
+    );
+  });
+
+  it('when a run reappears after another run, then it throws (input must be chronological)', () => {
+    const points = [
+      { run: 'a', level: 1, value: 100 },
+      { run: 'b', level: 1, value: 100 },
+      { run: 'a', level: 2, value: 200 },
+    ];
+    expect(() => evaluateMultirule(points, targets)).toThrow("evaluateMultirule: run 'a' appears again at point 2");
+  });
+});
