@@ -72,6 +72,11 @@ export const peerReportSchema = z.object({
   lab: z.object({ id: uuidSchema, code: z.string(), name: z.string() }),
   /** The published snapshot the peer figures come from; null while they are provisional. */
   published: z.object({ version: z.number().int(), publishedAt: z.string() }).nullable(),
+  /**
+   * True while newly stored data of this period (or an earlier one) is still being folded into the peer
+   * figures; they are recomputed within seconds, so refetch shortly.
+   */
+  statisticsPending: z.boolean(),
   rows: z.array(peerReportRowSchema),
 });
 export type PeerReport = z.infer<typeof peerReportSchema>;

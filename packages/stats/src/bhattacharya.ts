@@ -36,7 +36,8 @@ export function bhattacharya(edges: readonly number[], counts: readonly number[]
   const width = edges[1] - edges[0];
   for (let i = 1; i < edges.length; i++) {
     const w = edges[i] - edges[i - 1];
-    if (!(w > 0) || Math.abs(w - width) > 1e-9 * Math.abs(width)) fail(fn, `bins must have equal increasing width; bin ${i - 1} differs`);
+    if (!(w > 0) || Math.abs(w - width) > 1e-9 * Math.abs(width))
+      fail(fn, `bins must have equal increasing width; bin ${i - 1} differs`);
   }
   counts.forEach((c, i) => {
     checkFinite(fn, `count ${i}`, c);
@@ -44,11 +45,14 @@ export function bhattacharya(edges: readonly number[], counts: readonly number[]
   });
   const pairs: [number, number][] = [];
   for (let i = 0; i + 1 < counts.length; i++) {
-    if (counts[i] > 0 && counts[i + 1] > 0) pairs.push([edges[i + 1], Math.log(counts[i + 1]) - Math.log(counts[i])]);
+    if (counts[i] > 0 && counts[i + 1] > 0)
+      pairs.push([edges[i + 1], Math.log(counts[i + 1]) - Math.log(counts[i])]);
   }
-  if (pairs.length < 2) fail(fn, `needs at least 2 pairs of neighbouring non-empty bins, got ${pairs.length}`);
+  if (pairs.length < 2)
+    fail(fn, `needs at least 2 pairs of neighbouring non-empty bins, got ${pairs.length}`);
   const { m: slope, b: intercept } = linearRegression(pairs);
-  if (!(slope < 0)) fail(fn, `the fitted slope is ${slope}, not negative, so the bins are not one Gaussian component`);
+  if (!(slope < 0))
+    fail(fn, `the fitted slope is ${slope}, not negative, so the bins are not one Gaussian component`);
   const lambda = -slope;
   const variance = width / lambda - (width * width) / 12;
   if (!(variance > 0)) fail(fn, 'the fitted variance is not positive (bins too wide for this component)');

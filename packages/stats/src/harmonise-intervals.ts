@@ -1,6 +1,10 @@
 import { boxCoxLambda, boxCoxUnchecked } from './box-cox.ts';
 import { harrisBoyd, type HarrisBoydResult } from './harris-boyd.ts';
-import { nonparametricInterval, type NonparametricInterval, type NonparametricIntervalOptions } from './nonparametric-interval.ts';
+import {
+  nonparametricInterval,
+  type NonparametricInterval,
+  type NonparametricIntervalOptions,
+} from './nonparametric-interval.ts';
 import { checkValues, fail } from './validate.ts';
 
 /** One site's reference values for the same analyte and partition. */
@@ -43,12 +47,20 @@ export interface HarmonisationOptions extends NonparametricIntervalOptions {
  *   than 2 values, a value is not finite (or not > 0 with 'box-cox'), or the pooled interval cannot
  *   be computed (too few values in total).
  * @example
- * // Two sites whose means differ by 1 SD of the difference: z far below z*, SD ratio 1.
- * harmoniseIntervals([{ id: 'north', values: siteA }, { id: 'south', values: siteB }]).shareable; // => true
+ * const north = Array.from({ length: 60 }, (_, i) => 138 + (i % 5)); // 138 … 142, 12 times each
+ * const south = north.map((v) => v + 0.5);
+ * const result = harmoniseIntervals([{ id: 'north', values: north }, { id: 'south', values: south }]);
+ * result.comparisons; // => [{ a: 'north', b: 'south', z: 1.9202864369671522, zCritical: 2.121320343559643, sdRatio: 1, partition: false }]
+ * result.shareable; // => true
+ * result.pooled.lower.value; // => 138
  */
-export function harmoniseIntervals(sites: readonly SiteValues[], options: HarmonisationOptions = {}): Harmonisation {
+export function harmoniseIntervals(
+  sites: readonly SiteValues[],
+  options: HarmonisationOptions = {},
+): Harmonisation {
   const fn = 'harmoniseIntervals';
-  if (!Array.isArray(sites) || sites.length < 2) fail(fn, `needs at least 2 sites, got ${sites?.length ?? 0}`);
+  if (!Array.isArray(sites) || sites.length < 2)
+    fail(fn, `needs at least 2 sites, got ${sites?.length ?? 0}`);
   const ids = new Set<string>();
   for (const site of sites) {
     if (typeof site.id !== 'string' || site.id === '') fail(fn, 'every site needs an id');

@@ -49,10 +49,14 @@ export function harrisBoydFromSummaries(
   b: { n: number; mean: number; sd: number },
 ): HarrisBoydResult {
   const fn = 'harrisBoydFromSummaries';
-  for (const [name, group] of [['first', a], ['second', b]] as const) {
+  for (const [name, group] of [
+    ['first', a],
+    ['second', b],
+  ] as const) {
     if (!Number.isInteger(group.n) || group.n < 2) fail(fn, `${name} group needs n ≥ 2, got ${group.n}`);
     if (!Number.isFinite(group.mean)) fail(fn, `${name} group mean is not a finite number`);
-    if (!(Number.isFinite(group.sd) && group.sd >= 0)) fail(fn, `${name} group sd must be a finite number ≥ 0, got ${group.sd}`);
+    if (!(Number.isFinite(group.sd) && group.sd >= 0))
+      fail(fn, `${name} group sd must be a finite number ≥ 0, got ${group.sd}`);
   }
   if (a.sd === 0 && b.sd === 0) fail(fn, 'both groups have SD 0, so the test is undefined');
   const z = Math.abs(a.mean - b.mean) / Math.sqrt((a.sd * a.sd) / a.n + (b.sd * b.sd) / b.n);

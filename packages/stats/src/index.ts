@@ -12,7 +12,13 @@ export * from './rank-confidence-interval.ts';
 export { percentile } from './percentile.ts';
 export * from './nonparametric-interval.ts';
 export * from './robust-interval.ts';
-export { boxCox, boxCoxInverse, boxCoxLambda, boxCoxLogLikelihood, type BoxCoxLambdaOptions } from './box-cox.ts';
+export {
+  boxCox,
+  boxCoxInverse,
+  boxCoxLambda,
+  boxCoxLogLikelihood,
+  type BoxCoxLambdaOptions,
+} from './box-cox.ts';
 export * from './screen-outliers.ts';
 export * from './harris-boyd.ts';
 export * from './verify-interval.ts';

@@ -46,7 +46,7 @@ export interface MeasurementUncertainty {
  * @example
  * measurementUncertainty({ cvPct: 3, comparisons: [{ biasPct: 4, uRefPct: 0 }, { biasPct: -2, uRefPct: 1 }] });
  * // => { uRw: 3, rmsBias: 3.1622776601683795, uRef: 0.5, uBias: 3.2015621187164243,
- * //      uc: 4.387482193696061, U: 8.774964387392123 }
+ * //      uc: 4.38748219369606, U: 8.77496438739212 }
  */
 export function measurementUncertainty(input: MeasurementUncertaintyInput): MeasurementUncertainty {
   const fn = 'measurementUncertainty';
@@ -54,7 +54,8 @@ export function measurementUncertainty(input: MeasurementUncertaintyInput): Meas
   const k = input.coverageFactor ?? 2;
   checkPositive(fn, 'coverageFactor', k);
   const { comparisons } = input;
-  if (!Array.isArray(comparisons) || comparisons.length === 0) fail(fn, 'needs at least 1 peer comparison, got 0');
+  if (!Array.isArray(comparisons) || comparisons.length === 0)
+    fail(fn, 'needs at least 1 peer comparison, got 0');
   let squares = 0;
   let uRefSum = 0;
   comparisons.forEach((c, i) => {

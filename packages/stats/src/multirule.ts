@@ -66,7 +66,8 @@ export function evaluateMultirule(
   if (!Array.isArray(points)) fail(fn, 'points must be an array');
   const evaluated: EvaluatedPoint[] = points.map((point, i) => {
     if (typeof point.run !== 'string' || point.run === '') fail(fn, `point ${i} has no run`);
-    if (!Number.isFinite(point.value)) fail(fn, `point ${i} (run '${point.run}') value is not a finite number`);
+    if (!Number.isFinite(point.value))
+      fail(fn, `point ${i} (run '${point.run}') value is not a finite number`);
     const target = Object.hasOwn(targets, point.level) ? targets[point.level] : undefined;
     if (!target) fail(fn, `no target for level ${point.level} (point ${i}, run '${point.run}')`);
     if (!Number.isFinite(target.mean)) fail(fn, `target mean of level ${point.level} is not a finite number`);
@@ -83,7 +84,10 @@ export function evaluateMultirule(
     const current = runOrder[runOrder.length - 1];
     if (point.run !== current) {
       if (runPoints.has(point.run)) {
-        fail(fn, `run '${point.run}' appears again at point ${i} after other runs; give points in chronological order`);
+        fail(
+          fn,
+          `run '${point.run}' appears again at point ${i} after other runs; give points in chronological order`,
+        );
       }
       runOrder.push(point.run);
       runPoints.set(point.run, []);

@@ -1,6 +1,6 @@
 import { algorithmA } from './robust-mean-sd.ts';
 import { pool } from './pool.ts';
-import { checkFinite, checkInteger, fail } from './validate.ts';
+import { checkInteger, fail } from './validate.ts';
 
 /** One member lab's summary for the period. */
 export interface LabSummary {
@@ -80,7 +80,10 @@ export const DEFAULT_MIN_LABS_FOR_SCREENING = 5;
  * ]).excluded;
  * // => [{ id: 'e', reason: 'outlier' }]
  */
-export function peerStatistics(labs: readonly LabSummary[], options: PeerStatisticsOptions = {}): PeerStatistics {
+export function peerStatistics(
+  labs: readonly LabSummary[],
+  options: PeerStatisticsOptions = {},
+): PeerStatistics {
   const fn = 'peerStatistics';
   if (!Array.isArray(labs) || labs.length === 0) fail(fn, 'needs at least 1 lab, got 0');
   const minLabs = options.minLabs ?? DEFAULT_MIN_LABS;
@@ -88,15 +91,17 @@ export function peerStatistics(labs: readonly LabSummary[], options: PeerStatist
   checkInteger(fn, 'minLabs', minLabs, 1);
   checkInteger(fn, 'minLabsForScreening', minLabsForScreening, 3);
   const seen = new Set<string>();
-  labs.forEach((lab, i) => {
-    if (typeof lab.id !== 'string' || lab.id === '') fail(fn, `lab ${i} has no id`);
-    if (seen.has(lab.id)) fail(fn, `lab id '${lab.id}' appears more than once`);
-    seen.add(lab.id);
-    checkInteger(fn, `lab '${lab.id}' n`, lab.n, 2);
-    checkFinite(fn, `lab '${lab.id}' mean`, lab.mean);
-    checkFinite(fn, `lab '${lab.id}' sd`, lab.sd);
-    if (lab.sd < 0) fail(fn, `lab '${lab.id}' sd must not be negative, got ${lab.sd}`);
-  });
+  // Conditions are tested inline so that messages are only built on failure (hot path).
+  for (let i = 0; i < labs.length; i++) {
+    const { id, n, mean, sd } = labs[i];
+    if (typeof id !== 'string' || id === '') fail(fn, `lab ${i} has no id`);
+    if (seen.has(id)) fail(fn, `lab id '${id}' appears more than once`);
+    seen.add(id);
+    if (!Number.isInteger(n) || n < 2) fail(fn, `lab '${id}' n must be an integer of at least 2, got ${n}`);
+    if (!Number.isFinite(mean)) fail(fn, `lab '${id}' mean must be a finite number, got ${mean}`);
+    if (!Number.isFinite(sd)) fail(fn, `lab '${id}' sd must be a finite number, got ${sd}`);
+    if (sd < 0) fail(fn, `lab '${id}' sd must not be negative, got ${sd}`);
+  }
 
   const manual = new Set(options.excludeIds ?? []);
   const excluded: PeerExclusion[] = [];

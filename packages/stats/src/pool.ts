@@ -1,4 +1,4 @@
-import { checkFinite, checkInteger, fail } from './validate.ts';
+import { fail } from './validate.ts';
 
 /** One part to pool: a month, a lab, a period. */
 export interface PoolPart {
@@ -35,13 +35,15 @@ export function pool(parts: readonly PoolPart[]): Pooled {
   const fn = 'pool';
   if (!Array.isArray(parts) || parts.length === 0) fail(fn, 'needs at least 1 part, got 0');
   let total = 0;
-  parts.forEach((part, i) => {
-    checkInteger(fn, `part ${i} n`, part.n, 1);
-    checkFinite(fn, `part ${i} mean`, part.mean);
-    checkFinite(fn, `part ${i} sd`, part.sd);
-    if (part.sd < 0) fail(fn, `part ${i} sd must not be negative, got ${part.sd}`);
-    total += part.n;
-  });
+  // Conditions are tested inline so that messages are only built on failure (hot path).
+  for (let i = 0; i < parts.length; i++) {
+    const { n, mean, sd } = parts[i];
+    if (!Number.isInteger(n) || n < 1) fail(fn, `part ${i} n must be an integer of at least 1, got ${n}`);
+    if (!Number.isFinite(mean)) fail(fn, `part ${i} mean must be a finite number, got ${mean}`);
+    if (!Number.isFinite(sd)) fail(fn, `part ${i} sd must be a finite number, got ${sd}`);
+    if (sd < 0) fail(fn, `part ${i} sd must not be negative, got ${sd}`);
+    total += n;
+  }
   if (total < 2) fail(fn, `needs at least 2 values in all parts together, got ${total}`);
 
   // Work relative to the first mean so large offsets do not cost precision.

@@ -11,7 +11,7 @@ function binomialMass(n: number, p: number): { start: number; mass: Float64Array
   const below: number[] = [];
   let term = 1;
   for (let k = mode; k > 0; k--) {
-    term *= (k / (n - k + 1)) / odds; // P(k − 1) / P(k)
+    term *= k / (n - k + 1) / odds; // P(k − 1) / P(k)
     if (term < 1e-20) break;
     below.push(term);
   }

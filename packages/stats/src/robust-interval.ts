@@ -1,4 +1,4 @@
-import jStat from 'jstat';
+import { studentTQuantile } from './distributions.ts';
 import { checkProbability, fail, medianOfSorted, sortedCopy } from './validate.ts';
 
 export interface RobustInterval {
@@ -37,9 +37,14 @@ export interface RobustIntervalOptions {
  * @throws {Error} when there are fewer than 20 values, a value is not finite, more than half the
  *   values are equal (MAD = 0), or the coverage is not strictly between 0 and 1.
  * @example
- * robustInterval(Array.from({ length: 20 }, (_, i) => 100 + i)); // see the test for the figures
+ * robustInterval(Array.from({ length: 20 }, (_, i) => 100 + i)); // 100 … 119
+ * // => { n: 20, lower: 96.69384380818597, upper: 122.306156191814, location: 109.49999999999999,
+ * //      scale: 5.916297429732099, locationError: 1.559936216148113 }
  */
-export function robustInterval(values: readonly number[], options: RobustIntervalOptions = {}): RobustInterval {
+export function robustInterval(
+  values: readonly number[],
+  options: RobustIntervalOptions = {},
+): RobustInterval {
   const fn = 'robustInterval';
   const coverage = options.coverage ?? 0.95;
   checkProbability(fn, 'coverage', coverage);
@@ -48,7 +53,8 @@ export function robustInterval(values: readonly number[], options: RobustInterva
   const median = medianOfSorted(sorted);
   const deviations = Float64Array.from(sorted, (v) => Math.abs(v - median)).sort();
   const mad = medianOfSorted(deviations) / 0.6745;
-  if (mad === 0) fail(fn, 'more than half of the values are equal (MAD = 0), so the biweight scale is undefined');
+  if (mad === 0)
+    fail(fn, 'more than half of the values are equal (MAD = 0), so the biweight scale is undefined');
 
   // Biweight location, iterated from the median.
   let location = median;
@@ -72,7 +78,7 @@ export function robustInterval(values: readonly number[], options: RobustInterva
   const scale = biweightScale(sorted, median, 205.6 * mad, true);
   const scale37 = biweightScale(sorted, median, 3.7 * mad, true);
   const locationError = biweightScale(sorted, location, 3.7 * scale37, false);
-  const t = jStat.studentt.inv(1 - (1 - coverage) / 2, n - 1);
+  const t = studentTQuantile(1 - (1 - coverage) / 2, n - 1);
   const margin = t * Math.sqrt(scale * scale + locationError * locationError);
   return { n, lower: location - margin, upper: location + margin, location, scale, locationError };
 }

@@ -41,7 +41,7 @@ export interface RobustMeanSdOptions {
  * @throws {Error} when there are fewer than 2 values, a value is not finite, or the options are invalid.
  * @example
  * robustMeanSd([1.69, 0.74, 2.05, 1.14, 2.19, 1.39, 1.52, 1.50, 1.58, 0.80, 1.21, 1.63]);
- * // => { mean: 1.4533333333333331, sd: 0.49614831763385936, iterations: 6, converged: true }
+ * // => { mean: 1.4533333333333334, sd: 0.49614831763385936, iterations: 6, converged: true }
  */
 export function robustMeanSd(values: readonly number[], options: RobustMeanSdOptions = {}): RobustMeanSd {
   const fn = 'robustMeanSd';
@@ -53,41 +53,72 @@ export function robustMeanSd(values: readonly number[], options: RobustMeanSdOpt
   return algorithmA(new Float64Array(values), tolerance, maxIterations);
 }
 
-/** Algorithm A on already-checked values; `work` is overwritten. Shared with peerStatistics. */
+/**
+ * Algorithm A on already-checked values; `work` is overwritten. Shared with peerStatistics.
+ * The values are sorted once and centred on the median; winsorised sums then come from prefix
+ * sums and two binary searches, so each iteration costs O(log p) instead of O(p).
+ */
 export function algorithmA(work: Float64Array, tolerance: number, maxIterations: number): RobustMeanSd {
   const p = work.length;
-  const values = Float64Array.from(work);
-  work.sort();
-  let mean = medianOfSorted(work);
-  for (let i = 0; i < p; i++) work[i] = Math.abs(values[i] - mean);
-  work.sort();
-  let sd = 1.483 * medianOfSorted(work);
-  if (sd === 0) return { mean, sd, iterations: 0, converged: true };
+  const sorted = work.sort();
+  const center = medianOfSorted(sorted);
+  const deviations = new Float64Array(p);
+  for (let i = 0; i < p; i++) deviations[i] = Math.abs(sorted[i] - center);
+  deviations.sort();
+  let sd = 1.483 * medianOfSorted(deviations);
+  if (sd === 0) return { mean: center, sd, iterations: 0, converged: true };
 
+  // Prefix sums of the centred values and of their squares.
+  const sums = new Float64Array(p + 1);
+  const squares = new Float64Array(p + 1);
+  for (let i = 0; i < p; i++) {
+    const d = sorted[i] - center;
+    sums[i + 1] = sums[i] + d;
+    squares[i + 1] = squares[i] + d * d;
+  }
+  let mean = 0; // centred
   let iterations = 0;
   let converged = false;
   while (iterations < maxIterations) {
     const delta = 1.5 * sd;
     const low = mean - delta;
     const high = mean + delta;
-    let sum = 0;
-    for (let i = 0; i < p; i++) {
-      const v = values[i];
-      work[i] = v < low ? low : v > high ? high : v;
-      sum += work[i];
-    }
+    const below = countBelow(sorted, center + low); // values clipped up to low
+    const notAbove = countNotAbove(sorted, center + high); // values up to high; the rest are clipped down
+    const above = p - notAbove;
+    const sum = below * low + above * high + (sums[notAbove] - sums[below]);
+    const sumSquares = below * low * low + above * high * high + (squares[notAbove] - squares[below]);
     const nextMean = sum / p;
-    let squares = 0;
-    for (let i = 0; i < p; i++) {
-      const d = work[i] - nextMean;
-      squares += d * d;
-    }
-    const nextSd = 1.134 * Math.sqrt(squares / (p - 1));
+    const nextSd = 1.134 * Math.sqrt(Math.max(0, (sumSquares - sum * nextMean) / (p - 1)));
     iterations++;
     converged = Math.abs(nextMean - mean) < tolerance * nextSd && Math.abs(nextSd - sd) < tolerance * nextSd;
     mean = nextMean;
     sd = nextSd;
     if (converged) break;
   }
-  return { mean, sd, iterations, converged };
+  return { mean: center + mean, sd, iterations, converged };
+}
+
+/** Number of sorted values strictly below x. */
+function countBelow(sorted: Float64Array, x: number): number {
+  let lo = 0;
+  let hi = sorted.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (sorted[mid] < x) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/** Number of sorted values less than or equal to x. */
+function countNotAbove(sorted: Float64Array, x: number): number {
+  let lo = 0;
+  let hi = sorted.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (sorted[mid] <= x) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
 }

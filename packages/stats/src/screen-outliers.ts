@@ -38,7 +38,11 @@ export function screenOutliers(values: readonly number[], method: 'tukey' | 'dix
   if (method === 'tukey') {
     checkValues(fn, values, 4);
     values.forEach((v, i) => {
-      if (v <= 0) fail(fn, `Tukey screening after a Box-Cox transform needs values greater than 0; value at index ${i} is ${v}`);
+      if (v <= 0)
+        fail(
+          fn,
+          `Tukey screening after a Box-Cox transform needs values greater than 0; value at index ${i} is ${v}`,
+        );
     });
     const [low, high] = tukeyFences(values);
     return split(values, (v) => v >= low && v <= high);

@@ -48,7 +48,7 @@ const LEVEL_FACTORS: Record<BiologicalVariationLevel, { imprecision: number; bia
  * @throws {Error} when CV_I or CV_G is not greater than 0, or the level is unknown.
  * @example
  * teaFromBiologicalVariation(4.6, 5.6); // potassium
- * // => { imprecisionPct: 2.3, biasPct: 1.8117739371074207, teaPct: 5.606773937107421 }
+ * // => { imprecisionPct: 2.3, biasPct: 1.8117670931993435, teaPct: 5.606767093199343 }
  */
 export function teaFromBiologicalVariation(
   cvWithinPct: number,

@@ -55,10 +55,18 @@ export interface FlagThresholds {
 }
 
 /** |SDI| ≤ 1 fine, ≤ 2 acceptable, ≤ 3 warning, > 3 action (common practice, no single source). */
-export const DEFAULT_SDI_THRESHOLDS: Readonly<FlagThresholds> = Object.freeze({ fine: 1, acceptable: 2, warning: 3 });
+export const DEFAULT_SDI_THRESHOLDS: Readonly<FlagThresholds> = Object.freeze({
+  fine: 1,
+  acceptable: 2,
+  warning: 3,
+});
 
 /** CVR ≤ 1 fine, ≤ 1.5 acceptable, ≤ 2 warning, > 2 action (common practice, no single source). */
-export const DEFAULT_CVR_THRESHOLDS: Readonly<FlagThresholds> = Object.freeze({ fine: 1, acceptable: 1.5, warning: 2 });
+export const DEFAULT_CVR_THRESHOLDS: Readonly<FlagThresholds> = Object.freeze({
+  fine: 1,
+  acceptable: 1.5,
+  warning: 2,
+});
 
 function classify(fn: string, value: number, thresholds: FlagThresholds): Flag {
   checkFinite(fn, 'value', value);
@@ -67,7 +75,10 @@ function classify(fn: string, value: number, thresholds: FlagThresholds): Flag {
   checkFinite(fn, 'thresholds.acceptable', acceptable);
   checkFinite(fn, 'thresholds.warning', warning);
   if (!(0 <= fine && fine <= acceptable && acceptable <= warning)) {
-    fail(fn, `thresholds must satisfy 0 ≤ fine ≤ acceptable ≤ warning, got ${fine}, ${acceptable}, ${warning}`);
+    fail(
+      fn,
+      `thresholds must satisfy 0 ≤ fine ≤ acceptable ≤ warning, got ${fine}, ${acceptable}, ${warning}`,
+    );
   }
   if (value <= fine) return 'fine';
   if (value <= acceptable) return 'acceptable';

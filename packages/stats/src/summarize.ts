@@ -23,7 +23,7 @@ export interface Summary {
  * @throws {Error} when there are fewer than 2 values or a value is not a finite number.
  * @example
  * summarize([2, 4, 4, 4, 5, 5, 7, 9]);
- * // => { n: 8, mean: 5, sd: 2.138089935299395, cv: 42.7617987059879 }
+ * // => { n: 8, mean: 5, sd: 2.138089935299395, cv: 42.76179870598791 }
  */
 export function summarize(values: readonly number[]): Summary {
   checkValues('summarize', values, 2);

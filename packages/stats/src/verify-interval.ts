@@ -23,7 +23,10 @@ export interface IntervalVerification {
  *                  4.4, 4.4, 4.5, 4.6, 4.7, 4.8, 4.9, 5.0, 5.2, 5.4];
  * verifyInterval(results, [3.5, 5.1]); // => { n: 20, outside: 2, accepted: true }
  */
-export function verifyInterval(values: readonly number[], interval: readonly [number, number]): IntervalVerification {
+export function verifyInterval(
+  values: readonly number[],
+  interval: readonly [number, number],
+): IntervalVerification {
   const fn = 'verifyInterval';
   checkValues(fn, values, 0, '', ['results', 'result']);
   if (values.length !== 20) fail(fn, `needs exactly 20 results, got ${values.length}`);

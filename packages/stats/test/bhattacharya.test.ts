@@ -5,7 +5,9 @@ import { bhattacharya, seededRandom } from '../src/index.ts';
 describe('bhattacharya (Biometrics 1967;23:115–135)', () => {
   it('when the exact bin probabilities of N(140, 2²) with unit bins 134–146 are used, then μ = 140 and σ² = 3.9995 (CHECKS.md, computed identity)', () => {
     const edges = Array.from({ length: 13 }, (_, i) => 134 + i);
-    const counts = edges.slice(0, -1).map((e) => jStat.normal.cdf(e + 1, 140, 2) - jStat.normal.cdf(e, 140, 2));
+    const counts = edges
+      .slice(0, -1)
+      .map((e) => jStat.normal.cdf(e + 1, 140, 2) - jStat.normal.cdf(e, 140, 2));
     const fit = bhattacharya(edges, counts);
     expect(fit.mean).toBeCloseTo(140, 8);
     expect(fit.sd ** 2).toBeCloseTo(3.9995, 4);
@@ -26,9 +28,15 @@ describe('bhattacharya (Biometrics 1967;23:115–135)', () => {
   });
 
   it('when the bins are invalid, then it throws naming the function and the problem', () => {
-    expect(() => bhattacharya([0, 1, 2], [1, 2, 3])).toThrow('bhattacharya: needs bin edges with one more entry than counts');
-    expect(() => bhattacharya([0, 1, 3], [1, 2])).toThrow('bhattacharya: bins must have equal increasing width; bin 1 differs');
-    expect(() => bhattacharya([0, 1, 2], [1, 2])).toThrow('bhattacharya: needs at least 2 pairs of neighbouring non-empty bins, got 1');
+    expect(() => bhattacharya([0, 1, 2], [1, 2, 3])).toThrow(
+      'bhattacharya: needs bin edges with one more entry than counts',
+    );
+    expect(() => bhattacharya([0, 1, 3], [1, 2])).toThrow(
+      'bhattacharya: bins must have equal increasing width; bin 1 differs',
+    );
+    expect(() => bhattacharya([0, 1, 2], [1, 2])).toThrow(
+      'bhattacharya: needs at least 2 pairs of neighbouring non-empty bins, got 1',
+    );
     expect(() => bhattacharya([0, 1, 2, 3], [1, 2, 4])).toThrow('bhattacharya: the fitted slope is');
   });
 });

@@ -15,10 +15,14 @@ describe('boxCox and boxCoxInverse', () => {
 
   it('when a value is transformed and back, then it returns (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: 1e-3, max: 1e4, noNaN: true }), fc.double({ min: -2, max: 2, noNaN: true }), (x, lambda) => {
-        // Relative check: a strong transform (λ = −2, large x) keeps only ~8 digits of x.
-        expect(Math.abs(boxCoxInverse(boxCox(x, lambda), lambda) - x)).toBeLessThanOrEqual(1e-6 * x);
-      }),
+      fc.property(
+        fc.double({ min: 1e-3, max: 1e4, noNaN: true }),
+        fc.double({ min: -2, max: 2, noNaN: true }),
+        (x, lambda) => {
+          // Relative check: a strong transform (λ = −2, large x) keeps only ~8 digits of x.
+          expect(Math.abs(boxCoxInverse(boxCox(x, lambda), lambda) - x)).toBeLessThanOrEqual(1e-6 * x);
+        },
+      ),
     );
   });
 
@@ -56,9 +60,13 @@ describe('boxCoxLogLikelihood and boxCoxLambda', () => {
 
   it('when values are invalid, then it throws naming the function and the value', () => {
     expect(() => boxCoxLambda([1, 2])).toThrow('boxCoxLambda: needs at least 3 values, got 2');
-    expect(() => boxCoxLambda([1, 2, -3])).toThrow('boxCoxLambda: value at index 2 must be greater than 0 for a Box-Cox transform, got -3');
+    expect(() => boxCoxLambda([1, 2, -3])).toThrow(
+      'boxCoxLambda: value at index 2 must be greater than 0 for a Box-Cox transform, got -3',
+    );
     expect(() => boxCoxLambda([2, 2, 2])).toThrow('boxCoxLambda: all values are equal, so λ is undefined');
-    expect(() => boxCoxLambda(skewed, { range: [1, 0] })).toThrow('boxCoxLambda: range must be increasing, got [1, 0]');
+    expect(() => boxCoxLambda(skewed, { range: [1, 0] })).toThrow(
+      'boxCoxLambda: range must be increasing, got [1, 0]',
+    );
   });
 });
 

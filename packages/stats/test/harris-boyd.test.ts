@@ -17,8 +17,12 @@ describe('harrisBoyd (Clin Chem 1990;36:265–270)', () => {
   });
 
   it('when the larger SD is more than 1.5 times the smaller, then partition even with equal means (SD-ratio criterion, memory)', () => {
-    expect(harrisBoydFromSummaries({ n: 120, mean: 140, sd: 2 }, { n: 120, mean: 140, sd: 3.01 }).partition).toBe(true);
-    expect(harrisBoydFromSummaries({ n: 120, mean: 140, sd: 2 }, { n: 120, mean: 140, sd: 3 }).partition).toBe(false);
+    expect(
+      harrisBoydFromSummaries({ n: 120, mean: 140, sd: 2 }, { n: 120, mean: 140, sd: 3.01 }).partition,
+    ).toBe(true);
+    expect(
+      harrisBoydFromSummaries({ n: 120, mean: 140, sd: 2 }, { n: 120, mean: 140, sd: 3 }).partition,
+    ).toBe(false);
   });
 
   it('when n grows, then z* = 3·√((n₁ + n₂)/240) grows with it (published formula)', () => {
@@ -33,8 +37,12 @@ describe('harrisBoyd (Clin Chem 1990;36:265–270)', () => {
   });
 
   it('when the input is invalid, then it throws naming the function and the group', () => {
-    expect(() => harrisBoyd([1], [1, 2])).toThrow('harrisBoyd: needs at least 2 values in the first group, got 1');
-    expect(() => harrisBoyd([1, 2], [1, Number.NaN])).toThrow('harrisBoyd: value at index 1 in the second group is not a finite number');
+    expect(() => harrisBoyd([1], [1, 2])).toThrow(
+      'harrisBoyd: needs at least 2 values in the first group, got 1',
+    );
+    expect(() => harrisBoyd([1, 2], [1, Number.NaN])).toThrow(
+      'harrisBoyd: value at index 1 in the second group is not a finite number',
+    );
     expect(() => harrisBoyd([1, 1], [2, 2])).toThrow('harrisBoyd: both groups have SD 0');
     expect(() => harrisBoydFromSummaries({ n: 1, mean: 1, sd: 1 }, { n: 5, mean: 1, sd: 1 })).toThrow(
       'harrisBoydFromSummaries: first group needs n ≥ 2, got 1',

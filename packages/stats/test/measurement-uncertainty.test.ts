@@ -22,7 +22,11 @@ describe('measurementUncertainty (Nordtest TR 537)', () => {
   });
 
   it('when a coverage factor is given, then U = k · uc', () => {
-    const result = measurementUncertainty({ cvPct: 2, comparisons: [{ biasPct: 0, uRefPct: 0 }], coverageFactor: 3 });
+    const result = measurementUncertainty({
+      cvPct: 2,
+      comparisons: [{ biasPct: 0, uRefPct: 0 }],
+      coverageFactor: 3,
+    });
     expect(result.U).toBeCloseTo(6, 14);
   });
 
@@ -34,10 +38,14 @@ describe('measurementUncertainty (Nordtest TR 537)', () => {
     expect(() => measurementUncertainty({ cvPct: 0, comparisons: [{ biasPct: 1, uRefPct: 0 }] })).toThrow(
       'measurementUncertainty: cvPct must be greater than 0, got 0',
     );
-    expect(() => measurementUncertainty({ cvPct: 2, comparisons: [] })).toThrow('measurementUncertainty: needs at least 1 peer comparison, got 0');
+    expect(() => measurementUncertainty({ cvPct: 2, comparisons: [] })).toThrow(
+      'measurementUncertainty: needs at least 1 peer comparison, got 0',
+    );
     expect(() => measurementUncertainty({ cvPct: 2, comparisons: [{ biasPct: 1, uRefPct: -1 }] })).toThrow(
       'measurementUncertainty: comparison 0 uRefPct must not be negative, got -1',
     );
-    expect(() => peerMeanUncertaintyPct(4, 0)).toThrow('peerMeanUncertaintyPct: labs must be an integer of at least 1, got 0');
+    expect(() => peerMeanUncertaintyPct(4, 0)).toThrow(
+      'peerMeanUncertaintyPct: labs must be an integer of at least 1, got 0',
+    );
   });
 });

@@ -8,9 +8,12 @@ const valueAt = (level: 1 | 2, z: number) => targets[level].mean + z * targets[l
 
 /** Runs given as z-scores per level, e.g. [[2.1, 0], [0, 0]] = two runs with levels 1 and 2. */
 function runsOf(zs: number[][]): ControlPoint[] {
-  return zs.flatMap((run, r) => run.map((z, l) => ({ run: `run-${r + 1}`, level: l + 1, value: valueAt((l + 1) as 1 | 2, z) })));
+  return zs.flatMap((run, r) =>
+    run.map((z, l) => ({ run: `run-${r + 1}`, level: l + 1, value: valueAt((l + 1) as 1 | 2, z) })),
+  );
 }
-const verdicts = (zs: number[][]) => evaluateMultirule(runsOf(zs), targets).runs.map((r) => `${r.verdict}:${r.rules.join(',')}`);
+const verdicts = (zs: number[][]) =>
+  evaluateMultirule(runsOf(zs), targets).runs.map((r) => `${r.verdict}:${r.rules.join(',')}`);
 
 describe('evaluateMultirule', () => {
   it('when values are within 2s, then every run is accepted and z = (value − mean)/SD', () => {
@@ -36,27 +39,79 @@ describe('evaluateMultirule', () => {
   });
 
   it('when one level is beyond the same 2s limit in two consecutive runs, then the second run is rejected by 2-2s (across runs, within level)', () => {
-    expect(verdicts([[2.25, 0], [2.5, 0]])).toEqual(['warn:1-2s', 'reject:1-2s,2-2s']);
+    expect(
+      verdicts([
+        [2.25, 0],
+        [2.5, 0],
+      ]),
+    ).toEqual(['warn:1-2s', 'reject:1-2s,2-2s']);
     // Opposite limits or different levels in consecutive runs are not 2-2s.
-    expect(verdicts([[2.25, 0], [-2.5, 0]])).toEqual(['warn:1-2s', 'warn:1-2s']);
-    expect(verdicts([[2.25, 0], [0, 2.5]])).toEqual(['warn:1-2s', 'warn:1-2s']);
+    expect(
+      verdicts([
+        [2.25, 0],
+        [-2.5, 0],
+      ]),
+    ).toEqual(['warn:1-2s', 'warn:1-2s']);
+    expect(
+      verdicts([
+        [2.25, 0],
+        [0, 2.5],
+      ]),
+    ).toEqual(['warn:1-2s', 'warn:1-2s']);
   });
 
   it('when in one run one value is beyond +2s and another beyond −2s, then R-4s rejects; not across runs', () => {
     expect(verdicts([[2.25, -2.25]])).toEqual(['reject:1-2s,R-4s']);
-    expect(verdicts([[2.25, 0], [0, -2.25]])).toEqual(['warn:1-2s', 'warn:1-2s']);
+    expect(
+      verdicts([
+        [2.25, 0],
+        [0, -2.25],
+      ]),
+    ).toEqual(['warn:1-2s', 'warn:1-2s']);
   });
 
   it('when four consecutive values of one level are beyond the same 1s limit, then 4-1s rejects the run completing them', () => {
-    expect(verdicts([[1.5, 0], [1.5, 0], [1.5, 0], [1.5, 0]])).toEqual(['accept:', 'accept:', 'accept:', 'reject:4-1s']);
-    expect(verdicts([[-1.25, 0], [-1.5, 0], [-1.75, 0], [-1.25, 0]])).toEqual(['accept:', 'accept:', 'accept:', 'reject:4-1s']);
+    expect(
+      verdicts([
+        [1.5, 0],
+        [1.5, 0],
+        [1.5, 0],
+        [1.5, 0],
+      ]),
+    ).toEqual(['accept:', 'accept:', 'accept:', 'reject:4-1s']);
+    expect(
+      verdicts([
+        [-1.25, 0],
+        [-1.5, 0],
+        [-1.75, 0],
+        [-1.25, 0],
+      ]),
+    ).toEqual(['accept:', 'accept:', 'accept:', 'reject:4-1s']);
     // Exactly at 1s breaks the sequence.
-    expect(verdicts([[1.5, 0], [1, 0], [1.5, 0], [1.5, 0]])).toEqual(['accept:', 'accept:', 'accept:', 'accept:']);
+    expect(
+      verdicts([
+        [1.5, 0],
+        [1, 0],
+        [1.5, 0],
+        [1.5, 0],
+      ]),
+    ).toEqual(['accept:', 'accept:', 'accept:', 'accept:']);
   });
 
   it('when four consecutive values across levels are beyond the same 1s limit, then 4-1s rejects (across levels)', () => {
-    expect(verdicts([[1.25, 1.5], [1.5, 1.25]])).toEqual(['accept:', 'reject:4-1s']);
-    const points = evaluateMultirule(runsOf([[1.25, 1.5], [1.5, 1.25]]), targets).points;
+    expect(
+      verdicts([
+        [1.25, 1.5],
+        [1.5, 1.25],
+      ]),
+    ).toEqual(['accept:', 'reject:4-1s']);
+    const points = evaluateMultirule(
+      runsOf([
+        [1.25, 1.5],
+        [1.5, 1.25],
+      ]),
+      targets,
+    ).points;
     expect(points.map((p) => p.rules)).toEqual([[], [], ['4-1s'], ['4-1s']]); // earlier runs keep their verdict
   });
 
@@ -100,6 +155,8 @@ describe('evaluateMultirule', () => {
       { run: 'b', level: 1, value: 100 },
       { run: 'a', level: 2, value: 200 },
     ];
-    expect(() => evaluateMultirule(points, targets)).toThrow("evaluateMultirule: run 'a' appears again at point 2");
+    expect(() => evaluateMultirule(points, targets)).toThrow(
+      "evaluateMultirule: run 'a' appears again at point 2",
+    );
   });
 });

@@ -73,7 +73,9 @@ describe('nonparametricInterval', () => {
 
   it('when the input is invalid, then it throws naming the function and the problem', () => {
     expect(() => nonparametricInterval([])).toThrow('nonparametricInterval: needs at least 2 values, got 0');
-    expect(() => nonparametricInterval([1, 2, Number.NaN])).toThrow('nonparametricInterval: value at index 2 is not a finite number');
+    expect(() => nonparametricInterval([1, 2, Number.NaN])).toThrow(
+      'nonparametricInterval: value at index 2 is not a finite number',
+    );
     expect(() => nonparametricInterval([1, 2, 3], { lower: 0.9, upper: 0.1 })).toThrow(
       'nonparametricInterval: lower (0.9) must be below upper (0.1)',
     );
@@ -88,6 +90,8 @@ describe('percentile', () => {
   });
 
   it('when p is outside (0, 1), then it throws', () => {
-    expect(() => percentile([1, 2, 3], 0)).toThrow('percentile: p must be between 0 and 1 (exclusive), got 0');
+    expect(() => percentile([1, 2, 3], 0)).toThrow(
+      'percentile: p must be between 0 and 1 (exclusive), got 0',
+    );
   });
 });

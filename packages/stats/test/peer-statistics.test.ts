@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { peerStatistics, robustMeanSd, seededRandom, selectPeerTier, summarize, type LabSummary } from '../src/index.ts';
+import {
+  peerStatistics,
+  robustMeanSd,
+  seededRandom,
+  selectPeerTier,
+  summarize,
+  type LabSummary,
+} from '../src/index.ts';
 
 // Raw QC values of member labs, generated with a seeded generator so the peer figures can be
 // checked against summarising the raw values directly (check by construction; no published example).
@@ -82,7 +89,9 @@ describe('peerStatistics', () => {
 
   it('when fewer labs than minLabsForScreening remain, then no lab is excluded as an outlier (documented choice)', () => {
     const far = { id: 'far', n: 20, mean: 40, sd: 0.1 };
-    expect(peerStatistics([...isoLabs.slice(0, 4), far]).excluded).toEqual([{ id: 'far', reason: 'outlier' }]);
+    expect(peerStatistics([...isoLabs.slice(0, 4), far]).excluded).toEqual([
+      { id: 'far', reason: 'outlier' },
+    ]);
     expect(peerStatistics([...isoLabs.slice(0, 3), far]).excluded).toEqual([]);
     expect(peerStatistics([...isoLabs.slice(0, 4), far], { minLabsForScreening: 6 }).excluded).toEqual([]);
   });
@@ -108,7 +117,15 @@ describe('peerStatistics', () => {
 
   it('when one lab remains, then its own figures are the peer figures and robustSd is NaN', () => {
     const result = peerStatistics([{ id: 'only', n: 20, mean: 10, sd: 0.5 }]);
-    expect(result).toMatchObject({ labs: 1, n: 20, mean: 10, sd: 0.5, withinSd: 0.5, robustMean: 10, sufficient: false });
+    expect(result).toMatchObject({
+      labs: 1,
+      n: 20,
+      mean: 10,
+      sd: 0.5,
+      withinSd: 0.5,
+      robustMean: 10,
+      sufficient: false,
+    });
     expect(result.robustSd).toBeNaN();
   });
 
@@ -121,8 +138,12 @@ describe('peerStatistics', () => {
 
   it('when the input is invalid, then it throws naming the function and the problem', () => {
     expect(() => peerStatistics([])).toThrow('peerStatistics: needs at least 1 lab, got 0');
-    expect(() => peerStatistics([{ id: '', n: 5, mean: 1, sd: 1 }])).toThrow('peerStatistics: lab 0 has no id');
-    expect(() => peerStatistics([isoLabs[0], isoLabs[0]])).toThrow("peerStatistics: lab id 'L1' appears more than once");
+    expect(() => peerStatistics([{ id: '', n: 5, mean: 1, sd: 1 }])).toThrow(
+      'peerStatistics: lab 0 has no id',
+    );
+    expect(() => peerStatistics([isoLabs[0], isoLabs[0]])).toThrow(
+      "peerStatistics: lab id 'L1' appears more than once",
+    );
     expect(() => peerStatistics([{ id: 'a', n: 1, mean: 1, sd: 0 }])).toThrow(
       "peerStatistics: lab 'a' n must be an integer of at least 2, got 1",
     );
@@ -132,7 +153,9 @@ describe('peerStatistics', () => {
     expect(() => peerStatistics([{ id: 'a', n: 5, mean: 1, sd: -0.1 }])).toThrow(
       "peerStatistics: lab 'a' sd must not be negative, got -0.1",
     );
-    expect(() => peerStatistics(isoLabs, { minLabs: 0 })).toThrow('peerStatistics: minLabs must be an integer of at least 1, got 0');
+    expect(() => peerStatistics(isoLabs, { minLabs: 0 })).toThrow(
+      'peerStatistics: minLabs must be an integer of at least 1, got 0',
+    );
   });
 });
 
@@ -176,6 +199,8 @@ describe('selectPeerTier', () => {
   });
 
   it('when no tier has any lab, then it throws', () => {
-    expect(() => selectPeerTier([{ tier: 'instrument', labs: [] }])).toThrow('selectPeerTier: needs at least 1 tier with labs');
+    expect(() => selectPeerTier([{ tier: 'instrument', labs: [] }])).toThrow(
+      'selectPeerTier: needs at least 1 tier with labs',
+    );
   });
 });

@@ -54,13 +54,21 @@ describe('pool', () => {
 
   it('when given no parts or fewer than 2 values, then it throws naming the function', () => {
     expect(() => pool([])).toThrow('pool: needs at least 1 part, got 0');
-    expect(() => pool([{ n: 1, mean: 5, sd: 0 }])).toThrow('pool: needs at least 2 values in all parts together, got 1');
+    expect(() => pool([{ n: 1, mean: 5, sd: 0 }])).toThrow(
+      'pool: needs at least 2 values in all parts together, got 1',
+    );
   });
 
   it('when a part is invalid, then it throws naming the part and the problem', () => {
-    expect(() => pool([{ n: 0, mean: 1, sd: 1 }])).toThrow('pool: part 0 n must be an integer of at least 1, got 0');
-    expect(() => pool([{ n: 2.5, mean: 1, sd: 1 }])).toThrow('pool: part 0 n must be an integer of at least 1, got 2.5');
-    expect(() => pool([{ n: 3, mean: Number.NaN, sd: 1 }])).toThrow('pool: part 0 mean must be a finite number, got NaN');
+    expect(() => pool([{ n: 0, mean: 1, sd: 1 }])).toThrow(
+      'pool: part 0 n must be an integer of at least 1, got 0',
+    );
+    expect(() => pool([{ n: 2.5, mean: 1, sd: 1 }])).toThrow(
+      'pool: part 0 n must be an integer of at least 1, got 2.5',
+    );
+    expect(() => pool([{ n: 3, mean: Number.NaN, sd: 1 }])).toThrow(
+      'pool: part 0 mean must be a finite number, got NaN',
+    );
     expect(() => pool([{ n: 3, mean: 1, sd: -1 }])).toThrow('pool: part 0 sd must not be negative, got -1');
   });
 });

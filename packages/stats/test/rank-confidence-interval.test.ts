@@ -16,7 +16,8 @@ describe('rankConfidenceInterval', () => {
   ];
   for (const row of tableRows) {
     it(`when n = ${row.from}–${row.to}, then the 2.5th percentile's 90 % CI spans ranks ${row.ranks.join('–')} (EP28-A3c table)`, () => {
-      for (let n = row.from; n <= row.to; n++) expect(rankConfidenceInterval(n, 0.025, 0.9)).toEqual(row.ranks);
+      for (let n = row.from; n <= row.to; n++)
+        expect(rankConfidenceInterval(n, 0.025, 0.9)).toEqual(row.ranks);
     });
   }
 
@@ -64,7 +65,7 @@ describe('rankConfidenceInterval', () => {
   it('when the ranks are used on simulated samples, then the interval covers the true 2.5th percentile at least 90 % of the time (simulation)', () => {
     // Uniform(0, 1) samples: the true 2.5th percentile is 0.025. Seeded linear congruential draws.
     let state = 12345;
-    const uniform = () => ((state = (state * 1103515245 + 12345) % 2147483648) / 2147483648);
+    const uniform = () => (state = (state * 1103515245 + 12345) % 2147483648) / 2147483648;
     const n = 200;
     const [r1, r2] = rankConfidenceInterval(n, 0.025)!;
     let covered = 0;
@@ -87,9 +88,17 @@ describe('rankConfidenceInterval', () => {
   });
 
   it('when the input is invalid, then it throws naming the function and the input', () => {
-    expect(() => rankConfidenceInterval(0, 0.025)).toThrow('rankConfidenceInterval: n must be an integer of at least 1, got 0');
-    expect(() => rankConfidenceInterval(10.5, 0.025)).toThrow('rankConfidenceInterval: n must be an integer of at least 1, got 10.5');
-    expect(() => rankConfidenceInterval(120, 1)).toThrow('rankConfidenceInterval: p must be between 0 and 1 (exclusive), got 1');
-    expect(() => rankConfidenceInterval(120, 0.025, 0)).toThrow('rankConfidenceInterval: confidence must be between 0 and 1');
+    expect(() => rankConfidenceInterval(0, 0.025)).toThrow(
+      'rankConfidenceInterval: n must be an integer of at least 1, got 0',
+    );
+    expect(() => rankConfidenceInterval(10.5, 0.025)).toThrow(
+      'rankConfidenceInterval: n must be an integer of at least 1, got 10.5',
+    );
+    expect(() => rankConfidenceInterval(120, 1)).toThrow(
+      'rankConfidenceInterval: p must be between 0 and 1 (exclusive), got 1',
+    );
+    expect(() => rankConfidenceInterval(120, 0.025, 0)).toThrow(
+      'rankConfidenceInterval: confidence must be between 0 and 1',
+    );
   });
 });

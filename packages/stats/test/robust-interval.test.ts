@@ -43,10 +43,17 @@ describe('robustInterval (Horn & Pesce)', () => {
   });
 
   it('when the input is invalid, then it throws naming the function and the problem', () => {
-    expect(() => robustInterval(Array.from({ length: 19 }, (_, i) => i))).toThrow('robustInterval: needs at least 20 values, got 19');
-    expect(() => robustInterval([...Array(15).fill(3), 1, 2, 4, 5, 6])).toThrow('robustInterval: more than half of the values are equal');
-    expect(() => robustInterval(Array.from({ length: 20 }, (_, i) => i), { coverage: 1 })).toThrow(
-      'robustInterval: coverage must be between 0 and 1 (exclusive), got 1',
+    expect(() => robustInterval(Array.from({ length: 19 }, (_, i) => i))).toThrow(
+      'robustInterval: needs at least 20 values, got 19',
     );
+    expect(() => robustInterval([...Array(15).fill(3), 1, 2, 4, 5, 6])).toThrow(
+      'robustInterval: more than half of the values are equal',
+    );
+    expect(() =>
+      robustInterval(
+        Array.from({ length: 20 }, (_, i) => i),
+        { coverage: 1 },
+      ),
+    ).toThrow('robustInterval: coverage must be between 0 and 1 (exclusive), got 1');
   });
 });

@@ -38,7 +38,10 @@ describe('robustMeanSd (ISO 13528 Algorithm A)', () => {
       fc.property(
         // Results with two decimals, as instruments report them (values a few units of 1e-131 apart
         // would collapse when shifted, which is floating point, not the algorithm).
-        fc.array(fc.integer({ min: -10000, max: 10000 }).map((v) => v / 100), { minLength: 5, maxLength: 40 }),
+        fc.array(
+          fc.integer({ min: -10000, max: 10000 }).map((v) => v / 100),
+          { minLength: 5, maxLength: 40 },
+        ),
         fc.double({ min: -1000, max: 1000, noNaN: true }),
         fc.double({ min: 0.01, max: 100, noNaN: true }),
         (values, shift, scale) => {
@@ -66,8 +69,12 @@ describe('robustMeanSd (ISO 13528 Algorithm A)', () => {
 
   it('when given invalid input, then it throws naming the function and the problem', () => {
     expect(() => robustMeanSd([1])).toThrow('robustMeanSd: needs at least 2 values, got 1');
-    expect(() => robustMeanSd([1, Number.NaN])).toThrow('robustMeanSd: value at index 1 is not a finite number (NaN)');
-    expect(() => robustMeanSd([1, 2], { tolerance: 0 })).toThrow('robustMeanSd: tolerance must be greater than 0, got 0');
+    expect(() => robustMeanSd([1, Number.NaN])).toThrow(
+      'robustMeanSd: value at index 1 is not a finite number (NaN)',
+    );
+    expect(() => robustMeanSd([1, 2], { tolerance: 0 })).toThrow(
+      'robustMeanSd: tolerance must be greater than 0, got 0',
+    );
     expect(() => robustMeanSd([1, 2], { maxIterations: -1 })).toThrow(
       'robustMeanSd: maxIterations must be an integer of at least 0, got -1',
     );

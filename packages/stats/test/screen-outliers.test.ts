@@ -55,11 +55,16 @@ describe("screenOutliers 'dixon' (D/R ≥ 1/3, Reed, Henry & Mason 1971)", () =>
     const values = [-50, 10, 10.2, 10.4, 10.6, 10.8, 11, 60, 200];
     // Round 1: high D/R = 140/250 → remove 200; low D/R = 60/250 → keep. Round 2: range −50 … 60:
     // low D/R = 60/110 → remove −50; high D/R = 49/110 → remove 60. Round 3: 10 … 11 evenly spaced → stop.
-    expect(screenOutliers(values, 'dixon')).toEqual({ kept: [10, 10.2, 10.4, 10.6, 10.8, 11], removed: [-50, 60, 200] });
+    expect(screenOutliers(values, 'dixon')).toEqual({
+      kept: [10, 10.2, 10.4, 10.6, 10.8, 11],
+      removed: [-50, 60, 200],
+    });
   });
 
   it('when fewer than 3 values or an unknown method, then it throws', () => {
     expect(() => screenOutliers([1, 2], 'dixon')).toThrow('screenOutliers: needs at least 3 values, got 2');
-    expect(() => screenOutliers([1, 2, 3], 'grubbs' as never)).toThrow("screenOutliers: unknown method 'grubbs', expected 'tukey' or 'dixon'");
+    expect(() => screenOutliers([1, 2, 3], 'grubbs' as never)).toThrow(
+      "screenOutliers: unknown method 'grubbs', expected 'tukey' or 'dixon'",
+    );
   });
 });

@@ -24,7 +24,9 @@ describe('sigmaMetric', () => {
   it('when TEa or CV is not positive, then it throws naming the input', () => {
     expect(() => sigmaMetric(0, 1, 2)).toThrow('sigmaMetric: teaPct must be greater than 0, got 0');
     expect(() => sigmaMetric(10, 1, 0)).toThrow('sigmaMetric: cvPct must be greater than 0, got 0');
-    expect(() => sigmaMetric(10, Number.NaN, 2)).toThrow('sigmaMetric: biasPct must be a finite number, got NaN');
+    expect(() => sigmaMetric(10, Number.NaN, 2)).toThrow(
+      'sigmaMetric: biasPct must be a finite number, got NaN',
+    );
   });
 });
 
@@ -49,7 +51,11 @@ describe('teaFromBiologicalVariation', () => {
   });
 
   it('when a CV is not positive or the level unknown, then it throws', () => {
-    expect(() => teaFromBiologicalVariation(0, 5)).toThrow('teaFromBiologicalVariation: cvWithinPct must be greater than 0, got 0');
-    expect(() => teaFromBiologicalVariation(4, 5, 'best' as never)).toThrow("teaFromBiologicalVariation: unknown level 'best'");
+    expect(() => teaFromBiologicalVariation(0, 5)).toThrow(
+      'teaFromBiologicalVariation: cvWithinPct must be greater than 0, got 0',
+    );
+    expect(() => teaFromBiologicalVariation(4, 5, 'best' as never)).toThrow(
+      "teaFromBiologicalVariation: unknown level 'best'",
+    );
   });
 });

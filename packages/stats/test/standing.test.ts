@@ -28,7 +28,10 @@ describe('standing', () => {
       const centre = random.normal(50, 2);
       return { id: `lab-${i}`, raw: Array.from({ length: 20 }, () => transform(random.normal(centre, 1))) };
     });
-    const peer = peerStatistics(labs.map(({ id, raw }) => ({ id, ...summarize(raw) })), { minLabsForScreening: 100 });
+    const peer = peerStatistics(
+      labs.map(({ id, raw }) => ({ id, ...summarize(raw) })),
+      { minLabsForScreening: 100 },
+    );
     return standing(summarize(labs[0].raw), peer);
   }
 
@@ -50,26 +53,40 @@ describe('standing', () => {
 
   it('when every raw value is scaled, then the CVR and bias % do not change (property; a shift changes every CV, so only scaling applies)', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 1, max: 1000 }), fc.double({ min: 0.01, max: 100, noNaN: true }), (seed, scale) => {
-        const base = figuresAfter((v) => v, seed);
-        const scaled = figuresAfter((v) => scale * v, seed);
-        expect(scaled.cvr).toBeCloseTo(base.cvr, 8);
-        expect(scaled.biasPct).toBeCloseTo(base.biasPct, 8);
-      }),
+      fc.property(
+        fc.integer({ min: 1, max: 1000 }),
+        fc.double({ min: 0.01, max: 100, noNaN: true }),
+        (seed, scale) => {
+          const base = figuresAfter((v) => v, seed);
+          const scaled = figuresAfter((v) => scale * v, seed);
+          expect(scaled.cvr).toBeCloseTo(base.cvr, 8);
+          expect(scaled.biasPct).toBeCloseTo(base.biasPct, 8);
+        },
+      ),
       { numRuns: 50 },
     );
   });
 
   it('when a figure is invalid, then it throws naming the function and the figure', () => {
     const peer = { mean: 100, sd: 4, withinCv: 2.5 };
-    expect(() => standing({ n: 20, mean: 100, sd: 3 }, { ...peer, sd: 0 })).toThrow('standing: peer sd must be greater than 0, got 0');
+    expect(() => standing({ n: 20, mean: 100, sd: 3 }, { ...peer, sd: 0 })).toThrow(
+      'standing: peer sd must be greater than 0, got 0',
+    );
     expect(() => standing({ n: 20, mean: 100, sd: 3 }, { ...peer, withinCv: -1 })).toThrow(
       'standing: peer withinCv must be greater than 0, got -1',
     );
-    expect(() => standing({ n: 20, mean: 100, sd: 3 }, { ...peer, mean: 0 })).toThrow('standing: peer mean is 0');
-    expect(() => standing({ n: 1, mean: 100, sd: 3 }, peer)).toThrow('standing: lab n must be an integer of at least 2, got 1');
-    expect(() => standing({ n: 20, mean: Number.NaN, sd: 3 }, peer)).toThrow('standing: lab mean must be a finite number, got NaN');
-    expect(() => standing({ n: 20, mean: 100, sd: -3 }, peer)).toThrow('standing: lab sd must not be negative, got -3');
+    expect(() => standing({ n: 20, mean: 100, sd: 3 }, { ...peer, mean: 0 })).toThrow(
+      'standing: peer mean is 0',
+    );
+    expect(() => standing({ n: 1, mean: 100, sd: 3 }, peer)).toThrow(
+      'standing: lab n must be an integer of at least 2, got 1',
+    );
+    expect(() => standing({ n: 20, mean: Number.NaN, sd: 3 }, peer)).toThrow(
+      'standing: lab mean must be a finite number, got NaN',
+    );
+    expect(() => standing({ n: 20, mean: 100, sd: -3 }, peer)).toThrow(
+      'standing: lab sd must not be negative, got -3',
+    );
   });
 });
 
@@ -108,6 +125,8 @@ describe('classifySdi and classifyCvr (METHODS.md §3 thresholds, common practic
   it('when a value or the thresholds are invalid, then it throws', () => {
     expect(() => classifySdi(Number.NaN)).toThrow('classifySdi: sdi must be a finite number, got NaN');
     expect(() => classifyCvr(-0.1)).toThrow('classifyCvr: cvr must not be negative, got -0.1');
-    expect(() => classifySdi(1, { fine: 2, acceptable: 1, warning: 3 })).toThrow('classifySdi: thresholds must satisfy');
+    expect(() => classifySdi(1, { fine: 2, acceptable: 1, warning: 3 })).toThrow(
+      'classifySdi: thresholds must satisfy',
+    );
   });
 });

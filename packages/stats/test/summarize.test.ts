@@ -57,12 +57,15 @@ describe('summarize', () => {
 
   it('when given any finite values, then mean and SD agree with simple-statistics (property)', () => {
     fc.assert(
-      fc.property(fc.array(fc.double({ min: -1e6, max: 1e6, noNaN: true }), { minLength: 2, maxLength: 200 }), (values) => {
-        const result = summarize(values);
-        const scale = Math.max(1, ...values.map(Math.abs));
-        expect(Math.abs(result.mean - referenceMean(values))).toBeLessThanOrEqual(1e-9 * scale);
-        expect(Math.abs(result.sd - sampleStandardDeviation(values))).toBeLessThanOrEqual(1e-7 * scale);
-      }),
+      fc.property(
+        fc.array(fc.double({ min: -1e6, max: 1e6, noNaN: true }), { minLength: 2, maxLength: 200 }),
+        (values) => {
+          const result = summarize(values);
+          const scale = Math.max(1, ...values.map(Math.abs));
+          expect(Math.abs(result.mean - referenceMean(values))).toBeLessThanOrEqual(1e-9 * scale);
+          expect(Math.abs(result.sd - sampleStandardDeviation(values))).toBeLessThanOrEqual(1e-7 * scale);
+        },
+      ),
     );
   });
 
@@ -76,7 +79,11 @@ describe('summarize', () => {
   });
 
   it('when a value is not finite, then it throws naming its index', () => {
-    expect(() => summarize([1, Number.NaN, 3])).toThrow('summarize: value at index 1 is not a finite number (NaN)');
-    expect(() => summarize([1, 2, Infinity])).toThrow('summarize: value at index 2 is not a finite number (Infinity)');
+    expect(() => summarize([1, Number.NaN, 3])).toThrow(
+      'summarize: value at index 1 is not a finite number (NaN)',
+    );
+    expect(() => summarize([1, 2, Infinity])).toThrow(
+      'summarize: value at index 2 is not a finite number (Infinity)',
+    );
   });
 });

@@ -2,7 +2,9 @@ import { describe, expect, it } from 'vitest';
 import jStat from 'jstat';
 import { seededRandom, verifyInterval } from '../src/index.ts';
 
-const results = [3.6, 3.8, 3.9, 4.0, 4.1, 4.1, 4.2, 4.2, 4.3, 4.3, 4.4, 4.4, 4.5, 4.6, 4.7, 4.8, 4.9, 5.0, 5.2, 5.4];
+const results = [
+  3.6, 3.8, 3.9, 4.0, 4.1, 4.1, 4.2, 4.2, 4.3, 4.3, 4.4, 4.4, 4.5, 4.6, 4.7, 4.8, 4.9, 5.0, 5.2, 5.4,
+];
 
 describe('verifyInterval (EP28-A3c: 20 results, accept when ≤ 2 outside; memory)', () => {
   it('when 2 of 20 fall outside, then the interval is accepted; when 3 do, it is not', () => {
@@ -29,10 +31,14 @@ describe('verifyInterval (EP28-A3c: 20 results, accept when ≤ 2 outside; memor
   });
 
   it('when the input is invalid, then it throws naming the function and the problem', () => {
-    expect(() => verifyInterval(results.slice(1), [3, 5])).toThrow('verifyInterval: needs exactly 20 results, got 19');
+    expect(() => verifyInterval(results.slice(1), [3, 5])).toThrow(
+      'verifyInterval: needs exactly 20 results, got 19',
+    );
     expect(() => verifyInterval([...results.slice(1), Number.NaN], [3, 5])).toThrow(
       'verifyInterval: result at index 19 is not a finite number (NaN)',
     );
-    expect(() => verifyInterval(results, [5, 3])).toThrow('verifyInterval: interval lower limit 5 is above the upper limit 3');
+    expect(() => verifyInterval(results, [5, 3])).toThrow(
+      'verifyInterval: interval lower limit 5 is above the upper limit 3',
+    );
   });
 });

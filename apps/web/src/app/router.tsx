@@ -35,6 +35,10 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
       children: [
         { path: paths.auth.signIn.path, lazy: page(() => import('./routes/sign-in.tsx')) },
         {
+          path: paths.auth.acceptInvitation.path,
+          lazy: page(() => import('./routes/accept-invitation.tsx')),
+        },
+        {
           element: <RequireSession />,
           children: [
             { path: paths.home.path, element: <RedirectToRoleHome /> },
@@ -71,6 +75,10 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
                   lazy: page(() => import('./routes/network/catalogue.tsx')),
                 },
                 { path: paths.network.labs.path, lazy: page(() => import('./routes/network/labs.tsx')) },
+                {
+                  path: paths.network.procedures.path,
+                  lazy: page(() => import('./routes/network/procedures.tsx')),
+                },
                 {
                   path: paths.network.peerGroups.path,
                   lazy: page(() => import('./routes/network/peer-groups.tsx')),

@@ -22,6 +22,11 @@ export const paths = {
           ? `/sign-in?redirectTo=${encodeURIComponent(redirectTo)}`
           : '/sign-in',
     },
+    /** Public: an invited user sets their password (the link the coordinator or a supervisor passes on). */
+    acceptInvitation: {
+      path: '/invitations/:token',
+      getHref: (token: string) => `/invitations/${encodeURIComponent(token)}`,
+    },
   },
 
   // Member-lab area: analysts and supervisors of one lab.
@@ -36,11 +41,24 @@ export const paths = {
   // Network area: the coordinator.
   network: {
     overview: { path: '/network', getHref: () => '/network' },
-    catalogue: { path: '/network/catalogue', getHref: () => '/network/catalogue' },
-    labs: { path: '/network/labs', getHref: () => '/network/labs' },
+    catalogue: {
+      path: '/network/catalogue',
+      /** `list` is one of the catalogue lists, e.g. 'control-lots'. */
+      getHref: (list?: string) => (list ? `/network/catalogue?list=${encodeURIComponent(list)}` : '/network/catalogue'),
+    },
+    labs: {
+      path: '/network/labs',
+      /** `labId` opens that lab's users. */
+      getHref: (labId?: string) => (labId ? `/network/labs?lab=${encodeURIComponent(labId)}` : '/network/labs'),
+    },
+    procedures: { path: '/network/procedures', getHref: () => '/network/procedures' },
     peerGroups: { path: '/network/peer-groups', getHref: () => '/network/peer-groups' },
     cycles: { path: '/network/cycles', getHref: () => '/network/cycles' },
-    participation: { path: '/network/participation', getHref: () => '/network/participation' },
+    participation: {
+      path: '/network/participation',
+      getHref: (period?: string) =>
+        period ? `/network/participation?period=${encodeURIComponent(period)}` : '/network/participation',
+    },
     auditLog: { path: '/network/audit-log', getHref: () => '/network/audit-log' },
   },
 } as const;

@@ -147,3 +147,48 @@ export async function apiRequest<Schema extends z.ZodType | undefined = undefine
   }
   return parsed.data as ResponseOf<Schema>;
 }
+
+/**
+ * A file from the API (e.g. a CSV export), fetched with the Bearer token, so a plain link cannot be
+ * used. Failures become an ApiError exactly as for apiRequest.
+ */
+export async function apiDownload(
+  path: string,
+  options: { query?: Record<string, QueryValue>; signal?: AbortSignal } = {},
+): Promise<{ blob: Blob; filename: string | null }> {
+  const session = getSession();
+  const headers = new Headers();
+  if (session) headers.set('Authorization', `Bearer ${session.token}`);
+  let response: Response;
+  try {
+    response = await fetch(buildUrl(path, options.query), { headers, signal: options.signal });
+  } catch (error) {
+    if (error instanceof DOMException && error.name === 'AbortError') throw error;
+    throw new ApiError({
+      code: 'service_unavailable',
+      message: 'The Plumbline service cannot be reached. Check your connection and try again.',
+      status: 0,
+    });
+  }
+  if (!response.ok) {
+    const error = await toApiError(response);
+    if (response.status === 401 && session) endSession('expired');
+    throw error;
+  }
+  const disposition = response.headers.get('Content-Disposition') ?? '';
+  const filename = /filename="?([^";]+)"?/i.exec(disposition)?.[1] ?? null;
+  return { blob: await response.blob(), filename };
+}
+
+/** Hands a downloaded file to the browser as if the user had clicked a download link. */
+export function saveFile(blob: Blob, filename: string): void {
+  const url = URL.createObjectURL(blob);
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = filename;
+  document.body.append(link);
+  link.click();
+  link.remove();
+  // Revoke after the click has been handled, or some browsers cancel the download.
+  setTimeout(() => URL.revokeObjectURL(url), 0);
+}

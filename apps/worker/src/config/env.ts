@@ -19,6 +19,10 @@ const envSchema = z.object({
   PEER_MIN_LABS: z.coerce.number().int().min(1).max(100).default(3),
   /** How often uploads stuck in queued/processing are handed to the queue again, in ms. */
   RECOVERY_INTERVAL_MS: z.coerce.number().int().min(1000).default(60_000),
+  /** A job whose worker died is taken up again once its lock (this long, in ms) has expired. */
+  INGEST_LOCK_MS: z.coerce.number().int().min(1000).default(60_000),
+  /** How often, in ms, the worker looks for jobs whose worker died. */
+  INGEST_STALLED_CHECK_MS: z.coerce.number().int().min(500).default(30_000),
   /**
    * Crash-recovery testing only: keep the storing transaction open this long before COMMIT, so a test
    * can kill the process mid-transaction. 0 (the default) in every real deployment.

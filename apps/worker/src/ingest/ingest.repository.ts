@@ -63,14 +63,6 @@ export async function markFailed(db: Executor, id: string, message: string, erro
     .where(and(eq(uploads.id, id), inArray(uploads.status, ['queued', 'processing']), isNull(uploads.storedAt)));
 }
 
-/** The upload's data is committed and peer statistics are recomputed. */
-export async function markStored(db: Executor, id: string): Promise<void> {
-  await db
-    .update(uploads)
-    .set({ status: 'stored', progress: 1, updatedAt: new Date() })
-    .where(and(eq(uploads.id, id), eq(uploads.status, 'processing')));
-}
-
 export async function savedColumnMapping(db: Executor, labId: string, kind: UploadKind): Promise<ColumnMapping | null> {
   const [row] = await db
     .select({ mapping: columnMappings.mapping })

@@ -7,9 +7,10 @@ import { processUpload } from './ingest.job.ts';
 import { LocalFileSource } from '../storage/file-source.ts';
 
 let h: WorkerHarness;
+let worker: ReturnType<WorkerHarness['startWorker']>;
 beforeAll(async () => {
   h = await createWorkerHarness('ingestjob');
-  h.startWorker();
+  worker = h.startWorker();
 });
 afterAll(async () => h?.close());
 
@@ -41,9 +42,11 @@ describe('summary files', () => {
       const done = await h.waitForStatus(id, ['stored', 'needs-review', 'failed']);
       expect(done.status).toBe('stored');
       expect(done.progress).toBe(1);
+      expect(done.storedAt).not.toBeNull();
       expect(await summariesOf(lab.id)).toMatchObject([{ n: input.n, mean: input.mean, sd: input.sd, source: 'summary', late: false }]);
     }
 
+    await h.waitForPeerStatistics();
     const [group] = await h.db
       .select()
       .from(peerGroups)
@@ -249,6 +252,18 @@ describe('daily values', () => {
 });
 
 describe('exactly once', () => {
+  it('when the queue has lost an upload (e.g. Redis restarted), then recovery enqueues it again from PostgreSQL', async () => {
+    const { lab } = await h.catalogue.makeLabWithProcedures([{ code: 'GLU1' }]);
+    const id = await h.addUpload({
+      labId: lab.id,
+      kind: 'qc-summary',
+      content: `${SUMMARY_HEADER}\n2026-02,GLU1,${h.catalogue.lot.lotNumber},2,20,16.0,0.3,mmol/L\n`,
+    });
+    // Never enqueued: only PostgreSQL knows about it.
+    expect(await worker.recover()).toBeGreaterThanOrEqual(1);
+    expect((await h.waitForStatus(id, ['stored', 'failed'])).status).toBe('stored');
+  });
+
   it('when a stored upload is processed again, then nothing is stored twice', async () => {
     const { lab } = await h.catalogue.makeLabWithProcedures([{ code: 'GLU1' }]);
     const lines = ['measured_at,procedure,control_lot,level,value,unit'];
@@ -284,6 +299,7 @@ describe('exactly once', () => {
       await h.enqueue(id);
       await h.waitForStatus(id, ['stored']);
     }
+    await h.waitForPeerStatistics();
     const [group] = await h.db
       .select()
       .from(peerGroups)

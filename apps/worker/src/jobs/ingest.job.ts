@@ -6,7 +6,7 @@ import {
   suggestMapping,
   type RowError,
 } from '@plumbline/contracts';
-import { dbOnClient, drainPeerStatisticsRequests, recordAudit, type Database } from '@plumbline/db';
+import { dbOnClient, recordAudit, type Database } from '@plumbline/db';
 import type { FileSource } from '../storage/file-source.ts';
 import { FileFormatError, openCsv, type CsvRecord } from '../ingest/csv-reader.ts';
 import { rowErrorsOf, summaryRowSchema, valueRowSchema, type RowContext, type SummaryRow } from '../ingest/row-schemas.ts';
@@ -34,8 +34,9 @@ const units = new UnitConverter();
 /**
  * Processes one upload, exactly once: reads the file as a stream, checks every row, and either stops at
  * needs-review (rejected rows, not yet confirmed), fails (the file cannot be read), or stores the valid
- * rows in one transaction and recomputes the peer statistics it touched. PostgreSQL holds the state, so
- * running it again — after a crash, or as a duplicate job — finishes what is left and never stores twice.
+ * rows in one transaction together with the 'stored' status and the requests to recompute the peer
+ * statistics they touch (the caller then kicks the recompute). PostgreSQL holds the state, so running it
+ * again — after a crash, or as a duplicate job — never stores twice.
  */
 export async function processUpload(
   deps: IngestDeps,
@@ -45,11 +46,7 @@ export async function processUpload(
   const log = deps.log ?? (() => {});
   const upload = await repo.loadUpload(deps.db, uploadId);
   if (!upload) return 'skipped';
-  if (upload.storedAt) {
-    // The data was committed before a crash; only the peer statistics and the final status are left.
-    await finishStored(deps, uploadId, reportProgress);
-    return 'stored';
-  }
+  if (upload.storedAt) return 'stored';
   if (!(await repo.markProcessing(deps.db, uploadId))) return 'skipped';
 
   let lastSaved = 0;
@@ -85,18 +82,11 @@ export async function processUpload(
   }
 
   await progress(0.6, true);
-  const stored = await storeInOneTransaction(deps, upload, read, counts, (fraction) => progress(0.6 + 0.3 * fraction));
+  const stored = await storeInOneTransaction(deps, upload, read, counts, (fraction) => progress(0.6 + 0.4 * fraction));
   if (!stored) return 'skipped';
-  await finishStored(deps, uploadId, reportProgress);
+  await reportProgress(1);
   log(`upload ${uploadId}: stored ${read.rowsAccepted} rows`);
   return 'stored';
-}
-
-async function finishStored(deps: IngestDeps, uploadId: string, reportProgress: (p: number) => Promise<void>) {
-  await reportProgress(0.9);
-  await drainPeerStatisticsRequests(deps.db, { minLabs: deps.minLabs });
-  await repo.markStored(deps.db, uploadId);
-  await reportProgress(1);
 }
 
 type ReadResult = {
@@ -295,7 +285,7 @@ async function storeInOneTransaction(
     const { replaced } =
       upload.kind === 'qc-summary' ? await storeSummaries(ctx, read.summaries) : await storeValues(ctx, read.values, onFraction);
     await client.query(
-      `update uploads set stored_at = now(), progress = 0.9, rows_total = $2, rows_accepted = $3, rows_rejected = $4,
+      `update uploads set status = 'stored', stored_at = now(), progress = 1, rows_total = $2, rows_accepted = $3, rows_rejected = $4,
               errors = $5::jsonb, updated_at = now() where id = $1`,
       [upload.id, counts.rowsTotal, counts.rowsAccepted, counts.rowsRejected, JSON.stringify(read.errors)],
     );

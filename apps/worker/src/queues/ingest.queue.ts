@@ -1,8 +1,8 @@
 import { Queue, UnrecoverableError, Worker, type Job } from 'bullmq';
 import type { Redis } from 'ioredis';
 import { INGEST_QUEUE_NAME, ingestJobId, ingestJobSchema, type IngestJob } from '@plumbline/contracts';
-import { drainPeerStatisticsRequests } from '@plumbline/db';
 import { processUpload, type IngestDeps, type IngestOutcome } from '../jobs/ingest.job.ts';
+import { createPeerStatisticsDrainer, type PeerStatisticsDrainer } from '../jobs/peer-statistics.job.ts';
 import * as repo from '../ingest/ingest.repository.ts';
 
 export type IngestWorkerOptions = {
@@ -11,11 +11,17 @@ export type IngestWorkerOptions = {
   concurrency: number;
   /** How often uploads left queued/processing are handed to the queue again (0: only at start). */
   recoveryIntervalMs: number;
+  /** How long a job's lock lasts without renewal; a job whose worker died is retried after it (default 60 s). */
+  lockDurationMs?: number;
+  /** How often this worker looks for jobs whose worker died (default 30 s). */
+  stalledIntervalMs?: number;
 };
 
 export type IngestWorker = {
   worker: Worker<IngestJob, IngestOutcome>;
   queue: Queue<IngestJob>;
+  /** Recomputes requested peer statistics in the background. */
+  drainer: PeerStatisticsDrainer;
   /** Re-enqueues every upload PostgreSQL says is queued or processing; returns how many. */
   recover(): Promise<number>;
   /** Stops taking jobs, lets running ones finish, and closes the queue handles. */
@@ -33,6 +39,7 @@ const JOB_OPTIONS = {
 export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions): IngestWorker {
   const log = deps.log ?? (() => {});
   const queue = new Queue<IngestJob>(INGEST_QUEUE_NAME, { connection: options.connection, prefix: options.prefix });
+  const drainer = createPeerStatisticsDrainer(deps.db, { minLabs: deps.minLabs }, log);
 
   const worker = new Worker<IngestJob, IngestOutcome>(
     INGEST_QUEUE_NAME,
@@ -40,7 +47,11 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
       const payload = ingestJobSchema.safeParse(job.data);
       if (!payload.success) throw new UnrecoverableError(`ingest job ${job.id}: invalid payload`);
       try {
-        return await processUpload(deps, payload.data.uploadId, (progress) => job.updateProgress(Math.round(progress * 1000) / 1000));
+        const outcome = await processUpload(deps, payload.data.uploadId, (progress) =>
+          job.updateProgress(Math.round(progress * 1000) / 1000),
+        );
+        if (outcome === 'stored') drainer.kick();
+        return outcome;
       } catch (error) {
         const lastAttempt = job.attemptsMade + 1 >= (job.opts.attempts ?? 1);
         log(`upload ${payload.data.uploadId}: attempt ${job.attemptsMade + 1} failed: ${(error as Error).message}`);
@@ -56,7 +67,8 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
       connection: options.connection,
       prefix: options.prefix,
       concurrency: options.concurrency,
-      lockDuration: 60_000,
+      lockDuration: options.lockDurationMs ?? 60_000,
+      stalledInterval: options.stalledIntervalMs ?? 30_000,
     },
   );
   worker.on('error', (error) => log(`ingest worker: ${error.message}`));
@@ -68,7 +80,7 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
       await queue.add('ingest', { uploadId: upload.id }, { ...JOB_OPTIONS, jobId: ingestJobId(upload.id, upload.confirmed ? 'confirmed' : 'initial') });
     }
     // Recompute requests left by a crash between storing and recomputing.
-    await drainPeerStatisticsRequests(deps.db, { minLabs: deps.minLabs });
+    drainer.kick();
     return pending.length;
   }
 
@@ -83,10 +95,12 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
   return {
     worker,
     queue,
+    drainer,
     recover,
     async close() {
       if (timer) clearInterval(timer);
       await worker.close();
+      await drainer.idle();
       await queue.close();
     },
   };

@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { eq } from 'drizzle-orm';
 import { ingestJobId, type ColumnMapping, type UploadKind } from '@plumbline/contracts';
-import { uploads, type Database } from '@plumbline/db';
+import { hasPendingPeerStatistics, uploads, type Database } from '@plumbline/db';
 import { createScratchDatabase, createQcCatalogue, type ScratchDatabase } from '@plumbline/db/testing';
 import { LocalFileSource } from '../storage/file-source.ts';
 import { startIngestWorker, type IngestWorker } from '../queues/ingest.queue.ts';
@@ -24,7 +24,7 @@ export async function createWorkerHarness(label: string) {
   const catalogue = await createQcCatalogue(scratch.db);
   let worker: IngestWorker | null = null;
 
-  function startWorker(options: { holdBeforeCommitMs?: number } = {}) {
+  function startWorker(options: { holdBeforeCommitMs?: number; stalledIntervalMs?: number } = {}) {
     worker = startIngestWorker(
       {
         db: scratch.db,
@@ -32,8 +32,9 @@ export async function createWorkerHarness(label: string) {
         files: new LocalFileSource(storageDir),
         minLabs: 3,
         holdBeforeCommitMs: options.holdBeforeCommitMs,
+        log: process.env.PLUMBLINE_TEST_LOG ? (m: string) => console.log(m) : undefined,
       },
-      { connection, prefix, concurrency: 2, recoveryIntervalMs: 0 },
+      { connection, prefix, concurrency: 2, recoveryIntervalMs: 0, stalledIntervalMs: options.stalledIntervalMs },
     );
     return worker;
   }
@@ -82,6 +83,17 @@ export async function createWorkerHarness(label: string) {
     throw new Error(`upload ${uploadId} stayed ${row?.status} (waited for ${statuses.join('/')})`);
   }
 
+  /** Waits until every requested peer statistic is recomputed. */
+  async function waitForPeerStatistics(timeoutMs = 20_000) {
+    const started = Date.now();
+    while (Date.now() - started < timeoutMs) {
+      await worker?.drainer.idle();
+      if (!(await hasPendingPeerStatistics(scratch.db))) return;
+      await new Promise((r) => setTimeout(r, 25));
+    }
+    throw new Error('peer statistics were not recomputed in time');
+  }
+
   async function close() {
     await worker?.close().catch(() => {});
     connection.disconnect();
@@ -100,6 +112,7 @@ export async function createWorkerHarness(label: string) {
     addUpload,
     enqueue,
     waitForStatus,
+    waitForPeerStatistics,
     close,
   };
 }

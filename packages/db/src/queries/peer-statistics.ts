@@ -1,4 +1,4 @@
-import { and, asc, eq, gte, inArray, isNull, sql } from 'drizzle-orm';
+import { and, asc, eq, gte, inArray, isNull, lte, sql } from 'drizzle-orm';
 import { peerStatistics as computePeerStatistics, pool, type PeerStatistics } from '@plumbline/stats';
 import { peerExclusions, peerGroups, peerStatistics, peerStatisticsRequests, type ExcludedLab } from '../schema/peer-groups.ts';
 import { procedures } from '../schema/procedures.ts';
@@ -37,39 +37,74 @@ export async function requestPeerStatistics(db: Executor, targets: readonly Peer
 }
 
 /**
- * Recomputes every requested target and removes the requests it served. A request renewed while the
- * recompute ran (new data committed meanwhile) keeps its place for the next drain.
- * Returns the number of targets recomputed.
+ * Recomputes every requested target and removes the requests it served, waiting for a recompute that is
+ * already running elsewhere to finish first. A request renewed while the recompute ran (new data
+ * committed meanwhile) keeps its place for the next drain. Returns the number of targets recomputed.
  */
 export async function drainPeerStatisticsRequests(db: Database, settings: PeerStatisticsSettings = {}): Promise<number> {
   return db.transaction(async (tx) => {
     await tx.execute(sql`select pg_advisory_xact_lock(${RECOMPUTE_LOCK_KEY})`);
-    const claimed = await tx.execute<{
-      control_lot_id: string;
-      analyte_id: string;
-      level: number;
-      period: string;
-      stamp: string;
-    }>(sql`select control_lot_id, analyte_id, level, period, requested_at::text as stamp from peer_statistics_requests`);
-    if (claimed.rows.length === 0) return 0;
-    await recomputePeerStatistics(
-      tx,
-      claimed.rows.map((r) => ({ controlLotId: r.control_lot_id, analyteId: r.analyte_id, level: r.level, period: r.period })),
-      settings,
-    );
-    for (const r of claimed.rows) {
-      await tx.execute(sql`
-        delete from peer_statistics_requests
-        where control_lot_id = ${r.control_lot_id} and analyte_id = ${r.analyte_id}
-          and level = ${r.level} and period = ${r.period} and requested_at = ${r.stamp}::timestamptz`);
-    }
-    return claimed.rows.length;
+    return drainClaimed(tx, settings);
   });
 }
 
-/** True while recompute requests are waiting. */
-export async function hasPendingPeerStatistics(db: Executor): Promise<boolean> {
-  const rows = await db.select({ level: peerStatisticsRequests.level }).from(peerStatisticsRequests).limit(1);
+/**
+ * Like drainPeerStatisticsRequests, but returns null at once when another recompute holds the lock
+ * (that one sees the requests committed before it looks, and its caller looks again after it ends).
+ */
+export async function drainPeerStatisticsRequestsIfFree(
+  db: Database,
+  settings: PeerStatisticsSettings = {},
+): Promise<number | null> {
+  return db.transaction(async (tx) => {
+    const lock = await tx.execute<{ locked: boolean }>(sql`select pg_try_advisory_xact_lock(${RECOMPUTE_LOCK_KEY}) as locked`);
+    if (!lock.rows[0]?.locked) return null;
+    return drainClaimed(tx, settings);
+  });
+}
+
+/**
+ * Drains until nothing is waiting, without ever waiting for another drainer: whoever holds the lock
+ * checks again after releasing it, so a request committed before this call is always served by someone.
+ */
+export async function drainPeerStatisticsUntilIdle(db: Database, settings: PeerStatisticsSettings = {}): Promise<void> {
+  while (true) {
+    const drained = await drainPeerStatisticsRequestsIfFree(db, settings);
+    if (drained === null) return;
+    if (!(await hasPendingPeerStatistics(db))) return;
+  }
+}
+
+async function drainClaimed(tx: Executor, settings: PeerStatisticsSettings): Promise<number> {
+  const claimed = await tx.execute<{
+    control_lot_id: string;
+    analyte_id: string;
+    level: number;
+    period: string;
+    stamp: string;
+  }>(sql`select control_lot_id, analyte_id, level, period, requested_at::text as stamp from peer_statistics_requests`);
+  if (claimed.rows.length === 0) return 0;
+  await recomputePeerStatistics(
+    tx,
+    claimed.rows.map((r) => ({ controlLotId: r.control_lot_id, analyteId: r.analyte_id, level: r.level, period: r.period })),
+    settings,
+  );
+  for (const r of claimed.rows) {
+    await tx.execute(sql`
+      delete from peer_statistics_requests
+      where control_lot_id = ${r.control_lot_id} and analyte_id = ${r.analyte_id}
+        and level = ${r.level} and period = ${r.period} and requested_at = ${r.stamp}::timestamptz`);
+  }
+  return claimed.rows.length;
+}
+
+/** True while recompute requests are waiting; with a period, only those that change its figures (that period or an earlier one, through the lot-to-date figures). */
+export async function hasPendingPeerStatistics(db: Executor, period?: string): Promise<boolean> {
+  const rows = await db
+    .select({ level: peerStatisticsRequests.level })
+    .from(peerStatisticsRequests)
+    .where(period ? lte(peerStatisticsRequests.period, period) : undefined)
+    .limit(1);
   return rows.length > 0;
 }
 

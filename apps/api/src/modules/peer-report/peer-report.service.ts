@@ -1,5 +1,12 @@
 import { pool, sigmaMetric, standing, DEFAULT_MIN_LABS } from '@plumbline/stats';
-import { PEER_TIERS, loadPeerKeyParts, resolvePeerMembership, type Database, type PeerMembership } from '@plumbline/db';
+import {
+  PEER_TIERS,
+  hasPendingPeerStatistics,
+  loadPeerKeyParts,
+  resolvePeerMembership,
+  type Database,
+  type PeerMembership,
+} from '@plumbline/db';
 import type { LabFigures, PeerFigures, PeerReport, PeerReportRow, ReportFlag } from '@plumbline/contracts';
 import type { Principal } from '../../auth/principal.ts';
 import { assertLabAccess } from '../../auth/authenticate.ts';
@@ -117,6 +124,7 @@ export async function buildPeerReport(
     period,
     lab,
     published: publication ? { version: publication.version, publishedAt: publication.publishedAt.toISOString() } : null,
+    statisticsPending: await hasPendingPeerStatistics(db, period),
     rows,
   };
 }

@@ -46,6 +46,7 @@ export const navigationSections: NavigationSection[] = [
     items: [
       { label: 'Catalogue', to: paths.network.catalogue.getHref(), policy: 'network' },
       { label: 'Labs', to: paths.network.labs.getHref(), policy: 'network' },
+      { label: 'Network procedures', to: paths.network.procedures.getHref(), policy: 'network' },
       { label: 'Peer groups', to: paths.network.peerGroups.getHref(), policy: 'network' },
     ],
   },

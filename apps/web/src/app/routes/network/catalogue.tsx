@@ -1,18 +1,27 @@
+// The network's catalogue: six lists, chosen in a side list (?list=…), each with search, paging,
+// create/edit, retire/restore and CSV import.
+import { useSearchParams } from 'react-router-dom';
+import { catalogueListSchema } from '@plumbline/contracts';
 import { ContentLayout } from '../../../components/layouts/content-layout.tsx';
-import { EmptyState } from '../../../components/ui/empty-state.tsx';
+import { CatalogueBrowser } from '../../../features/catalogue/components/catalogue-browser.tsx';
+import { CatalogueListNav } from '../../../features/catalogue/components/catalogue-list-nav.tsx';
 
-// Shell page: the feature that fills this area replaces the empty state.
 export default function CatalogueRoute() {
+  const [searchParams] = useSearchParams();
+  const parsed = catalogueListSchema.safeParse(searchParams.get('list'));
+  const list = parsed.success ? parsed.data : 'analytes';
+
   return (
     <ContentLayout
       title="Catalogue"
       area="Network set-up"
-      description="The shared vocabulary every lab's procedures are built from."
+      description="The shared vocabulary every lab's procedures are built from. Entries are retired, never deleted, because data refers to them."
     >
-      <EmptyState
-        title="The network's catalogue will be kept here"
-        description="Analytes with their LOINC code, canonical UCUM unit and total allowable error; methods, instrument models and reagents; control materials with their lots, levels and expiry dates."
-      />
+      <div className="flex flex-col gap-6 md:flex-row">
+        <CatalogueListNav current={list} />
+        {/* Keyed by list: search, sorting and paging start afresh on another list. */}
+        <CatalogueBrowser key={list} list={list} />
+      </div>
     </ContentLayout>
   );
 }

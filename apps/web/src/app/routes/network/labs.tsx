@@ -1,14 +1,70 @@
+// Member labs: enrol, edit, deactivate or reactivate them; beside the list, the users of the chosen lab
+// (?lab=<id>) with their invitations.
+import { useState } from 'react';
+import { useSearchParams } from 'react-router-dom';
+import { useQuery } from '@tanstack/react-query';
 import { ContentLayout } from '../../../components/layouts/content-layout.tsx';
+import { Alert } from '../../../components/ui/alert.tsx';
+import { Button } from '../../../components/ui/button.tsx';
 import { EmptyState } from '../../../components/ui/empty-state.tsx';
+import { PageLoading } from '../../../components/ui/page-loading.tsx';
+import { networkLabsKeys } from '../../../features/network-labs/api/network-labs-keys.ts';
+import { LabFormDialog, type LabFormState } from '../../../features/network-labs/components/lab-form-dialog.tsx';
+import { LabStateDialog, type LabStateRequest } from '../../../features/network-labs/components/lab-state-dialog.tsx';
+import { LabUsersPanel } from '../../../features/network-labs/components/lab-users-panel.tsx';
+import { LabsTable } from '../../../features/network-labs/components/labs-table.tsx';
+import { errorMessage } from '../../../lib/form-errors.ts';
 
-// Shell page: the feature that fills this area replaces the empty state.
 export default function LabsRoute() {
+  const labs = useQuery(networkLabsKeys.labs());
+  const [searchParams, setSearchParams] = useSearchParams();
+  const [labForm, setLabForm] = useState<LabFormState>(null);
+  const [stateChange, setStateChange] = useState<LabStateRequest>(null);
+  const selectedLabId = searchParams.get('lab');
+  const selected = labs.data?.find((lab) => lab.id === selectedLabId) ?? null;
+
   return (
-    <ContentLayout title="Labs" area="Network set-up" description="Member labs of the network.">
-      <EmptyState
-        title="Member labs will be listed here"
-        description="Every member lab will be listed here with its de-identifying code, whether it is active, its users and its measurement procedures. Only you see which code belongs to which lab."
-      />
+    <ContentLayout
+      title="Labs"
+      area="Network set-up"
+      description="Member labs of the network and their users. Other labs only ever see a lab's code; only you see which code belongs to which lab."
+      actions={<Button onClick={() => setLabForm({ mode: 'enrol' })}>Enrol a lab</Button>}
+    >
+      {labs.isPending ? (
+        <PageLoading />
+      ) : labs.isError ? (
+        <Alert tone="error" title="The labs could not be loaded">
+          {errorMessage(labs.error)}
+        </Alert>
+      ) : (
+        <div className="grid items-start gap-6 xl:grid-cols-[minmax(0,1fr)_minmax(0,1.15fr)]">
+          <LabsTable
+            labs={labs.data}
+            actions={{
+              selectedLabId: selected?.id ?? null,
+              onSelect: (lab) => {
+                setSearchParams({ lab: lab.id }, { replace: true });
+                // Take keyboard and screen-reader users to the users that just appeared.
+                requestAnimationFrame(() => document.getElementById('lab-users-title')?.focus());
+              },
+              onEdit: (lab) => setLabForm({ mode: 'edit', lab }),
+              onStateChange: (lab, action) => setStateChange({ lab, action }),
+            }}
+          />
+          <div className="xl:sticky xl:top-4">
+            {selected ? (
+              <LabUsersPanel key={selected.id} lab={selected} />
+            ) : (
+              <EmptyState
+                title="Choose a lab to see its users"
+                description="Select “Users” on a lab to list who works there, invite someone, change a role or withdraw an invitation."
+              />
+            )}
+          </div>
+        </div>
+      )}
+      <LabFormDialog state={labForm} onClose={() => setLabForm(null)} />
+      <LabStateDialog request={stateChange} onClose={() => setStateChange(null)} />
     </ContentLayout>
   );
 }

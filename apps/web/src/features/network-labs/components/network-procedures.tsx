@@ -1,0 +1,281 @@
+// Which labs run which analyte on which instrument model, method and reagent, and which of those
+// procedures cannot be peered: no tier (instrument, method, analyte) has enough labs. Server-side
+// filters and paging; the options of the filters are handed in by the page.
+import { useState } from 'react';
+import { useQuery } from '@tanstack/react-query';
+import { createColumnHelper, getCoreRowModel, useReactTable } from '@tanstack/react-table';
+import type { NetworkProcedure } from '@plumbline/contracts';
+import { Alert } from '../../../components/ui/alert.tsx';
+import { Badge } from '../../../components/ui/badge.tsx';
+import { DataTable } from '../../../components/ui/data-table.tsx';
+import { Pagination } from '../../../components/ui/pagination.tsx';
+import { errorMessage } from '../../../lib/form-errors.ts';
+import { formatCount } from '../../../utils/format.ts';
+import { networkLabsKeys, PROCEDURES_PAGE_SIZE, type NetworkProceduresParams } from '../api/network-labs-keys.ts';
+
+export type FilterOption = { id: string; label: string };
+export type ProcedureFilterOptions = {
+  labs: FilterOption[];
+  analytes: FilterOption[];
+  instrumentModels: FilterOption[];
+  methods: FilterOption[];
+};
+
+/** The default of METHODS.md: a tier's figures are published from 3 labs on. */
+const DEFAULT_MIN_LABS = 3;
+
+function Ref({ code, name }: { code: string; name: string }) {
+  return (
+    <span className="block min-w-0">
+      <span className="font-medium text-slate-900">{code}</span>
+      <span className="block text-xs text-slate-600">{name}</span>
+    </span>
+  );
+}
+
+function TierCount({ tier }: { tier: { labs: number; enough: boolean } }) {
+  return (
+    <span
+      className={`inline-flex min-w-8 justify-end gap-1 ${tier.enough ? 'text-plumb-800' : 'text-slate-400'}`}
+      title={tier.enough ? 'Enough labs at this tier' : 'Too few labs at this tier'}
+    >
+      {tier.labs}
+      <span aria-hidden="true">{tier.enough ? '✓' : '·'}</span>
+      <span className="sr-only">{tier.enough ? '(enough)' : '(too few)'}</span>
+    </span>
+  );
+}
+
+function PeerStatus({ procedure }: { procedure: NetworkProcedure }) {
+  const { peerable } = procedure;
+  if (procedure.unpeerable) return <Badge tone="alarm">No peer group</Badge>;
+  if (peerable.instrument.enough) return <Badge tone="plumb">Instrument tier</Badge>;
+  if (peerable.method.enough) return <Badge tone="plumb">Method tier</Badge>;
+  return <Badge tone="brass">Analyte tier only</Badge>;
+}
+
+const column = createColumnHelper<NetworkProcedure>();
+const columns = [
+  column.accessor((p) => p.lab.code, {
+    id: 'lab',
+    header: 'Lab',
+    cell: (c) => (
+      <span className="block">
+        <span className="font-semibold text-plumb-900">{c.getValue()}</span>
+        {!c.row.original.lab.active ? <span className="ml-1 text-xs text-slate-500">(inactive)</span> : null}
+        <span className="block max-w-[12rem] truncate text-xs text-slate-600" title={c.row.original.lab.name}>
+          {c.row.original.lab.name}
+        </span>
+      </span>
+    ),
+  }),
+  column.accessor('code', { header: 'Procedure', cell: (c) => <span className="whitespace-nowrap">{c.getValue()}</span> }),
+  column.accessor((p) => p.analyte.code, { id: 'analyte', header: 'Analyte', cell: (c) => <Ref {...c.row.original.analyte} /> }),
+  column.accessor((p) => p.instrumentModel.code, {
+    id: 'instrumentModel',
+    header: 'Instrument model',
+    cell: (c) => <Ref {...c.row.original.instrumentModel} />,
+  }),
+  column.accessor((p) => p.method.code, { id: 'method', header: 'Method', cell: (c) => <Ref {...c.row.original.method} /> }),
+  column.accessor((p) => p.reagent.code, { id: 'reagent', header: 'Reagent', cell: (c) => <Ref {...c.row.original.reagent} /> }),
+  column.accessor('unit', { header: 'Unit', cell: (c) => <span className="font-mono text-xs">{c.getValue()}</span> }),
+  column.accessor((p) => p.peerable.instrument.labs, {
+    id: 'instrumentLabs',
+    header: () => <abbr title="Labs sharing analyte, instrument model, method and reagent">Instr.</abbr>,
+    meta: { align: 'right' },
+    cell: (c) => <TierCount tier={c.row.original.peerable.instrument} />,
+  }),
+  column.accessor((p) => p.peerable.method.labs, {
+    id: 'methodLabs',
+    header: () => <abbr title="Labs sharing analyte and method">Method</abbr>,
+    meta: { align: 'right' },
+    cell: (c) => <TierCount tier={c.row.original.peerable.method} />,
+  }),
+  column.accessor((p) => p.peerable.analyte.labs, {
+    id: 'analyteLabs',
+    header: () => <abbr title="Labs measuring the analyte">Analyte</abbr>,
+    meta: { align: 'right' },
+    cell: (c) => <TierCount tier={c.row.original.peerable.analyte} />,
+  }),
+  column.display({ id: 'status', header: 'Peered at', cell: (c) => <PeerStatus procedure={c.row.original} /> }),
+];
+
+function FilterSelect({
+  id,
+  label,
+  value,
+  options,
+  onChange,
+}: {
+  id: string;
+  label: string;
+  value: string;
+  options: FilterOption[];
+  onChange: (value: string) => void;
+}) {
+  return (
+    <div className="flex flex-col gap-1">
+      <label htmlFor={id} className="text-xs font-medium text-slate-700">
+        {label}
+      </label>
+      <select
+        id={id}
+        value={value}
+        onChange={(event) => onChange(event.target.value)}
+        className="h-9 max-w-[14rem] rounded-md border border-slate-300 bg-white px-2 text-sm shadow-xs hover:border-slate-400"
+      >
+        <option value="">All</option>
+        {options.map((option) => (
+          <option key={option.id} value={option.id}>
+            {option.label}
+          </option>
+        ))}
+      </select>
+    </div>
+  );
+}
+
+type Filters = { labId: string; analyteId: string; instrumentModelId: string; methodId: string; unpeerableOnly: boolean; minLabs: number };
+
+export function NetworkProcedures({ options }: { options: ProcedureFilterOptions }) {
+  const [filters, setFilters] = useState<Filters>({
+    labId: '',
+    analyteId: '',
+    instrumentModelId: '',
+    methodId: '',
+    unpeerableOnly: false,
+    minLabs: DEFAULT_MIN_LABS,
+  });
+  const [offset, setOffset] = useState(0);
+  const setFilter = <K extends keyof Filters>(key: K, value: Filters[K]) => {
+    setFilters((current) => ({ ...current, [key]: value }));
+    setOffset(0);
+  };
+
+  const common: NetworkProceduresParams = {
+    labId: filters.labId || undefined,
+    analyteId: filters.analyteId || undefined,
+    instrumentModelId: filters.instrumentModelId || undefined,
+    methodId: filters.methodId || undefined,
+    minLabs: filters.minLabs,
+  };
+  const page = useQuery(
+    networkLabsKeys.procedures({
+      ...common,
+      unpeerable: filters.unpeerableOnly ? true : undefined,
+      limit: PROCEDURES_PAGE_SIZE,
+      offset,
+    }),
+  );
+  // How many of the matching procedures have no peer group, whatever the page shows.
+  const unpeerable = useQuery(networkLabsKeys.procedures({ ...common, unpeerable: true, limit: 1, offset: 0 }));
+
+  const table = useReactTable({
+    data: page.data?.items ?? [],
+    columns,
+    getCoreRowModel: getCoreRowModel(),
+    getRowId: (p) => p.id,
+  });
+
+  return (
+    <div>
+      <div className="mb-4 flex flex-wrap items-end gap-3 rounded-lg border border-slate-200 bg-white px-4 py-3 shadow-xs">
+        <FilterSelect id="procedures-lab" label="Lab" value={filters.labId} options={options.labs} onChange={(v) => setFilter('labId', v)} />
+        <FilterSelect
+          id="procedures-analyte"
+          label="Analyte"
+          value={filters.analyteId}
+          options={options.analytes}
+          onChange={(v) => setFilter('analyteId', v)}
+        />
+        <FilterSelect
+          id="procedures-instrument"
+          label="Instrument model"
+          value={filters.instrumentModelId}
+          options={options.instrumentModels}
+          onChange={(v) => setFilter('instrumentModelId', v)}
+        />
+        <FilterSelect
+          id="procedures-method"
+          label="Method"
+          value={filters.methodId}
+          options={options.methods}
+          onChange={(v) => setFilter('methodId', v)}
+        />
+        <div className="flex flex-col gap-1">
+          <label htmlFor="procedures-min-labs" className="text-xs font-medium text-slate-700">
+            Labs a tier needs
+          </label>
+          <input
+            id="procedures-min-labs"
+            type="number"
+            min={1}
+            max={100}
+            value={filters.minLabs}
+            onChange={(event) => {
+              const value = Number(event.target.value);
+              if (Number.isInteger(value) && value >= 1 && value <= 100) setFilter('minLabs', value);
+            }}
+            className="h-9 w-20 rounded-md border border-slate-300 bg-white px-2 text-right text-sm shadow-xs"
+          />
+        </div>
+        <label className="flex h-9 items-center gap-2 text-sm text-slate-700">
+          <input
+            type="checkbox"
+            checked={filters.unpeerableOnly}
+            onChange={(event) => setFilter('unpeerableOnly', event.target.checked)}
+          />
+          Only procedures without a peer group
+        </label>
+      </div>
+
+      <p className="mb-3 text-sm text-slate-700" aria-live="polite">
+        {page.data ? (
+          <>
+            <span className="font-semibold text-slate-900">{formatCount(page.data.total)}</span>{' '}
+            {filters.unpeerableOnly ? 'procedures without a peer group' : 'procedures'}
+            {unpeerable.data && !filters.unpeerableOnly ? (
+              <>
+                {' '}
+                ·{' '}
+                <span className={unpeerable.data.total > 0 ? 'font-semibold text-alarm-800' : undefined}>
+                  {formatCount(unpeerable.data.total)}
+                </span>{' '}
+                cannot be peered at any tier (fewer than {page.data.minLabs} labs)
+              </>
+            ) : null}
+          </>
+        ) : null}
+      </p>
+
+      {page.isError ? (
+        <Alert tone="error" title="The procedures could not be loaded">
+          {errorMessage(page.error)}
+        </Alert>
+      ) : (
+        <>
+          <DataTable
+            table={table}
+            caption="Measurement procedures across the network"
+            emptyMessage={
+              page.isPending
+                ? 'Loading…'
+                : filters.unpeerableOnly
+                  ? 'Every matching procedure has a peer group at some tier.'
+                  : 'No procedure matches these filters.'
+            }
+            isFetching={page.isPlaceholderData}
+            rowClassName={(p) => (p.unpeerable ? 'bg-alarm-50/50' : '')}
+          />
+          <Pagination
+            label="Procedure pages"
+            total={page.data?.total ?? 0}
+            limit={PROCEDURES_PAGE_SIZE}
+            offset={offset}
+            onOffsetChange={setOffset}
+          />
+        </>
+      )}
+    </div>
+  );
+}

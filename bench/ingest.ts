@@ -1,0 +1,253 @@
+// Benchmark of QC data ingest, against a baseline measured in the same run.
+// Run with `npm run bench:ingest` (PostgreSQL at DATABASE_URL and Redis at REDIS_URL must be running).
+//
+//   Pipeline: 1,000,000 daily QC values of 500 labs — one qc-values file per lab (2,000 rows: 25
+//   procedures × 2 levels × 40 values), as labs send them — are uploaded through the HTTP API (lab API
+//   tokens, 8 uploads in flight), streamed to storage, validated, unit-checked, evaluated with the
+//   multirule checks, stored with COPY, summarised per month, and the peer statistics of every group
+//   recomputed. The clock stops when every upload is stored and no recompute is pending.
+//   Baseline: PostgreSQL COPY of the same 1,000,000 rows (one CSV file) into a plain table without
+//   indexes. Targets: ratio ≤ 2.0; the worker's peak resident memory ≤ 512 MB.
+//
+// Options: --labs=500 --concurrency=2 (worker jobs at once) --keep (keep the scratch database).
+import { spawn } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
+import { createReadStream, createWriteStream, mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { once } from 'node:events';
+import { pipeline } from 'node:stream/promises';
+import { performance } from 'node:perf_hooks';
+import { fileURLToPath } from 'node:url';
+import type { AddressInfo } from 'node:net';
+import { Redis } from 'ioredis';
+import copyStreams from 'pg-copy-streams';
+import { sql } from 'drizzle-orm';
+import {
+  analytes,
+  controlLots,
+  controlMaterials,
+  instrumentModels,
+  labApiTokens,
+  labs,
+  methods,
+  periods,
+  procedures,
+  reagents,
+} from '@plumbline/db';
+import { createScratchDatabase } from '@plumbline/db/testing';
+import { createApp } from '../apps/api/src/app.ts';
+import { loadEnv } from '../apps/api/src/config/env.ts';
+import { LocalFileStorage } from '../apps/api/src/storage/local-storage.ts';
+import { createIngestQueue } from '../apps/api/src/queues/ingest-queue.ts';
+import { newLabToken } from '../apps/api/src/auth/lab-tokens.ts';
+
+const args = new Map(process.argv.slice(2).map((a) => a.replace(/^--/, '').split('=') as [string, string]));
+const LAB_COUNT = Number(args.get('labs') ?? 500);
+const CONCURRENCY = Number(args.get('concurrency') ?? 2);
+const ANALYTES = 25;
+const LEVELS = [1, 2];
+const DAYS = 20;
+const RUNS_PER_DAY = 2;
+const ROWS_PER_LAB = ANALYTES * LEVELS.length * DAYS * RUNS_PER_DAY;
+const UPLOADS_IN_FLIGHT = 8;
+const PERIOD = '2026-03';
+const REDIS_URL = process.env.REDIS_URL ?? 'redis://127.0.0.1:63790';
+const repoRoot = fileURLToPath(new URL('../', import.meta.url));
+
+const seconds = (ms: number) => `${(ms / 1000).toFixed(2)} s`;
+const log = (message: string) => console.log(`bench:ingest: ${message}`);
+
+/** Deterministic pseudo-random numbers (mulberry32), so every run ingests the same data. */
+function random(seed: number) {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** One lab's qc-values file: its 25 procedures, two levels, two runs a day for 20 days. */
+function labFile(labIndex: number, lotNumber: string, withHeader: boolean): string {
+  const next = random(labIndex + 1);
+  const lines: string[] = withHeader ? ['measured_at,procedure,control_lot,level,value,unit,run,comment'] : [];
+  const bias = (next() - 0.5) * 0.04;
+  for (let day = 1; day <= DAYS; day++) {
+    for (let run = 0; run < RUNS_PER_DAY; run++) {
+      const at = `${PERIOD}-${String(day).padStart(2, '0')}T${run === 0 ? '08' : '16'}:00:00Z`;
+      for (let a = 0; a < ANALYTES; a++) {
+        for (const level of LEVELS) {
+          const target = (a + 1) * (level === 1 ? 1 : 3);
+          // Sum of uniforms: a cheap, roughly normal spread of about 2 %.
+          const noise = (next() + next() + next() - 1.5) * 0.04;
+          const value = target * (1 + bias + noise);
+          lines.push(`${at},P${a + 1},${lotNumber},${level},${value.toFixed(4)},mmol/L,D${day}R${run + 1},`);
+        }
+      }
+    }
+  }
+  return lines.join('\n') + '\n';
+}
+
+async function main() {
+  log(`setting up a scratch database with ${LAB_COUNT} labs × ${ANALYTES} procedures`);
+  const scratch = await createScratchDatabase('bench');
+  const storageDir = mkdtempSync(join(tmpdir(), 'plumbline-bench-'));
+  const queuePrefix = `plumbline-bench-${randomBytes(4).toString('hex')}`;
+  const redis = new Redis(REDIS_URL, { maxRetriesPerRequest: null });
+  const db = scratch.db;
+
+  // Catalogue: invented names; one control lot with two levels.
+  const [material] = await db.insert(controlMaterials).values({ code: 'BENCH-CM', name: 'Bench control material' }).returning();
+  const [lot] = await db.insert(controlLots).values({ materialId: material.id, lotNumber: 'BENCH-LOT-1', levels: LEVELS, expiresOn: '2027-12-31' }).returning();
+  await db.insert(periods).values({ period: PERIOD, state: 'open', deadline: new Date('2026-04-10T23:59:00Z') }).onConflictDoNothing();
+  const analyteRows = await db
+    .insert(analytes)
+    .values(Array.from({ length: ANALYTES }, (_, i) => ({ code: `BA${i + 1}`, name: `Bench analyte ${i + 1}`, unit: 'mmol/L', molarMass: 100 + i })))
+    .returning();
+  const methodRows = await db.insert(methods).values([1, 2, 3].map((i) => ({ code: `BM${i}`, name: `Bench method ${i}` }))).returning();
+  const modelRows = await db.insert(instrumentModels).values([1, 2, 3, 4].map((i) => ({ code: `BI${i}`, name: `Bench analyser ${i}` }))).returning();
+  const reagentRows = await db.insert(reagents).values([1, 2].map((i) => ({ code: `BR${i}`, name: `Bench reagent ${i}` }))).returning();
+  const labRows = await db
+    .insert(labs)
+    .values(Array.from({ length: LAB_COUNT }, (_, i) => ({ code: `B${String(i + 1).padStart(4, '0')}`, name: `Bench lab ${i + 1}` })))
+    .returning();
+  const procedureValues = labRows.flatMap((lab, l) =>
+    analyteRows.map((analyte, a) => ({
+      labId: lab.id,
+      code: `P${a + 1}`,
+      analyteId: analyte.id,
+      instrumentModelId: modelRows[l % modelRows.length].id,
+      methodId: methodRows[(l + a) % methodRows.length].id,
+      reagentId: reagentRows[l % reagentRows.length].id,
+      unit: 'mmol/L',
+    })),
+  );
+  for (let i = 0; i < procedureValues.length; i += 2000) await db.insert(procedures).values(procedureValues.slice(i, i + 2000));
+  const tokens = labRows.map(() => newLabToken());
+  await db.insert(labApiTokens).values(labRows.map((lab, i) => ({ labId: lab.id, name: 'bench', prefix: tokens[i].prefix, tokenHash: tokens[i].tokenHash })));
+
+  // The same rows as one file, for the COPY baseline.
+  const combinedPath = join(storageDir, 'combined.csv');
+  const combined = createWriteStream(combinedPath);
+  for (let l = 0; l < LAB_COUNT; l++) {
+    if (!combined.write(labFile(l, lot.lotNumber, l === 0))) await once(combined, 'drain');
+  }
+  combined.end();
+  await once(combined, 'finish');
+  const totalRows = LAB_COUNT * ROWS_PER_LAB;
+  log(`generated ${totalRows.toLocaleString('en')} rows (${(statSync(combinedPath).size / 1e6).toFixed(1)} MB as one file)`);
+
+  // The API in this process, the worker as its own process (its memory is measured alone).
+  const env = loadEnv({
+    ...process.env,
+    NODE_ENV: 'test',
+    DATABASE_URL: scratch.url,
+    STORAGE_DIR: join(storageDir, 'files'),
+    QUEUE_PREFIX: queuePrefix,
+    S3_BUCKET: '',
+  });
+  const ingestQueue = createIngestQueue(redis, queuePrefix);
+  const app = createApp({ env, db, redis, storage: new LocalFileStorage(env.STORAGE_DIR), ingestQueue });
+  const server = app.listen(0, '127.0.0.1');
+  await once(server, 'listening');
+  const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+
+  const worker = spawn(process.execPath, ['--import', 'tsx', join(repoRoot, 'apps/worker/src/main.ts')], {
+    cwd: repoRoot,
+    env: {
+      ...process.env,
+      NODE_ENV: 'production',
+      DATABASE_URL: scratch.url,
+      REDIS_URL,
+      QUEUE_PREFIX: queuePrefix,
+      STORAGE_DIR: env.STORAGE_DIR,
+      S3_BUCKET: '',
+      INGEST_CONCURRENCY: String(CONCURRENCY),
+    },
+    stdio: ['ignore', 'pipe', 'inherit'],
+  });
+  let workerOutput = '';
+  worker.stdout!.on('data', (d: Buffer) => (workerOutput += d.toString()));
+  while (!/worker: ready/.test(workerOutput)) {
+    if (worker.exitCode !== null) throw new Error(`worker exited:\n${workerOutput}`);
+    await new Promise((r) => setTimeout(r, 50));
+  }
+
+  log(`uploading ${LAB_COUNT} files through the API (${UPLOADS_IN_FLIGHT} in flight, worker concurrency ${CONCURRENCY})`);
+  const started = performance.now();
+  let nextLab = 0;
+  const ids: string[] = [];
+  async function uploader() {
+    while (nextLab < LAB_COUNT) {
+      const l = nextLab++;
+      const form = new FormData();
+      form.set('kind', 'qc-values');
+      form.set('file', new Blob([labFile(l, lot.lotNumber, true)], { type: 'text/csv' }), `lab-${l + 1}.csv`);
+      const res = await fetch(`${baseUrl}/api/uploads`, { method: 'POST', headers: { Authorization: `Bearer ${tokens[l].token}` }, body: form });
+      if (res.status !== 202) throw new Error(`upload ${l} answered ${res.status}: ${await res.text()}`);
+      ids.push(((await res.json()) as { id: string }).id);
+    }
+  }
+  await Promise.all(Array.from({ length: UPLOADS_IN_FLIGHT }, uploader));
+  const uploadedAt = performance.now();
+
+  let storedAt = 0;
+  while (true) {
+    const { rows } = await scratch.pool.query<{ stored: number; failed: number; pending: number }>(
+      `select count(*) filter (where status = 'stored')::int as stored,
+              count(*) filter (where status in ('failed', 'needs-review', 'cancelled'))::int as failed,
+              (select count(*)::int from peer_statistics_requests) as pending
+         from uploads`,
+    );
+    const { stored, failed, pending } = rows[0];
+    if (failed > 0) throw new Error(`${failed} upload(s) did not store:\n${workerOutput}`);
+    if (stored === LAB_COUNT && !storedAt) storedAt = performance.now();
+    if (stored === LAB_COUNT && pending === 0) break;
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  const finished = performance.now();
+  const peakRssKb = Number(/VmHWM:\s+(\d+)/.exec(readFileSync(`/proc/${worker.pid}/status`, 'utf8'))?.[1] ?? NaN);
+
+  const check = await db.execute<{ values: number; summaries: number; statistics: number }>(sql`
+    select (select count(*)::int from qc_values) as "values", (select count(*)::int from qc_summaries) as summaries,
+           (select count(*)::int from peer_statistics) as statistics`);
+  const counts = check.rows[0];
+  if (counts.values !== totalRows) throw new Error(`expected ${totalRows} stored values, found ${counts.values}`);
+
+  // Baseline: COPY of the same rows into a plain table, in the same run.
+  await scratch.pool.query(`create table bench_copy (measured_at timestamptz, procedure text, control_lot text, level int,
+    value double precision, unit text, run text, comment text)`);
+  const client = await scratch.pool.connect();
+  const copyStarted = performance.now();
+  await pipeline(createReadStream(combinedPath), client.query(copyStreams.from('COPY bench_copy FROM STDIN WITH (FORMAT csv, HEADER true)')));
+  const copyMs = performance.now() - copyStarted;
+  client.release();
+  const [{ n: copied }] = (await scratch.pool.query<{ n: number }>('select count(*)::int as n from bench_copy')).rows;
+  if (copied !== totalRows) throw new Error(`COPY loaded ${copied} rows, expected ${totalRows}`);
+
+  const pipelineMs = finished - started;
+  console.log('');
+  console.log(`  rows                               ${totalRows.toLocaleString('en')} (${LAB_COUNT} files of ${ROWS_PER_LAB})`);
+  console.log(`  uploads accepted (HTTP 202)        ${seconds(uploadedAt - started)}`);
+  console.log(`  every upload stored                ${seconds(storedAt - started)}`);
+  console.log(`  peer statistics recomputed         ${seconds(pipelineMs)}  (${counts.summaries.toLocaleString('en')} monthly summaries, ${counts.statistics.toLocaleString('en')} peer statistic rows)`);
+  console.log(`  PostgreSQL COPY, same rows         ${seconds(copyMs)}`);
+  console.log(`  ratio pipeline / COPY              ${(pipelineMs / copyMs).toFixed(2)}  (target ≤ 2.0)`);
+  console.log(`  worker peak RSS                    ${(peakRssKb / 1024).toFixed(0)} MB  (target ≤ 512 MB)`);
+  console.log('');
+
+  worker.kill('SIGTERM');
+  await once(worker, 'exit');
+  server.close();
+  await ingestQueue.close();
+  redis.disconnect();
+  rmSync(storageDir, { recursive: true, force: true });
+  if (args.has('keep')) log(`scratch database kept: ${scratch.url}`);
+  else await scratch.drop();
+}
+
+await main();
