@@ -87,6 +87,7 @@ async function startUploadStack() {
     url: `http://127.0.0.1:${(server.address() as AddressInfo).port}`,
     close: async () => {
       await worker.close().catch(() => {});
+      server.closeAllConnections();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       await ingestQueue.close().catch(() => {});
       workerConnection.disconnect();

@@ -41,3 +41,15 @@ export function applyServerFieldErrors<T extends FieldValues>(
 export function errorMessage(error: unknown, fallback = 'That did not work for an unexpected reason. Try again.'): string {
   return isApiError(error) ? error.message : fallback;
 }
+
+/**
+ * The sentence above a form after a failed save: when every field error the API named sits beside
+ * its field, a pointer to them (not the API's technical summary); otherwise the API's message.
+ */
+export function formAlertMessage(error: unknown, fieldNames: readonly string[]): string {
+  const fieldErrors = fieldErrorsOf(error);
+  const allPlaced =
+    fieldErrors.length > 0 &&
+    fieldErrors.every((e) => fieldNames.some((name) => e.path === name || e.path.startsWith(`${name}.`)));
+  return allPlaced ? 'Some fields need attention: see the messages beside them.' : errorMessage(error);
+}

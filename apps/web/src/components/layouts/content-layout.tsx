@@ -7,6 +7,7 @@ export function ContentLayout({
   area,
   description,
   actions,
+  width = 'default',
   children,
 }: {
   title: string;
@@ -14,12 +15,14 @@ export function ContentLayout({
   area?: string;
   description?: ReactNode;
   actions?: ReactNode;
+  /** 'wide' for pages built around a wide table (catalogue, audit log); reading pages keep the default. */
+  width?: 'default' | 'wide';
   children: ReactNode;
 }) {
   return (
     <>
       <Head title={title} />
-      <div className="mx-auto max-w-6xl px-6 py-8 md:px-10">
+      <div className={`mx-auto px-6 py-8 md:px-10 ${width === 'wide' ? 'max-w-[100rem]' : 'max-w-6xl'}`}>
         <div className="flex flex-col gap-4 border-b border-slate-200 pb-6 md:flex-row md:items-end md:justify-between">
           <div>
             {area ? (

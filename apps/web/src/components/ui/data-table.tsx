@@ -31,7 +31,7 @@ function HeaderCell<T>({ header }: { header: Header<T, unknown> }) {
     <th
       scope="col"
       aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}
-      className={`border-b border-slate-200 bg-slate-50 px-3 py-2 text-xs font-semibold tracking-wide whitespace-nowrap text-slate-600 uppercase ${
+      className={`border-b border-slate-200 bg-slate-50 px-3 py-2 text-xs font-semibold whitespace-nowrap text-slate-600 ${
         right ? 'text-right' : 'text-left'
       } ${meta?.className ?? ''}`}
     >
@@ -39,7 +39,7 @@ function HeaderCell<T>({ header }: { header: Header<T, unknown> }) {
         <button
           type="button"
           onClick={header.column.getToggleSortingHandler()}
-          className={`inline-flex items-center gap-1 rounded-sm uppercase hover:text-plumb-900 ${right ? 'flex-row-reverse' : ''}`}
+          className={`inline-flex items-center gap-1 rounded-sm hover:text-plumb-900 ${right ? 'flex-row-reverse' : ''}`}
         >
           {content}
           <SortIndicator direction={sorted} />

@@ -86,6 +86,9 @@ export function Dialog({
 /** The row of buttons at the bottom of a dialog's form: cancel on the left of the main action. */
 export function DialogActions({ children }: { children: ReactNode }) {
   return (
-    <div className="mt-6 flex flex-wrap justify-end gap-2 border-t border-slate-100 pt-4">{children}</div>
+    // Stays in view at the bottom of a long form, so the main action never scrolls away.
+    <div className="sticky -bottom-5 -mx-6 mt-6 flex flex-wrap justify-end gap-2 border-t border-slate-100 bg-white px-6 py-4">
+      {children}
+    </div>
   );
 }

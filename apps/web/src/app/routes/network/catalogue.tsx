@@ -15,6 +15,7 @@ export default function CatalogueRoute() {
     <ContentLayout
       title="Catalogue"
       area="Network set-up"
+      width="wide"
       description="The shared vocabulary every lab's procedures are built from. Entries are retired, never deleted, because data refers to them."
     >
       <div className="flex flex-col gap-6 md:flex-row">

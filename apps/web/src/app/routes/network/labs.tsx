@@ -1,5 +1,5 @@
-// Member labs: enrol, edit, deactivate or reactivate them; beside the list, the users of the chosen lab
-// (?lab=<id>) with their invitations.
+// Member labs: the list, and beside it the lab opened (?lab=<id>) with its actions (edit, deactivate,
+// reactivate) and its users and invitations. Enrolling a new lab starts from the page header.
 import { useState } from 'react';
 import { useSearchParams } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
@@ -11,7 +11,7 @@ import { PageLoading } from '../../../components/ui/page-loading.tsx';
 import { networkLabsKeys } from '../../../features/network-labs/api/network-labs-keys.ts';
 import { LabFormDialog, type LabFormState } from '../../../features/network-labs/components/lab-form-dialog.tsx';
 import { LabStateDialog, type LabStateRequest } from '../../../features/network-labs/components/lab-state-dialog.tsx';
-import { LabUsersPanel } from '../../../features/network-labs/components/lab-users-panel.tsx';
+import { LabPanel } from '../../../features/network-labs/components/lab-panel.tsx';
 import { LabsTable } from '../../../features/network-labs/components/labs-table.tsx';
 import { errorMessage } from '../../../lib/form-errors.ts';
 
@@ -27,6 +27,7 @@ export default function LabsRoute() {
     <ContentLayout
       title="Labs"
       area="Network set-up"
+      width="wide"
       description="Member labs of the network and their users. Other labs only ever see a lab's code; only you see which code belongs to which lab."
       actions={<Button onClick={() => setLabForm({ mode: 'enrol' })}>Enrol a lab</Button>}
     >
@@ -37,7 +38,7 @@ export default function LabsRoute() {
           {errorMessage(labs.error)}
         </Alert>
       ) : (
-        <div className="grid items-start gap-6 xl:grid-cols-[minmax(0,1fr)_minmax(0,1.15fr)]">
+        <div className="grid items-start gap-6 lg:grid-cols-[minmax(0,5fr)_minmax(0,7fr)]">
           <LabsTable
             labs={labs.data}
             actions={{
@@ -45,19 +46,22 @@ export default function LabsRoute() {
               onSelect: (lab) => {
                 setSearchParams({ lab: lab.id }, { replace: true });
                 // Take keyboard and screen-reader users to the users that just appeared.
-                requestAnimationFrame(() => document.getElementById('lab-users-title')?.focus());
+                requestAnimationFrame(() => document.getElementById('lab-panel-title')?.focus());
               },
-              onEdit: (lab) => setLabForm({ mode: 'edit', lab }),
-              onStateChange: (lab, action) => setStateChange({ lab, action }),
             }}
           />
-          <div className="xl:sticky xl:top-4">
+          <div className="lg:sticky lg:top-4">
             {selected ? (
-              <LabUsersPanel key={selected.id} lab={selected} />
+              <LabPanel
+                key={selected.id}
+                lab={selected}
+                onEdit={(lab) => setLabForm({ mode: 'edit', lab })}
+                onStateChange={(lab, action) => setStateChange({ lab, action })}
+              />
             ) : (
               <EmptyState
-                title="Choose a lab to see its users"
-                description="Select “Users” on a lab to list who works there, invite someone, change a role or withdraw an invitation."
+                title="Open a lab to manage it"
+                description="Its name, code and state can be changed there, and its users listed: invite someone, change a role or withdraw an invitation."
               />
             )}
           </div>

@@ -16,7 +16,7 @@ const areas = [
   {
     to: paths.network.cycles.getHref(),
     title: 'Cycles',
-    description: 'Open and close monthly cycles, set submission deadlines, publish reports.',
+    description: 'Create monthly periods, set submission deadlines, close and reopen them.',
   },
   {
     to: paths.network.peerGroups.getHref(),
@@ -32,6 +32,11 @@ const areas = [
     to: paths.network.labs.getHref(),
     title: 'Labs',
     description: 'Enrol member labs, assign their codes and invite their first users.',
+  },
+  {
+    to: paths.network.procedures.getHref(),
+    title: 'Network procedures',
+    description: 'Which labs run what on which instrument, and procedures that cannot be peered.',
   },
   {
     to: paths.network.auditLog.getHref(),

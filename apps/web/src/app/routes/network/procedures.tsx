@@ -23,6 +23,7 @@ export default function NetworkProceduresRoute() {
     <ContentLayout
       title="Network procedures"
       area="Network set-up"
+      width="wide"
       description="Which labs run which analyte on which instrument model, method and reagent. A procedure is compared at the narrowest tier with enough labs; those with no such tier cannot be peered."
     >
       <NetworkProcedures

@@ -66,7 +66,10 @@ const analyte = createColumnHelper<AnalyteItem>();
 const analyteColumns = [
   analyte.accessor('code', { header: 'Code', cell: (c) => <Code>{c.getValue()}</Code> }),
   analyte.accessor('name', { header: 'Name' }),
-  analyte.accessor('loinc', { header: 'LOINC', cell: (c) => orNone(c.getValue()) }),
+  analyte.accessor('loinc', {
+    header: 'LOINC',
+    cell: (c) => orNone(c.getValue() ? <span className="whitespace-nowrap">{c.getValue()}</span> : null),
+  }),
   analyte.accessor('unit', { header: 'Unit (UCUM)', cell: (c) => <span className="font-mono text-xs">{c.getValue()}</span> }),
   analyte.accessor('conventionalUnit', {
     header: 'Conventional unit',

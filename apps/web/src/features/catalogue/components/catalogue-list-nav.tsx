@@ -6,7 +6,7 @@ import { catalogueListLabels } from '../utils/list-labels.ts';
 /** The six catalogue lists as a side list; the current one carries the brass weight, as in the main navigation. */
 export function CatalogueListNav({ current }: { current: CatalogueList }) {
   return (
-    <nav aria-label="Catalogue lists" className="md:w-52 md:shrink-0">
+    <nav aria-label="Catalogue lists" className="md:w-44 md:shrink-0">
       <ul className="flex gap-1 overflow-x-auto md:flex-col md:gap-0.5">
         {catalogueLists.map((list) => {
           const active = list === current;

@@ -4,11 +4,13 @@ import { useFieldArray, useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
-import { controlLotCreateSchema, type ControlLotItem } from '@plumbline/contracts';
+import { controlLotCreateSchema, type ControlLotItem, type ControlMaterialItem } from '@plumbline/contracts';
 import { Button } from '../../../components/ui/button.tsx';
+import { PageLoading } from '../../../components/ui/page-loading.tsx';
 import { SelectField } from '../../../components/ui/select-field.tsx';
 import { TextField } from '../../../components/ui/text-field.tsx';
 import { TextareaField } from '../../../components/ui/textarea-field.tsx';
+import { errorMessage } from '../../../lib/form-errors.ts';
 import { catalogueKeys } from '../api/catalogue-keys.ts';
 import { textToNumberOrNull } from '../utils/form-values.ts';
 import { EntryFormActions, FormError, useEntrySubmit } from './entry-form-parts.tsx';
@@ -34,8 +36,31 @@ type FormValues = {
 
 const fieldNames = ['materialId', 'lotNumber', 'expiresOn', 'levels', 'reason'];
 
+/** The form needs the materials before it renders: a <select> only shows its value once the option exists. */
 export function ControlLotForm({ entry, onDone }: { entry: ControlLotItem | null; onDone: () => void }) {
   const materials = useQuery(catalogueKeys.list('control-materials', { state: 'active', sort: 'code', limit: 500 }));
+  if (materials.isPending) return <PageLoading />;
+  return (
+    <LotForm
+      entry={entry}
+      onDone={onDone}
+      materials={materials.data?.items ?? []}
+      materialsError={materials.isError ? errorMessage(materials.error) : null}
+    />
+  );
+}
+
+function LotForm({
+  entry,
+  onDone,
+  materials,
+  materialsError,
+}: {
+  entry: ControlLotItem | null;
+  onDone: () => void;
+  materials: ControlMaterialItem[];
+  materialsError: string | null;
+}) {
   const form = useForm<FormValues, unknown, z.output<typeof controlLotFormSchema>>({
     resolver: zodResolver(controlLotFormSchema as unknown as z.ZodType<z.output<typeof controlLotFormSchema>, FormValues>),
     defaultValues: {
@@ -61,7 +86,7 @@ export function ControlLotForm({ entry, onDone }: { entry: ControlLotItem | null
   });
 
   // A lot of a retired material still shows its material, though no new lot may use it.
-  const options = materials.data?.items ?? [];
+  const options = materials;
   const showCurrent = entry && !options.some((m) => m.id === entry.material.id);
   const levelsError = errors.levels?.message ?? errors.levels?.root?.message;
   const nextLevel = () => {
@@ -78,7 +103,7 @@ export function ControlLotForm({ entry, onDone }: { entry: ControlLotItem | null
           label="Control material"
           className="sm:col-span-2"
           error={errors.materialId?.message}
-          hint={materials.isError ? 'The list of control materials could not be loaded.' : undefined}
+          hint={materialsError ? `The control materials could not be loaded: ${materialsError}` : undefined}
           {...form.register('materialId')}
         >
           <option value="">Choose a material…</option>
@@ -102,32 +127,43 @@ export function ControlLotForm({ entry, onDone }: { entry: ControlLotItem | null
         <p className="mb-3 text-xs text-slate-600">
           Level numbers 1 to 9. A level that QC data already uses cannot be removed.
         </p>
+        <div aria-hidden="true" className="grid grid-cols-[5rem_1fr_5.5rem] gap-3 pb-1 text-xs font-medium text-slate-700">
+          <span>Level</span>
+          <span>Description, optional</span>
+        </div>
         <ul className="space-y-2">
-          {levels.fields.map((level, index) => (
-            <li key={level.id} className="grid grid-cols-[6rem_1fr_auto] items-start gap-3">
-              <TextField
-                label={`Level ${index + 1} number`}
-                inputMode="numeric"
-                error={errors.levels?.[index]?.level?.message}
-                {...form.register(`levels.${index}.level`)}
-              />
-              <TextField
-                label={`Level ${index + 1} description, optional`}
-                placeholder="e.g. normal, pathological"
-                error={errors.levels?.[index]?.description?.message}
-                {...form.register(`levels.${index}.description`)}
-              />
-              <Button
-                variant="ghost"
-                size="sm"
-                className="mt-7"
-                onClick={() => levels.remove(index)}
-                aria-label={`Remove level ${index + 1}`}
-              >
-                Remove
-              </Button>
-            </li>
-          ))}
+          {levels.fields.map((level, index) => {
+            const levelError = errors.levels?.[index]?.level?.message;
+            const descriptionError = errors.levels?.[index]?.description?.message;
+            return (
+              <li key={level.id}>
+                <div className="grid grid-cols-[5rem_1fr_5.5rem] items-center gap-3">
+                  <input
+                    aria-label={`Level ${index + 1}: number`}
+                    inputMode="numeric"
+                    aria-invalid={levelError ? true : undefined}
+                    className={`h-9 rounded-md border bg-white px-3 text-right text-[0.95rem] shadow-xs ${levelError ? 'border-alarm-700' : 'border-slate-300'}`}
+                    {...form.register(`levels.${index}.level`)}
+                  />
+                  <input
+                    aria-label={`Level ${index + 1}: description`}
+                    placeholder="e.g. normal, pathological"
+                    aria-invalid={descriptionError ? true : undefined}
+                    className={`h-9 rounded-md border bg-white px-3 text-[0.95rem] shadow-xs placeholder:text-slate-400 ${descriptionError ? 'border-alarm-700' : 'border-slate-300'}`}
+                    {...form.register(`levels.${index}.description`)}
+                  />
+                  <Button variant="ghost" size="sm" onClick={() => levels.remove(index)} aria-label={`Remove level ${index + 1}`}>
+                    Remove
+                  </Button>
+                </div>
+                {levelError || descriptionError ? (
+                  <p className="mt-1 text-sm font-medium text-alarm-700">
+                    Level {index + 1}: {levelError ?? descriptionError}
+                  </p>
+                ) : null}
+              </li>
+            );
+          })}
         </ul>
         {levelsError ? (
           <p id="lot-levels-error" className="mt-2 text-sm font-medium text-alarm-700">

@@ -6,7 +6,7 @@ import { Alert } from '../../../components/ui/alert.tsx';
 import { Button } from '../../../components/ui/button.tsx';
 import { DialogActions } from '../../../components/ui/dialog.tsx';
 import { showToast } from '../../../components/ui/toast.tsx';
-import { applyServerFieldErrors, errorMessage } from '../../../lib/form-errors.ts';
+import { applyServerFieldErrors, formAlertMessage } from '../../../lib/form-errors.ts';
 import { useSaveCatalogueEntry } from '../api/save-catalogue-entry.ts';
 import { catalogueListLabels } from '../utils/list-labels.ts';
 
@@ -63,6 +63,6 @@ export function useEntrySubmit<T extends FieldValues>(
         },
       },
     );
-  const message = save.error ? errorMessage(save.error) : null;
+  const message = save.error ? formAlertMessage(save.error, options.fieldNames) : null;
   return { submit, isPending: save.isPending, message };
 }

@@ -32,7 +32,7 @@ function usePeriodMutation<Input, Output>(mutationFn: (input: Input) => Promise<
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn,
-    // Every page that lists periods (participation, lab uploads) reads them through this key.
+    // The participation board reads its period afresh on every visit, so only the list needs this.
     onSuccess: () => queryClient.invalidateQueries({ queryKey: cyclesKeys.all }),
   });
 }

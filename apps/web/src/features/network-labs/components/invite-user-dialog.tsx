@@ -12,11 +12,12 @@ import { Dialog, DialogActions } from '../../../components/ui/dialog.tsx';
 import { SelectField } from '../../../components/ui/select-field.tsx';
 import { TextField } from '../../../components/ui/text-field.tsx';
 import { showToast } from '../../../components/ui/toast.tsx';
-import { applyServerFieldErrors, errorMessage } from '../../../lib/form-errors.ts';
+import { applyServerFieldErrors, formAlertMessage } from '../../../lib/form-errors.ts';
 import { formatDateTime } from '../../../utils/format.ts';
 import { useInviteLabUser } from '../api/lab-users.ts';
 
 type FormValues = z.input<typeof invitationCreateSchema>;
+const inviteFields = ['email', 'name', 'role'];
 
 export function InviteUserDialog({ lab, open, onClose }: { lab: LabListItem; open: boolean; onClose: () => void }) {
   return (
@@ -55,7 +56,7 @@ function InviteForm({
           showToast(`Invitation for ${invitation.user.email} created.`);
           onCreated(invitation);
         },
-        onError: (error) => applyServerFieldErrors(error, form.setError, ['email', 'name', 'role']),
+        onError: (error) => applyServerFieldErrors(error, form.setError, inviteFields),
       },
     ),
   );
@@ -64,7 +65,7 @@ function InviteForm({
       {invite.error ? (
         <div className="mb-5">
           <Alert tone="error" title="No invitation was created">
-            {errorMessage(invite.error)}
+            {formAlertMessage(invite.error, inviteFields)}
           </Alert>
         </div>
       ) : null}

@@ -13,7 +13,7 @@ import { SelectField } from '../../../components/ui/select-field.tsx';
 import { TextField } from '../../../components/ui/text-field.tsx';
 import { TextareaField } from '../../../components/ui/textarea-field.tsx';
 import { showToast } from '../../../components/ui/toast.tsx';
-import { applyServerFieldErrors, errorMessage } from '../../../lib/form-errors.ts';
+import { applyServerFieldErrors, errorMessage, formAlertMessage } from '../../../lib/form-errors.ts';
 import { networkLabsKeys, type LabSettings } from '../api/network-labs-keys.ts';
 import { useEditLab, useEnrolLab } from '../api/save-lab.ts';
 
@@ -101,7 +101,7 @@ function LabForm({ settings, onDone }: { settings: LabSettings | null; onDone: (
       {mutation.error ? (
         <div className="mb-5">
           <Alert tone="error" title="Not saved">
-            {errorMessage(mutation.error)}
+            {formAlertMessage(mutation.error, fieldNames)}
           </Alert>
         </div>
       ) : null}

@@ -1,5 +1,5 @@
 // The member labs, sortable and filterable in the browser (a network has tens of labs, not thousands).
-// Choosing a lab opens its users beside the table.
+// Opening a lab shows its settings and users beside the table.
 import { useMemo, useState } from 'react';
 import {
   createColumnHelper,
@@ -17,8 +17,6 @@ import { DataTable } from '../../../components/ui/data-table.tsx';
 export type LabRowActions = {
   selectedLabId: string | null;
   onSelect: (lab: LabListItem) => void;
-  onEdit: (lab: LabListItem) => void;
-  onStateChange: (lab: LabListItem, action: 'deactivate' | 'reactivate') => void;
 };
 
 const column = createColumnHelper<LabListItem>();
@@ -33,6 +31,7 @@ export function LabsTable({ labs, actions }: { labs: LabListItem[]; actions: Lab
     column.accessor('code', {
       header: 'Code',
       cell: (c) => <span className="font-semibold whitespace-nowrap text-plumb-900">{c.getValue()}</span>,
+      meta: { className: 'w-24' },
     }),
     column.accessor('name', { header: 'Name' }),
     column.accessor('active', {
@@ -47,40 +46,17 @@ export function LabsTable({ labs, actions }: { labs: LabListItem[]; actions: Lab
         const lab = c.row.original;
         const selected = actions.selectedLabId === lab.id;
         return (
-          <div className="flex justify-end gap-1">
-            <Button
-              variant="ghost"
-              size="xs"
-              aria-pressed={selected}
-              aria-label={`Users of ${lab.code}`}
-              className={selected ? 'bg-plumb-100' : ''}
-              onClick={() => actions.onSelect(lab)}
-            >
-              Users
-            </Button>
-            <Button variant="ghost" size="xs" aria-label={`Edit ${lab.code}`} onClick={() => actions.onEdit(lab)}>
-              Edit
-            </Button>
-            {lab.active ? (
-              <Button
-                variant="ghost"
-                size="xs"
-                aria-label={`Deactivate ${lab.code}`}
-                onClick={() => actions.onStateChange(lab, 'deactivate')}
-              >
-                Deactivate
-              </Button>
-            ) : (
-              <Button
-                variant="ghost"
-                size="xs"
-                aria-label={`Reactivate ${lab.code}`}
-                onClick={() => actions.onStateChange(lab, 'reactivate')}
-              >
-                Reactivate
-              </Button>
-            )}
-          </div>
+          <Button
+            variant="ghost"
+            size="xs"
+            aria-pressed={selected}
+            aria-label={`Open lab ${lab.code}`}
+            className={selected ? 'bg-plumb-100' : ''}
+            onClick={() => actions.onSelect(lab)}
+          >
+            Open
+            <span aria-hidden="true">&rarr;</span>
+          </Button>
         );
       },
     }),
@@ -120,10 +96,12 @@ export function LabsTable({ labs, actions }: { labs: LabListItem[]; actions: Lab
             className="h-9 w-56 rounded-md border border-slate-300 bg-white px-3 text-sm shadow-xs placeholder:text-slate-400 hover:border-slate-400"
           />
         </div>
-        <label className="flex h-9 items-center gap-2 text-sm text-slate-700">
-          <input type="checkbox" checked={showInactive} onChange={(event) => setShowInactive(event.target.checked)} />
-          Show inactive labs ({inactiveCount})
-        </label>
+        {inactiveCount > 0 ? (
+          <label className="flex h-9 items-center gap-2 text-sm text-slate-700">
+            <input type="checkbox" checked={showInactive} onChange={(event) => setShowInactive(event.target.checked)} />
+            Show inactive labs ({inactiveCount})
+          </label>
+        ) : null}
       </div>
       <DataTable
         table={table}

@@ -24,23 +24,27 @@ export type ProcedureFilterOptions = {
 /** The default of METHODS.md: a tier's figures are published from 3 labs on. */
 const DEFAULT_MIN_LABS = 3;
 
+/** A catalogue entry by its code; the name is a hover away (and read out to screen readers). */
 function Ref({ code, name }: { code: string; name: string }) {
   return (
-    <span className="block min-w-0">
-      <span className="font-medium text-slate-900">{code}</span>
-      <span className="block text-xs text-slate-600">{name}</span>
+    <span title={name} className="whitespace-nowrap">
+      {code}
+      <span className="sr-only"> ({name})</span>
     </span>
   );
 }
 
-function TierCount({ tier }: { tier: { labs: number; enough: boolean } }) {
+function TierCount({ tier, label }: { tier: { labs: number; enough: boolean }; label: string }) {
   return (
     <span
-      className={`inline-flex min-w-8 justify-end gap-1 ${tier.enough ? 'text-plumb-800' : 'text-slate-400'}`}
-      title={tier.enough ? 'Enough labs at this tier' : 'Too few labs at this tier'}
+      className={`inline-flex min-w-10 justify-end gap-1 ${tier.enough ? 'text-plumb-800' : 'text-slate-400'}`}
+      title={`${tier.labs} labs at the ${label}: ${tier.enough ? 'enough' : 'too few'}`}
     >
+      <span className="sr-only">{label}: </span>
       {tier.labs}
-      <span aria-hidden="true">{tier.enough ? '✓' : '·'}</span>
+      <span aria-hidden="true" className="w-2.5 text-left">
+        {tier.enough ? '✓' : '·'}
+      </span>
       <span className="sr-only">{tier.enough ? '(enough)' : '(too few)'}</span>
     </span>
   );
@@ -63,14 +67,25 @@ const columns = [
       <span className="block">
         <span className="font-semibold text-plumb-900">{c.getValue()}</span>
         {!c.row.original.lab.active ? <span className="ml-1 text-xs text-slate-500">(inactive)</span> : null}
-        <span className="block max-w-[12rem] truncate text-xs text-slate-600" title={c.row.original.lab.name}>
+        <span className="block max-w-[11rem] truncate text-xs text-slate-600" title={c.row.original.lab.name}>
           {c.row.original.lab.name}
         </span>
       </span>
     ),
   }),
   column.accessor('code', { header: 'Procedure', cell: (c) => <span className="whitespace-nowrap">{c.getValue()}</span> }),
-  column.accessor((p) => p.analyte.code, { id: 'analyte', header: 'Analyte', cell: (c) => <Ref {...c.row.original.analyte} /> }),
+  column.accessor((p) => p.analyte.code, {
+    id: 'analyte',
+    header: 'Analyte',
+    cell: (c) => (
+      <span className="block">
+        <span className="font-medium text-slate-900">{c.row.original.analyte.code}</span>
+        <span className="block max-w-[9rem] truncate text-xs text-slate-600" title={c.row.original.analyte.name}>
+          {c.row.original.analyte.name}
+        </span>
+      </span>
+    ),
+  }),
   column.accessor((p) => p.instrumentModel.code, {
     id: 'instrumentModel',
     header: 'Instrument model',
@@ -79,23 +94,26 @@ const columns = [
   column.accessor((p) => p.method.code, { id: 'method', header: 'Method', cell: (c) => <Ref {...c.row.original.method} /> }),
   column.accessor((p) => p.reagent.code, { id: 'reagent', header: 'Reagent', cell: (c) => <Ref {...c.row.original.reagent} /> }),
   column.accessor('unit', { header: 'Unit', cell: (c) => <span className="font-mono text-xs">{c.getValue()}</span> }),
-  column.accessor((p) => p.peerable.instrument.labs, {
-    id: 'instrumentLabs',
-    header: () => <abbr title="Labs sharing analyte, instrument model, method and reagent">Instr.</abbr>,
+  column.display({
+    id: 'tiers',
+    header: () => (
+      <span className="grid grid-cols-3 gap-x-2 text-right">
+        <abbr title="Labs sharing analyte, instrument model, method and reagent">Instr.</abbr>
+        <abbr title="Labs sharing analyte and method">Method</abbr>
+        <abbr title="Labs measuring the analyte">Analyte</abbr>
+      </span>
+    ),
     meta: { align: 'right' },
-    cell: (c) => <TierCount tier={c.row.original.peerable.instrument} />,
-  }),
-  column.accessor((p) => p.peerable.method.labs, {
-    id: 'methodLabs',
-    header: () => <abbr title="Labs sharing analyte and method">Method</abbr>,
-    meta: { align: 'right' },
-    cell: (c) => <TierCount tier={c.row.original.peerable.method} />,
-  }),
-  column.accessor((p) => p.peerable.analyte.labs, {
-    id: 'analyteLabs',
-    header: () => <abbr title="Labs measuring the analyte">Analyte</abbr>,
-    meta: { align: 'right' },
-    cell: (c) => <TierCount tier={c.row.original.peerable.analyte} />,
+    cell: (c) => {
+      const { peerable } = c.row.original;
+      return (
+        <span className="grid grid-cols-3 gap-x-2">
+          <TierCount tier={peerable.instrument} label="instrument tier" />
+          <TierCount tier={peerable.method} label="method tier" />
+          <TierCount tier={peerable.analyte} label="analyte tier" />
+        </span>
+      );
+    },
   }),
   column.display({ id: 'status', header: 'Peered at', cell: (c) => <PeerStatus procedure={c.row.original} /> }),
 ];
@@ -173,6 +191,8 @@ export function NetworkProcedures({ options }: { options: ProcedureFilterOptions
   const table = useReactTable({
     data: page.data?.items ?? [],
     columns,
+    // The API lists procedures by lab and analyte and takes no sort; sorting one page would mislead.
+    enableSorting: false,
     getCoreRowModel: getCoreRowModel(),
     getRowId: (p) => p.id,
   });

@@ -1,5 +1,6 @@
-// The users of one lab: who they are, their role, whether they have accepted their invitation; invite
-// someone, change a role, deactivate or reactivate an account, withdraw an invitation.
+// One lab: its code, name and state with their actions (edit, deactivate, reactivate), and its users:
+// who they are, their role, whether they have accepted their invitation; invite someone, change a
+// role, deactivate or reactivate an account, withdraw an invitation.
 import { useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
@@ -75,7 +76,15 @@ function changesFor(user: LabUser): UserChange[] {
 
 const column = createColumnHelper<LabUser>();
 
-export function LabUsersPanel({ lab }: { lab: LabListItem }) {
+export function LabPanel({
+  lab,
+  onEdit,
+  onStateChange,
+}: {
+  lab: LabListItem;
+  onEdit: (lab: LabListItem) => void;
+  onStateChange: (lab: LabListItem, action: 'deactivate' | 'reactivate') => void;
+}) {
   const users = useQuery(networkLabsKeys.users(lab.id));
   const update = useUpdateLabUser();
   const [inviting, setInviting] = useState(false);
@@ -88,26 +97,33 @@ export function LabUsersPanel({ lab }: { lab: LabListItem }) {
       cell: (c) => (
         <div>
           <p className="font-medium text-slate-900">{c.getValue()}</p>
-          <p className="text-xs break-all text-slate-600">{c.row.original.email}</p>
+          <p className="text-xs break-words text-slate-600">{c.row.original.email}</p>
         </div>
       ),
     }),
-    column.accessor('role', { header: 'Role', cell: (c) => (c.getValue() === 'supervisor' ? 'Supervisor' : 'Analyst') }),
-    column.accessor((user) => (user.invitationPending ? 1 : user.active ? 0 : 2), {
-      id: 'status',
-      header: 'Status',
-      cell: (c) => statusOf(c.row.original),
+    column.accessor('role', {
+      header: 'Role',
+      cell: (c) => (
+        <span className="flex flex-col items-start gap-1">
+          {c.getValue() === 'supervisor' ? 'Supervisor' : 'Analyst'}
+          {statusOf(c.row.original)}
+        </span>
+      ),
     }),
     column.accessor('createdAt', {
       header: 'Added',
-      cell: (c) => <time dateTime={c.getValue()}>{formatDate(c.getValue())}</time>,
+      cell: (c) => (
+        <time dateTime={c.getValue()} className="whitespace-nowrap">
+          {formatDate(c.getValue())}
+        </time>
+      ),
     }),
     column.display({
       id: 'actions',
       header: () => <span className="sr-only">Actions</span>,
       meta: { align: 'right' },
       cell: (c) => (
-        <div className="flex flex-col items-end gap-0.5">
+        <div className="flex flex-col items-end gap-0.5 whitespace-nowrap">
           {changesFor(c.row.original).map((option) => (
             <Button key={option.confirmLabel} variant="ghost" size="xs" onClick={() => setChange(option)}>
               {option.confirmLabel}
@@ -133,22 +149,43 @@ export function LabUsersPanel({ lab }: { lab: LabListItem }) {
   };
 
   return (
-    <section aria-labelledby="lab-users-title" className="rounded-lg border border-slate-200 bg-white p-5 shadow-xs">
-      <div className="flex flex-wrap items-start justify-between gap-3">
-        <div>
-          <p className="text-xs font-semibold tracking-[0.12em] text-brass-700 uppercase">Lab {lab.code}</p>
-          <h2 id="lab-users-title" tabIndex={-1} className="mt-0.5 text-lg font-semibold text-plumb-950">
-            Users of {lab.name}
+    <section aria-labelledby="lab-panel-title" className="rounded-lg border border-slate-200 bg-white shadow-xs">
+      <div className="flex flex-wrap items-start justify-between gap-3 border-b border-slate-200 px-5 py-4">
+        <div className="min-w-0">
+          <div className="flex items-center gap-2">
+            <p className="text-xs font-semibold tracking-[0.12em] text-brass-700 uppercase">Lab {lab.code}</p>
+            {lab.active ? <Badge tone="plumb">Active</Badge> : <Badge tone="muted">Inactive</Badge>}
+          </div>
+          <h2 id="lab-panel-title" tabIndex={-1} className="mt-1 text-lg font-semibold text-plumb-950">
+            {lab.name}
           </h2>
         </div>
-        <Button onClick={() => setInviting(true)} disabled={!lab.active}>
-          Invite a user
-        </Button>
+        <div className="flex gap-2">
+          <Button variant="secondary" size="sm" onClick={() => onEdit(lab)} aria-label={`Edit ${lab.code}`}>
+            Edit
+          </Button>
+          {lab.active ? (
+            <Button variant="secondary" size="sm" onClick={() => onStateChange(lab, 'deactivate')} aria-label={`Deactivate ${lab.code}`}>
+              Deactivate
+            </Button>
+          ) : (
+            <Button variant="secondary" size="sm" onClick={() => onStateChange(lab, 'reactivate')} aria-label={`Reactivate ${lab.code}`}>
+              Reactivate
+            </Button>
+          )}
+        </div>
       </div>
-      {!lab.active ? (
-        <p className="mt-2 text-sm text-slate-600">This lab is deactivated; reactivate it before inviting anyone.</p>
-      ) : null}
-      <div className="mt-4">
+      <div className="px-5 py-4">
+        <div className="flex flex-wrap items-center justify-between gap-3">
+          <h3 className="text-sm font-semibold text-slate-900">Users</h3>
+          <Button size="sm" onClick={() => setInviting(true)} disabled={!lab.active}>
+            Invite a user
+          </Button>
+        </div>
+        {!lab.active ? (
+          <p className="mt-1 text-sm text-slate-600">This lab is deactivated; reactivate it before inviting anyone.</p>
+        ) : null}
+        <div className="mt-3">
         {users.isError ? (
           <Alert tone="error" title="The users could not be loaded">
             {errorMessage(users.error)}
@@ -161,6 +198,7 @@ export function LabUsersPanel({ lab }: { lab: LabListItem }) {
             rowClassName={(user) => (user.active || user.invitationPending ? '' : 'text-slate-500')}
           />
         )}
+        </div>
       </div>
       <InviteUserDialog lab={lab} open={inviting} onClose={() => setInviting(false)} />
       <ConfirmDialog
