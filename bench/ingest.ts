@@ -187,6 +187,11 @@ async function main() {
       const form = new FormData();
       form.set('kind', 'qc-values');
       form.set('file', new Blob([labFile(l, lot.lotNumber, true)], { type: 'text/csv' }), `lab-${l + 1}.csv`);
+      if (process.env.BENCH_DEBUG) {
+        log(`upload ${l} starting`);
+        const h = await fetch(`${baseUrl}/api/health`);
+        log(`health ${h.status} ${await h.text()}`);
+      }
       const res = await fetch(`${baseUrl}/api/uploads`, { method: 'POST', headers: { Authorization: `Bearer ${tokens[l].token}` }, body: form });
       if (res.status !== 202) throw new Error(`upload ${l} answered ${res.status}: ${await res.text()}`);
       ids.push(((await res.json()) as { id: string }).id);

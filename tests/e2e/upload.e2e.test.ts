@@ -7,7 +7,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
-import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { randomBytes } from 'node:crypto';
@@ -67,7 +67,13 @@ async function startUploadStack() {
   });
   const redis = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
   const ingestQueue = createIngestQueue(redis, queuePrefix);
-  const app = createApp({ env, db: scratch.db, redis, storage: new LocalFileStorage(storageDir), ingestQueue });
+  const app = createApp({
+    env,
+    db: scratch.db,
+    redis,
+    storage: new LocalFileStorage(storageDir),
+    ingestQueue,
+  });
   const server: Server = await new Promise((resolve) => {
     const s = app.listen(0, '127.0.0.1', () => resolve(s));
   });
@@ -151,7 +157,9 @@ describe.skipIf(!chromiumAvailable())('uploading a month of control data through
       await page.getByRole('button', { name: 'Upload and check the file' }).click();
 
       // The worker rejects line 5 and stores nothing until the analyst decides.
-      await page.getByText('1 row of 4 rejected: nothing is stored until you decide').waitFor({ timeout: 30_000 });
+      await page
+        .getByText('1 row of 4 rejected: nothing is stored until you decide')
+        .waitFor({ timeout: 30_000 });
       const errors = page.getByRole('table', { name: /Rejected rows/ });
       const errorRows = errors.getByRole('row');
       expect(await errorRows.count()).toBe(2);
@@ -162,6 +170,16 @@ describe.skipIf(!chromiumAvailable())('uploading a month of control data through
       expect(cells[3]).toMatch(/greater than 0/);
       await snap(page, 'upload-3-needs-review');
 
+      // The list downloads as a CSV file made in the browser.
+      const [download] = await Promise.all([
+        page.waitForEvent('download'),
+        page.getByRole('button', { name: 'Download the list (CSV)' }).click(),
+      ]);
+      expect(download.suggestedFilename()).toBe('pl003-december-rejected-rows.csv');
+      const csv = readFileSync(await download.path(), 'utf8').split('\r\n');
+      expect(csv[0]).toBe('line,column,code,message');
+      expect(csv[1]).toMatch(/^5,SD,sd_not_positive,.*greater than 0/);
+
       await page.getByRole('button', { name: 'Discard this upload' }).click();
       await page.getByText('Nothing from this file was stored.').waitFor();
       await report.getByText(/No results of your lab are stored for December 2026 yet/).waitFor();
@@ -170,7 +188,11 @@ describe.skipIf(!chromiumAvailable())('uploading a month of control data through
       await page.getByRole('button', { name: 'Send another file' }).click();
       await page
         .getByLabel('Choose a file')
-        .setInputFiles({ name: 'pl003-december-fixed.csv', mimeType: 'text/csv', buffer: Buffer.from(fixedFile) });
+        .setInputFiles({
+          name: 'pl003-december-fixed.csv',
+          mimeType: 'text/csv',
+          buffer: Buffer.from(fixedFile),
+        });
       await page.getByRole('heading', { name: 'Match the columns of pl003-december-fixed.csv' }).waitFor();
       expect(await page.getByLabel('procedure', { exact: true }).inputValue()).toBe('Assay code');
       await page.getByText(/saved column choices are filled in/).waitFor();

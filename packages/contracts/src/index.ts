@@ -11,3 +11,5 @@ export * from './jobs.ts';
 export * from './catalogue.ts';
 export * from './peer-report.ts';
 export * from './lab-tokens.ts';
+export * from './peer-groups.ts';
+export * from './publishing.ts';

@@ -3,8 +3,11 @@
  * accounts. Applies no migrations: run `npm run db:migrate` first.
  */
 import { fileURLToPath } from 'node:url';
+import { sql } from 'drizzle-orm';
 import { createDb } from '../client.ts';
 import { DEFAULT_DEMO_PASSWORD, isDatabaseEmpty, seedDemoNetwork } from './index.ts';
+import { recomputeAllPeerStatistics } from '../queries/peer-statistics.ts';
+import { publishPeriodsWithoutSnapshot } from '../queries/publishing.ts';
 import { formatDemoAccountLines } from './accounts.ts';
 
 function formatDemoAccounts(): string {
@@ -14,6 +17,25 @@ function formatDemoAccounts(): string {
     `Demo accounts (password: ${password}):`,
     ...formatDemoAccountLines().map((line) => `  ${line}`),
   ].join('\n');
+}
+
+/**
+ * The seed marks past months published without snapshots: compute the peer statistics and freeze a
+ * first version for each such month. Runs again only when a published month still has no snapshot
+ * (e.g. a database seeded before snapshots existed), so a restart changes nothing.
+ */
+async function publishSeededPeriods(db: ReturnType<typeof createDb>['db'], justSeeded: boolean): Promise<void> {
+  const pending = await db.execute<{ count: number }>(
+    sql`select count(*)::int as count from periods p
+        where p.state = 'published' and not exists (select 1 from publications x where x.period = p.period)`,
+  );
+  if (!justSeeded && pending.rows[0].count === 0) return;
+  const targets = await recomputeAllPeerStatistics(db);
+  const published = await publishPeriodsWithoutSnapshot(db, { actorLabel: 'demo seed' });
+  console.log(
+    `Peer statistics computed for ${targets} lot, analyte, level and period combinations; ` +
+      `snapshots published for ${published.length ? published.join(', ') : 'no period'}.`,
+  );
 }
 
 async function main(): Promise<number> {
@@ -40,6 +62,7 @@ async function main(): Promise<number> {
           `${summary.qcSummaries} QC summaries, ${summary.qcValues} daily QC values, ${summary.users} accounts (${seconds} s).`,
       );
     }
+    await publishSeededPeriods(db, empty);
     console.log(formatDemoAccounts());
     return 0;
   } finally {

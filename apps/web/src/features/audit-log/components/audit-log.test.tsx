@@ -67,7 +67,12 @@ describe('audit log', () => {
 
     await screen.findByRole('table', { name: /Audit events/ });
     await waitFor(() => expect(api.requests.some((r) => r.path === '/api/audit-events')).toBe(true));
-    expect(lastEventsQuery(api.requests)).toEqual({ labId: lab.id, from: '2026-10-01', limit: '50', offset: '50' });
+    expect(lastEventsQuery(api.requests)).toEqual({
+      labId: lab.id,
+      from: '2026-10-01',
+      limit: '50',
+      offset: '50',
+    });
   });
 
   it('when the CSV is exported, then the file is fetched with the token and the same filters and saved', async () => {
@@ -75,7 +80,9 @@ describe('audit log', () => {
     const createObjectURL = vi.spyOn(URL, 'createObjectURL').mockReturnValue('blob:audit');
     vi.spyOn(URL, 'revokeObjectURL').mockImplementation(() => {});
     const click = vi.spyOn(HTMLAnchorElement.prototype, 'click').mockImplementation(() => {});
-    const { user } = renderApp(`/network/audit-log?lab=${lab.id}&kind=lab.update`, { signedInAs: 'coordinator' });
+    const { user } = renderApp(`/network/audit-log?lab=${lab.id}&kind=lab.update`, {
+      signedInAs: 'coordinator',
+    });
 
     await user.click(await screen.findByRole('button', { name: 'Export CSV' }));
 

@@ -41,8 +41,8 @@ const knownKinds = [
   'upload.cancelled',
   'qc-data.replaced',
   'column-mapping.saved',
-  ...['analyte', 'method', 'instrument-model', 'reagent', 'control-material', 'control-lot'].flatMap((entity) =>
-    ['create', 'update', 'retire', 'restore'].map((verb) => `catalogue.${entity}.${verb}`),
+  ...['analyte', 'method', 'instrument-model', 'reagent', 'control-material', 'control-lot'].flatMap(
+    (entity) => ['create', 'update', 'retire', 'restore'].map((verb) => `catalogue.${entity}.${verb}`),
   ),
 ];
 
@@ -126,7 +126,10 @@ export function AuditLog({
   const actorOptions = [...actors];
   if (filters.actorId && !actorOptions.some((a) => a.id === filters.actorId)) {
     const actor = page.data?.items.find((e) => e.actor?.id === filters.actorId)?.actor;
-    actorOptions.push({ id: filters.actorId, label: actor ? `${actor.name} (${actor.email})` : 'The chosen person' });
+    actorOptions.push({
+      id: filters.actorId,
+      label: actor ? `${actor.name} (${actor.email})` : 'The chosen person',
+    });
   }
 
   const columns = [
@@ -138,12 +141,20 @@ export function AuditLog({
         </time>
       ),
     }),
-    column.display({ id: 'who', header: 'Who', cell: (c) => <Who event={c.row.original} onFilter={(actorId) => setFilter({ actorId })} /> }),
+    column.display({
+      id: 'who',
+      header: 'Who',
+      cell: (c) => <Who event={c.row.original} onFilter={(actorId) => setFilter({ actorId })} />,
+    }),
     column.accessor((e) => e.lab?.code ?? '', {
       id: 'lab',
       header: 'Lab',
       cell: (c) =>
-        c.getValue() ? <span className="font-medium whitespace-nowrap">{c.getValue()}</span> : <span className="text-slate-400">—</span>,
+        c.getValue() ? (
+          <span className="font-medium whitespace-nowrap">{c.getValue()}</span>
+        ) : (
+          <span className="text-slate-400">—</span>
+        ),
     }),
     column.accessor('kind', {
       header: 'What',
@@ -153,7 +164,9 @@ export function AuditLog({
           {c.row.original.entity ? (
             <span className="block text-xs text-slate-500">
               {c.row.original.entity}
-              {c.row.original.entityId && c.row.original.entity === 'period' ? ` ${c.row.original.entityId}` : ''}
+              {c.row.original.entityId && c.row.original.entity === 'period'
+                ? ` ${c.row.original.entityId}`
+                : ''}
             </span>
           ) : null}
         </span>
@@ -263,8 +276,8 @@ export function AuditLog({
           />
         </div>
         <p id="audit-actor-hint" className="w-full text-xs text-slate-500">
-          Choose a lab to pick one of its users; select a name in the log to see only what that person did. Dates are
-          days in UTC.
+          Choose a lab to pick one of its users; select a name in the log to see only what that person did.
+          Dates are days in UTC.
         </p>
         {rangeReversed ? (
           <p id="audit-range-error" role="alert" className="w-full text-sm font-medium text-alarm-700">
@@ -276,7 +289,9 @@ export function AuditLog({
       <div className="mb-2 flex flex-wrap items-center justify-between gap-3">
         <p className="text-sm text-slate-700" aria-live="polite">
           {page.data
-            ? `${formatCount(page.data.total)} ${page.data.total === 1 ? 'event' : 'events'}${anyFilter ? ' match the filters' : ''}, newest first`
+            ? `${formatCount(page.data.total)} ${page.data.total === 1 ? 'event' : 'events'}${
+                anyFilter ? (page.data.total === 1 ? ' matches the filters' : ' match the filters') : ''
+              }, newest first`
             : ''}
         </p>
         <div className="flex gap-2">
@@ -317,7 +332,13 @@ export function AuditLog({
           <DataTable
             table={table}
             caption="Audit events, newest first"
-            emptyMessage={page.isPending ? 'Loading…' : anyFilter ? 'No event matches these filters.' : 'Nothing has been recorded yet.'}
+            emptyMessage={
+              page.isPending
+                ? 'Loading…'
+                : anyFilter
+                  ? 'No event matches these filters.'
+                  : 'Nothing has been recorded yet.'
+            }
             isFetching={page.isPlaceholderData}
           />
           <Pagination

@@ -5,7 +5,10 @@ describe('audit details summary', () => {
   it('when an edit recorded field changes and a reason, then each change reads "from → to" and the reason comes last', () => {
     expect(
       describeDetails({
-        changes: { name: { from: 'North site', to: 'North and East sites' }, active: { from: true, to: false } },
+        changes: {
+          name: { from: 'North site', to: 'North and East sites' },
+          active: { from: true, to: false },
+        },
         reason: 'sites merged',
       }),
     ).toEqual(['name: North site → North and East sites', 'active: true → false', 'reason: sites merged']);
@@ -19,13 +22,14 @@ describe('audit details summary', () => {
   });
 
   it('when a value was cleared, then it shows as a dash rather than "null"', () => {
-    expect(describeDetails({ changes: { loinc: { from: '2345-7', to: null } } })).toEqual(['loinc: 2345-7 → —']);
+    expect(describeDetails({ changes: { loinc: { from: '2345-7', to: null } } })).toEqual([
+      'loinc: 2345-7 → —',
+    ]);
   });
 
   it('when the details are plain values, then they are listed and nested objects are left to the full view', () => {
-    expect(describeDetails({ email: 'new@lab.example', role: 'analyst', values: { code: 'X' }, reason: null })).toEqual([
-      'email: new@lab.example',
-      'role: analyst',
-    ]);
+    expect(
+      describeDetails({ email: 'new@lab.example', role: 'analyst', values: { code: 'X' }, reason: null }),
+    ).toEqual(['email: new@lab.example', 'role: analyst']);
   });
 });

@@ -18,7 +18,8 @@ export function describeDetails(details: Record<string, unknown>): string[] {
   const parts: string[] = [];
   const { changes, reason, from, to, ...rest } = details;
   // A state change recorded as { from, to } reads as one transition.
-  if (from !== undefined && to !== undefined && !isRecord(from) && !isRecord(to)) parts.push(`${show(from)} → ${show(to)}`);
+  if (from !== undefined && to !== undefined && !isRecord(from) && !isRecord(to))
+    parts.push(`${show(from)} → ${show(to)}`);
   else Object.assign(rest, from !== undefined ? { from } : {}, to !== undefined ? { to } : {});
   if (isRecord(changes)) {
     for (const [field, change] of Object.entries(changes)) {

@@ -27,7 +27,9 @@ export type CatalogueItemOf<L extends CatalogueList> = z.infer<(typeof catalogue
 export type CatalogueItem = CatalogueItemOf<CatalogueList>;
 export type CataloguePageOf<L extends CatalogueList> = { total: number; items: CatalogueItemOf<L>[] };
 
-export type CatalogueListParams = Partial<Pick<CatalogueListQuery, 'q' | 'sort' | 'order' | 'state' | 'limit' | 'offset'>>;
+export type CatalogueListParams = Partial<
+  Pick<CatalogueListQuery, 'q' | 'sort' | 'order' | 'state' | 'limit' | 'offset'>
+>;
 
 export const CATALOGUE_PAGE_SIZE = 50;
 

@@ -8,7 +8,10 @@ import { catalogueKeys } from './catalogue-keys.ts';
 
 export type ImportCatalogueInput = { file: File; dryRun: boolean };
 
-export async function importCatalogue(list: CatalogueList, { file, dryRun }: ImportCatalogueInput): Promise<ImportResult> {
+export async function importCatalogue(
+  list: CatalogueList,
+  { file, dryRun }: ImportCatalogueInput,
+): Promise<ImportResult> {
   const form = new FormData();
   form.append('file', file, file.name);
   try {

@@ -52,7 +52,9 @@ function defaultsOf(entry: AnalyteItem | null): FormValues {
 
 export function AnalyteForm({ entry, onDone }: { entry: AnalyteItem | null; onDone: () => void }) {
   const form = useForm<FormValues, unknown, z.output<typeof analyteFormSchema>>({
-    resolver: zodResolver(analyteFormSchema as unknown as z.ZodType<z.output<typeof analyteFormSchema>, FormValues>),
+    resolver: zodResolver(
+      analyteFormSchema as unknown as z.ZodType<z.output<typeof analyteFormSchema>, FormValues>,
+    ),
     defaultValues: defaultsOf(entry),
   });
   const { errors } = form.formState;
@@ -76,7 +78,12 @@ export function AnalyteForm({ entry, onDone }: { entry: AnalyteItem | null; onDo
           spellCheck={false}
           {...field('loinc')}
         />
-        <TextField label="Display decimals" inputMode="numeric" hint="0 to 6; 2 when left empty." {...field('decimals')} />
+        <TextField
+          label="Display decimals"
+          inputMode="numeric"
+          hint="0 to 6; 2 when left empty."
+          {...field('decimals')}
+        />
         <TextField
           label="Unit (UCUM)"
           hint="Values are stored in this unit; it cannot change once procedures use the analyte."

@@ -47,7 +47,12 @@ describe('catalogue page', () => {
 
     // The first page of in-use entries, sorted by code.
     const request = api.requests.find((r) => r.path === '/api/catalogue/analytes');
-    expect(Object.fromEntries(request!.query)).toMatchObject({ state: 'active', sort: 'code', order: 'asc', offset: '0' });
+    expect(Object.fromEntries(request!.query)).toMatchObject({
+      state: 'active',
+      sort: 'code',
+      order: 'asc',
+      offset: '0',
+    });
   });
 
   it('when a column header is clicked, then the API is asked for that sort', async () => {
@@ -62,7 +67,9 @@ describe('catalogue page', () => {
     await user.click(within(table).getByRole('button', { name: /Expires/ }));
 
     await waitFor(() =>
-      expect(api.requests.some((r) => r.query.get('sort') === 'expiresOn' && r.query.get('order') === 'asc')).toBe(true),
+      expect(
+        api.requests.some((r) => r.query.get('sort') === 'expiresOn' && r.query.get('order') === 'asc'),
+      ).toBe(true),
     );
   });
 
@@ -96,11 +103,20 @@ describe('catalogue page', () => {
     // The name field was accepted and is not marked.
     expect(within(dialog).getByLabelText('Name').getAttribute('aria-invalid')).toBeNull();
     const sent = api.requests.find((r) => r.method === 'POST');
-    expect(sent?.body).toMatchObject({ code: 'K', name: 'Potassium', unit: 'mmol/Lx', decimals: 2, loinc: null });
+    expect(sent?.body).toMatchObject({
+      code: 'K',
+      name: 'Potassium',
+      unit: 'mmol/Lx',
+      decimals: 2,
+      loinc: null,
+    });
   });
 
   it('when a LOINC code has a wrong check digit, then the form says so and nothing is sent', async () => {
-    const api = mockApi({ ...me, 'GET /api/catalogue/analytes': { status: 200, body: { total: 0, items: [] } } });
+    const api = mockApi({
+      ...me,
+      'GET /api/catalogue/analytes': { status: 200, body: { total: 0, items: [] } },
+    });
     const { user } = renderApp('/network/catalogue', { signedInAs: 'coordinator' });
 
     await user.click(await screen.findByRole('button', { name: 'New analyte' }));
@@ -128,9 +144,13 @@ describe('catalogue CSV import', () => {
 
     await user.click(await screen.findByRole('button', { name: 'Import CSV' }));
     const dialog = await screen.findByRole('dialog', { name: 'Import methods from CSV' });
-    const file = new File(['code,name\nENZ,Enzymatic\n,Nameless\nISE,Ion-selective electrode\n'], 'methods.csv', {
-      type: 'text/csv',
-    });
+    const file = new File(
+      ['code,name\nENZ,Enzymatic\n,Nameless\nISE,Ion-selective electrode\n'],
+      'methods.csv',
+      {
+        type: 'text/csv',
+      },
+    );
     await user.upload(within(dialog).getByLabelText(/CSV file/), file);
     await user.click(within(dialog).getByRole('button', { name: 'Check the file' }));
 
@@ -158,7 +178,9 @@ describe('catalogue CSV import', () => {
       'GET /api/catalogue/methods': { status: 200, body: { total: 0, items: [] } },
       'POST /api/catalogue/methods/import': () => {
         calls += 1;
-        const result = buildImportResult([{ row: 2, action: 'create', data: { code: 'ENZ', name: 'Enzymatic' } }]);
+        const result = buildImportResult([
+          { row: 2, action: 'create', data: { code: 'ENZ', name: 'Enzymatic' } },
+        ]);
         return { status: 200, body: { ...result, applied: calls > 1 } };
       },
     });
@@ -166,7 +188,10 @@ describe('catalogue CSV import', () => {
 
     await user.click(await screen.findByRole('button', { name: 'Import CSV' }));
     const dialog = await screen.findByRole('dialog', { name: 'Import methods from CSV' });
-    await user.upload(within(dialog).getByLabelText(/CSV file/), new File(['code,name\nENZ,Enzymatic\n'], 'm.csv'));
+    await user.upload(
+      within(dialog).getByLabelText(/CSV file/),
+      new File(['code,name\nENZ,Enzymatic\n'], 'm.csv'),
+    );
     await user.click(within(dialog).getByRole('button', { name: 'Check the file' }));
     const apply = await within(dialog).findByRole('button', { name: 'Apply import' });
     expect((apply as HTMLButtonElement).disabled).toBe(false);

@@ -95,7 +95,13 @@ export function CatalogueBrowser({ list }: { list: CatalogueList }) {
               setSearch(event.target.value);
               setOffset(0);
             }}
-            placeholder={list === 'control-lots' ? 'Lot number or material' : list === 'analytes' ? 'Code, name or LOINC' : 'Code or name'}
+            placeholder={
+              list === 'control-lots'
+                ? 'Lot number or material'
+                : list === 'analytes'
+                  ? 'Code, name or LOINC'
+                  : 'Code or name'
+            }
             className="h-9 w-64 rounded-md border border-slate-300 bg-white px-3 text-sm shadow-xs placeholder:text-slate-400 hover:border-slate-400"
           />
         </div>
@@ -118,7 +124,9 @@ export function CatalogueBrowser({ list }: { list: CatalogueList }) {
           </select>
         </div>
         <p className="ml-auto text-sm text-slate-600" aria-live="polite">
-          {page.data ? `${page.data.total} ${page.data.total === 1 ? labels.singular : labels.title.toLowerCase()}` : ''}
+          {page.data
+            ? `${page.data.total} ${page.data.total === 1 ? labels.singular : labels.title.toLowerCase()}`
+            : ''}
         </p>
       </div>
 

@@ -31,7 +31,8 @@ function Code({ children }: { children: ReactNode }) {
 
 function StateBadge({ item }: { item: CatalogueItem }) {
   if (item.retired) {
-    const since = 'retiredAt' in item && item.retiredAt ? `Retired on ${formatDate(item.retiredAt)}` : undefined;
+    const since =
+      'retiredAt' in item && item.retiredAt ? `Retired on ${formatDate(item.retiredAt)}` : undefined;
     return (
       <span title={since}>
         <Badge tone="muted">Retired</Badge>
@@ -50,11 +51,21 @@ function RowActions({ item, actions }: { item: CatalogueItem; actions: Catalogue
         Edit
       </Button>
       {item.retired ? (
-        <Button variant="ghost" size="xs" onClick={() => actions.onStateChange(item, 'restore')} aria-label={`Restore ${name}`}>
+        <Button
+          variant="ghost"
+          size="xs"
+          onClick={() => actions.onStateChange(item, 'restore')}
+          aria-label={`Restore ${name}`}
+        >
           Restore
         </Button>
       ) : (
-        <Button variant="ghost" size="xs" onClick={() => actions.onStateChange(item, 'retire')} aria-label={`Retire ${name}`}>
+        <Button
+          variant="ghost"
+          size="xs"
+          onClick={() => actions.onStateChange(item, 'retire')}
+          aria-label={`Retire ${name}`}
+        >
           Retire
         </Button>
       )}
@@ -70,7 +81,10 @@ const analyteColumns = [
     header: 'LOINC',
     cell: (c) => orNone(c.getValue() ? <span className="whitespace-nowrap">{c.getValue()}</span> : null),
   }),
-  analyte.accessor('unit', { header: 'Unit (UCUM)', cell: (c) => <span className="font-mono text-xs">{c.getValue()}</span> }),
+  analyte.accessor('unit', {
+    header: 'Unit (UCUM)',
+    cell: (c) => <span className="font-mono text-xs">{c.getValue()}</span>,
+  }),
   analyte.accessor('conventionalUnit', {
     header: 'Conventional unit',
     cell: (c) => orNone(c.getValue() ? <span className="font-mono text-xs">{c.getValue()}</span> : null),
@@ -82,7 +96,9 @@ const analyteColumns = [
     cell: (c) => {
       const item = c.row.original;
       if (item.teaPct === null) return none;
-      const source = [item.teaSource, item.teaDate ? formatDate(item.teaDate) : null].filter(Boolean).join(', ');
+      const source = [item.teaSource, item.teaDate ? formatDate(item.teaDate) : null]
+        .filter(Boolean)
+        .join(', ');
       return (
         <span title={source || undefined} className="whitespace-nowrap">
           {item.teaPct} %
@@ -156,7 +172,10 @@ const columnsByList = {
   'control-lots': lotColumns,
 } as unknown as Record<CatalogueList, ColumnDef<CatalogueItem>[]>;
 
-export function catalogueColumns(list: CatalogueList, actions: CatalogueRowActions): ColumnDef<CatalogueItem>[] {
+export function catalogueColumns(
+  list: CatalogueList,
+  actions: CatalogueRowActions,
+): ColumnDef<CatalogueItem>[] {
   const sortable: readonly string[] = catalogueSortColumns[list];
   const own = columnsByList[list].map((column) => {
     const id = column.id ?? ('accessorKey' in column ? String(column.accessorKey) : '');

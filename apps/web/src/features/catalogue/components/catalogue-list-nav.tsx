@@ -16,7 +16,9 @@ export function CatalogueListNav({ current }: { current: CatalogueList }) {
                 to={paths.network.catalogue.getHref(list)}
                 aria-current={active ? 'page' : undefined}
                 className={`relative flex items-center rounded-md px-3 py-2 text-sm whitespace-nowrap md:pl-6 ${
-                  active ? 'bg-white font-medium text-plumb-900 shadow-xs ring-1 ring-slate-200' : 'text-slate-700 hover:bg-white/70 hover:text-plumb-900'
+                  active
+                    ? 'bg-white font-medium text-plumb-900 shadow-xs ring-1 ring-slate-200'
+                    : 'text-slate-700 hover:bg-white/70 hover:text-plumb-900'
                 }`}
               >
                 <span

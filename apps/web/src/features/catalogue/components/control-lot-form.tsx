@@ -38,7 +38,9 @@ const fieldNames = ['materialId', 'lotNumber', 'expiresOn', 'levels', 'reason'];
 
 /** The form needs the materials before it renders: a <select> only shows its value once the option exists. */
 export function ControlLotForm({ entry, onDone }: { entry: ControlLotItem | null; onDone: () => void }) {
-  const materials = useQuery(catalogueKeys.list('control-materials', { state: 'active', sort: 'code', limit: 500 }));
+  const materials = useQuery(
+    catalogueKeys.list('control-materials', { state: 'active', sort: 'code', limit: 500 }),
+  );
   if (materials.isPending) return <PageLoading />;
   return (
     <LotForm
@@ -62,7 +64,9 @@ function LotForm({
   materialsError: string | null;
 }) {
   const form = useForm<FormValues, unknown, z.output<typeof controlLotFormSchema>>({
-    resolver: zodResolver(controlLotFormSchema as unknown as z.ZodType<z.output<typeof controlLotFormSchema>, FormValues>),
+    resolver: zodResolver(
+      controlLotFormSchema as unknown as z.ZodType<z.output<typeof controlLotFormSchema>, FormValues>,
+    ),
     defaultValues: {
       materialId: entry?.material.id ?? '',
       lotNumber: entry?.lotNumber ?? '',
@@ -118,16 +122,32 @@ function LotForm({
             </option>
           ))}
         </SelectField>
-        <TextField label="Lot number" spellCheck={false} error={errors.lotNumber?.message} {...form.register('lotNumber')} />
-        <TextField label="Expires on" type="date" error={errors.expiresOn?.message} {...form.register('expiresOn')} />
+        <TextField
+          label="Lot number"
+          spellCheck={false}
+          error={errors.lotNumber?.message}
+          {...form.register('lotNumber')}
+        />
+        <TextField
+          label="Expires on"
+          type="date"
+          error={errors.expiresOn?.message}
+          {...form.register('expiresOn')}
+        />
       </div>
 
-      <fieldset className="mt-5 rounded-lg border border-slate-200 px-4 pt-2 pb-4" aria-describedby={levelsError ? 'lot-levels-error' : undefined}>
+      <fieldset
+        className="mt-5 rounded-lg border border-slate-200 px-4 pt-2 pb-4"
+        aria-describedby={levelsError ? 'lot-levels-error' : undefined}
+      >
         <legend className="px-1 text-sm font-semibold text-slate-800">Levels</legend>
         <p className="mb-3 text-xs text-slate-600">
           Level numbers 1 to 9. A level that QC data already uses cannot be removed.
         </p>
-        <div aria-hidden="true" className="grid grid-cols-[5rem_1fr_5.5rem] gap-3 pb-1 text-xs font-medium text-slate-700">
+        <div
+          aria-hidden="true"
+          className="grid grid-cols-[5rem_1fr_5.5rem] gap-3 pb-1 text-xs font-medium text-slate-700"
+        >
           <span>Level</span>
           <span>Description, optional</span>
         </div>
@@ -152,7 +172,12 @@ function LotForm({
                     className={`h-9 rounded-md border bg-white px-3 text-[0.95rem] shadow-xs placeholder:text-slate-400 ${descriptionError ? 'border-alarm-700' : 'border-slate-300'}`}
                     {...form.register(`levels.${index}.description`)}
                   />
-                  <Button variant="ghost" size="sm" onClick={() => levels.remove(index)} aria-label={`Remove level ${index + 1}`}>
+                  <Button
+                    variant="ghost"
+                    size="sm"
+                    onClick={() => levels.remove(index)}
+                    aria-label={`Remove level ${index + 1}`}
+                  >
                     Remove
                   </Button>
                 </div>

@@ -28,7 +28,11 @@ export function EntryDialog({
       ) : list === 'control-lots' ? (
         <ControlLotForm entry={entry as ControlLotItem | null} onDone={onClose} />
       ) : (
-        <SimpleEntryForm list={list as SimpleList} entry={entry as Exclude<CatalogueItem, AnalyteItem | ControlLotItem> | null} onDone={onClose} />
+        <SimpleEntryForm
+          list={list as SimpleList}
+          entry={entry as Exclude<CatalogueItem, AnalyteItem | ControlLotItem> | null}
+          onDone={onClose}
+        />
       )}
     </Dialog>
   );

@@ -21,7 +21,15 @@ export function FormError({ message }: { message: string | null }) {
   );
 }
 
-export function EntryFormActions({ onCancel, isPending, isEdit }: { onCancel: () => void; isPending: boolean; isEdit: boolean }) {
+export function EntryFormActions({
+  onCancel,
+  isPending,
+  isEdit,
+}: {
+  onCancel: () => void;
+  isPending: boolean;
+  isEdit: boolean;
+}) {
   return (
     <DialogActions>
       <Button variant="secondary" onClick={onCancel}>

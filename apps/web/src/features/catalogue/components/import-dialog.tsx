@@ -10,7 +10,12 @@ import {
   useReactTable,
   type SortingState,
 } from '@tanstack/react-table';
-import { catalogueCsvColumns, type CatalogueList, type ImportResult, type ImportRow } from '@plumbline/contracts';
+import {
+  catalogueCsvColumns,
+  type CatalogueList,
+  type ImportResult,
+  type ImportRow,
+} from '@plumbline/contracts';
 import { Alert } from '../../../components/ui/alert.tsx';
 import { Badge } from '../../../components/ui/badge.tsx';
 import { Button } from '../../../components/ui/button.tsx';
@@ -95,17 +100,33 @@ function ImportPreview({ result }: { result: ImportResult }) {
         </p>
         {result.rejected > 0 ? (
           <label className="flex items-center gap-2 text-sm text-slate-700">
-            <input type="checkbox" checked={onlyErrors} onChange={(event) => setOnlyErrors(event.target.checked)} />
+            <input
+              type="checkbox"
+              checked={onlyErrors}
+              onChange={(event) => setOnlyErrors(event.target.checked)}
+            />
             Show only rows with errors
           </label>
         ) : null}
       </div>
-      <DataTable table={table} caption="Rows of the file and what importing them would do" emptyMessage="No rows to show." />
+      <DataTable
+        table={table}
+        caption="Rows of the file and what importing them would do"
+        emptyMessage="No rows to show."
+      />
     </div>
   );
 }
 
-export function ImportDialog({ list, open, onClose }: { list: CatalogueList; open: boolean; onClose: () => void }) {
+export function ImportDialog({
+  list,
+  open,
+  onClose,
+}: {
+  list: CatalogueList;
+  open: boolean;
+  onClose: () => void;
+}) {
   return (
     <Dialog
       open={open}
@@ -135,10 +156,7 @@ function ImportSteps({ list, onClose }: { list: CatalogueList; onClose: () => vo
 
   const check = () => {
     if (!file) return;
-    importer.mutate(
-      { file, dryRun: true },
-      { onSuccess: (result) => setPreview(result) },
-    );
+    importer.mutate({ file, dryRun: true }, { onSuccess: (result) => setPreview(result) });
   };
   const apply = () => {
     if (!file) return;
@@ -190,8 +208,8 @@ function ImportSteps({ list, onClose }: { list: CatalogueList; onClose: () => vo
             <code className="font-mono">{columnsOfList.optional.join(', ')}</code>
           </p>
           <p className="mt-1 text-slate-600">
-            A row whose {columnsOfList.required[0].replace('_', ' ')} is new creates an entry; an existing one is
-            updated. A blank cell clears an optional field.
+            A row whose {columnsOfList.required[0].replace('_', ' ')} is new creates an entry; an existing one
+            is updated. A blank cell clears an optional field.
             {list === 'control-lots' ? ' Levels are separated by “;”, e.g. 1;2;3.' : ''}
           </p>
         </div>

@@ -27,7 +27,9 @@ const createSchemas = {
 } satisfies Record<SimpleList, z.ZodType>;
 
 const extraFields: Record<SimpleList, { name: string; label: string; hint?: string }[]> = {
-  methods: [{ name: 'principle', label: 'Principle', hint: 'e.g. enzymatic colorimetric, ion-selective electrode' }],
+  methods: [
+    { name: 'principle', label: 'Principle', hint: 'e.g. enzymatic colorimetric, ion-selective electrode' },
+  ],
   'instrument-models': [{ name: 'manufacturer', label: 'Manufacturer' }],
   reagents: [{ name: 'manufacturer', label: 'Manufacturer' }],
   'control-materials': [
@@ -38,7 +40,15 @@ const extraFields: Record<SimpleList, { name: string; label: string; hint?: stri
 
 type FormValues = Record<string, string>;
 
-export function SimpleEntryForm({ list, entry, onDone }: { list: SimpleList; entry: SimpleItem | null; onDone: () => void }) {
+export function SimpleEntryForm({
+  list,
+  entry,
+  onDone,
+}: {
+  list: SimpleList;
+  entry: SimpleItem | null;
+  onDone: () => void;
+}) {
   const extras = extraFields[list];
   const fieldNames = ['code', 'name', ...extras.map((f) => f.name), 'reason'];
   const record = (entry ?? {}) as Record<string, string | null | undefined>;

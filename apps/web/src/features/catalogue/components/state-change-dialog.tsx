@@ -51,9 +51,9 @@ export function StateChangeDialog({
     >
       {retire ? (
         <p>
-          A retired {singular} can no longer be chosen for new procedures or lots. Nothing is deleted: data that
-          refers to <strong className="font-semibold text-slate-900">{name}</strong> keeps it, and you can restore
-          it at any time.
+          A retired {singular} can no longer be chosen for new procedures or lots. Nothing is deleted: data
+          that refers to <strong className="font-semibold text-slate-900">{name}</strong> keeps it, and you
+          can restore it at any time.
         </p>
       ) : (
         <p>

@@ -15,12 +15,14 @@ export const catalogueListLabels: Record<
   methods: {
     title: 'Methods',
     singular: 'method',
-    description: 'Measurement methods and their principle; procedures sharing analyte and method form the method tier.',
+    description:
+      'Measurement methods and their principle; procedures sharing analyte and method form the method tier.',
   },
   'instrument-models': {
     title: 'Instrument models',
     singular: 'instrument model',
-    description: 'Analyser models in use across the network; the instrument tier groups procedures on the same model.',
+    description:
+      'Analyser models in use across the network; the instrument tier groups procedures on the same model.',
   },
   reagents: {
     title: 'Reagents',
@@ -35,7 +37,8 @@ export const catalogueListLabels: Record<
   'control-lots': {
     title: 'Control lots',
     singular: 'control lot',
-    description: 'Lots of each control material, with their levels and expiry dates. Lot numbers are unique across the network.',
+    description:
+      'Lots of each control material, with their levels and expiry dates. Lot numbers are unique across the network.',
   },
 };
 

@@ -25,7 +25,11 @@ export function closePeriod({ period, reason }: { period: string; reason: string
 }
 
 export function reopenPeriod({ period, reason }: { period: string; reason: string }) {
-  return apiRequest(`${periodPath(period)}/reopen`, { method: 'POST', body: { reason }, schema: periodDetailSchema });
+  return apiRequest(`${periodPath(period)}/reopen`, {
+    method: 'POST',
+    body: { reason },
+    schema: periodDetailSchema,
+  });
 }
 
 function usePeriodMutation<Input, Output>(mutationFn: (input: Input) => Promise<Output>) {

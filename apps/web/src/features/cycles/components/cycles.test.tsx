@@ -47,12 +47,17 @@ describe('cycles page', () => {
     const dialog = await screen.findByRole('dialog', { name: 'Create a period' });
     // The month after the latest, with the usual deadline (10th of the next month, 23:59).
     expect((within(dialog).getByLabelText('Month') as HTMLInputElement).value).toBe('2027-01');
-    expect((within(dialog).getByLabelText(/Submission deadline/) as HTMLInputElement).value).toBe('2027-02-10T23:59');
+    expect((within(dialog).getByLabelText(/Submission deadline/) as HTMLInputElement).value).toBe(
+      '2027-02-10T23:59',
+    );
     await user.click(within(dialog).getByRole('button', { name: 'Create period' }));
 
     await waitFor(() => expect(screen.queryByRole('dialog')).toBeNull());
     const sent = api.requests.find((r) => r.method === 'POST');
-    expect(sent?.body).toMatchObject({ period: '2027-01', deadline: new Date(2027, 1, 10, 23, 59).toISOString() });
+    expect(sent?.body).toMatchObject({
+      period: '2027-01',
+      deadline: new Date(2027, 1, 10, 23, 59).toISOString(),
+    });
   });
 
   it('when the API refuses the deadline, then its message shows beside the deadline field', async () => {
@@ -65,7 +70,12 @@ describe('cycles page', () => {
           error: {
             code: 'bad_request',
             message: 'Invalid body: deadline: must fall after 2026-12 has ended',
-            details: [{ path: 'deadline', message: 'must fall after the period has ended (after 2027-01-01T00:00:00.000Z)' }],
+            details: [
+              {
+                path: 'deadline',
+                message: 'must fall after the period has ended (after 2027-01-01T00:00:00.000Z)',
+              },
+            ],
           },
         },
       },
@@ -77,7 +87,11 @@ describe('cycles page', () => {
     await user.click(within(dialog).getByRole('button', { name: 'Save deadline' }));
 
     expect(await within(dialog).findByText(/Must fall after the period has ended/)).toBeTruthy();
-    expect(within(dialog).getByLabelText(/Submission deadline/).getAttribute('aria-invalid')).toBe('true');
+    expect(
+      within(dialog)
+        .getByLabelText(/Submission deadline/)
+        .getAttribute('aria-invalid'),
+    ).toBe('true');
   });
 
   it('when a closed period is reopened, then a reason is required before anything is sent', async () => {
@@ -97,6 +111,8 @@ describe('cycles page', () => {
     await user.type(within(dialog).getByLabelText(/Why is the period reopened/), 'a lab sent corrected data');
     await user.click(within(dialog).getByRole('button', { name: 'Reopen period' }));
     await waitFor(() => expect(screen.queryByRole('dialog')).toBeNull());
-    expect(api.requests.find((r) => r.method === 'POST')?.body).toEqual({ reason: 'a lab sent corrected data' });
+    expect(api.requests.find((r) => r.method === 'POST')?.body).toEqual({
+      reason: 'a lab sent corrected data',
+    });
   });
 });

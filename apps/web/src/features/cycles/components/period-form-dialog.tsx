@@ -23,14 +23,17 @@ const periodUpdateFormSchema = periodUpdateSchema.extend({ deadline: deadlineInp
 type FormValues = { period: string; deadline: string; reason: string };
 const fieldNames = ['period', 'deadline', 'reason'];
 
-export type PeriodFormState = { mode: 'create'; suggested: string } | { mode: 'deadline'; period: Period } | null;
+export type PeriodFormState =
+  { mode: 'create'; suggested: string } | { mode: 'deadline'; period: Period } | null;
 
 export function PeriodFormDialog({ state, onClose }: { state: PeriodFormState; onClose: () => void }) {
   return (
     <Dialog
       open={state !== null}
       onClose={onClose}
-      title={state?.mode === 'deadline' ? `Deadline of ${formatPeriod(state.period.period)}` : 'Create a period'}
+      title={
+        state?.mode === 'deadline' ? `Deadline of ${formatPeriod(state.period.period)}` : 'Create a period'
+      }
       description={
         state?.mode === 'deadline'
           ? 'Data that arrives after the period is closed is marked late.'
@@ -50,7 +53,9 @@ export function PeriodFormDialog({ state, onClose }: { state: PeriodFormState; o
 function CreateForm({ suggested, onDone }: { suggested: string; onDone: () => void }) {
   const create = useCreatePeriod();
   const form = useForm<FormValues, unknown, z.output<typeof periodCreateFormSchema>>({
-    resolver: zodResolver(periodCreateFormSchema as unknown as z.ZodType<z.output<typeof periodCreateFormSchema>, FormValues>),
+    resolver: zodResolver(
+      periodCreateFormSchema as unknown as z.ZodType<z.output<typeof periodCreateFormSchema>, FormValues>,
+    ),
     defaultValues: { period: suggested, deadline: usualDeadline(suggested), reason: '' },
   });
   const { errors } = form.formState;
@@ -110,7 +115,9 @@ function CreateForm({ suggested, onDone }: { suggested: string; onDone: () => vo
 function DeadlineForm({ period, onDone }: { period: Period; onDone: () => void }) {
   const change = useChangeDeadline();
   const form = useForm<FormValues, unknown, z.output<typeof periodUpdateFormSchema>>({
-    resolver: zodResolver(periodUpdateFormSchema as unknown as z.ZodType<z.output<typeof periodUpdateFormSchema>, FormValues>),
+    resolver: zodResolver(
+      periodUpdateFormSchema as unknown as z.ZodType<z.output<typeof periodUpdateFormSchema>, FormValues>,
+    ),
     defaultValues: { period: period.period, deadline: isoToLocalDateTime(period.deadline), reason: '' },
   });
   const { errors } = form.formState;

@@ -9,7 +9,13 @@ import { useClosePeriod, useReopenPeriod } from '../api/period-actions.ts';
 
 export type PeriodTransition = { period: Period; action: 'close' | 'reopen' } | null;
 
-export function PeriodTransitionDialog({ request, onClose }: { request: PeriodTransition; onClose: () => void }) {
+export function PeriodTransitionDialog({
+  request,
+  onClose,
+}: {
+  request: PeriodTransition;
+  onClose: () => void;
+}) {
   const close = useClosePeriod();
   const reopen = useReopenPeriod();
   const closing = request?.action === 'close';
@@ -28,7 +34,9 @@ export function PeriodTransitionDialog({ request, onClose }: { request: PeriodTr
       confirmLabel={closing ? 'Close period' : 'Reopen period'}
       tone={closing ? 'danger' : 'primary'}
       reason={closing ? 'optional' : 'required'}
-      reasonLabel={closing ? 'Reason (kept in the audit log)' : 'Why is the period reopened? (kept in the audit log)'}
+      reasonLabel={
+        closing ? 'Reason (kept in the audit log)' : 'Why is the period reopened? (kept in the audit log)'
+      }
       isPending={mutation.isPending}
       error={mutation.error ? errorMessage(mutation.error) : null}
       onConfirm={(reason) => {

@@ -1,7 +1,13 @@
 // The monthly periods, newest first: state, submission deadline, what can be done with each.
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
-import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
+import {
+  createColumnHelper,
+  getCoreRowModel,
+  getSortedRowModel,
+  useReactTable,
+  type SortingState,
+} from '@tanstack/react-table';
 import type { Period } from '@plumbline/contracts';
 import { Badge } from '../../../components/ui/badge.tsx';
 import { Button } from '../../../components/ui/button.tsx';
@@ -44,7 +50,10 @@ export function PeriodsTable({ periods, actions }: { periods: Period[]; actions:
       ),
     }),
     column.accessor('state', { header: 'State', cell: (c) => <PeriodStateBadge state={c.getValue()} /> }),
-    column.accessor('deadline', { header: 'Submission deadline', cell: (c) => <Deadline period={c.row.original} now={now} /> }),
+    column.accessor('deadline', {
+      header: 'Submission deadline',
+      cell: (c) => <Deadline period={c.row.original} now={now} />,
+    }),
     column.display({
       id: 'participation',
       header: 'Participation',
@@ -57,7 +66,11 @@ export function PeriodsTable({ periods, actions }: { periods: Period[]; actions:
         </Link>
       ),
     }),
-    column.display({ id: 'publication', header: 'Publication', cell: (c) => <PeriodPublication period={c.row.original} /> }),
+    column.display({
+      id: 'publication',
+      header: 'Publication',
+      cell: (c) => <PeriodPublication period={c.row.original} />,
+    }),
     column.display({
       id: 'actions',
       header: () => <span className="sr-only">Actions</span>,
@@ -68,17 +81,32 @@ export function PeriodsTable({ periods, actions }: { periods: Period[]; actions:
         return (
           <div className="flex justify-end gap-1">
             {period.state !== 'published' ? (
-              <Button variant="ghost" size="xs" onClick={() => actions.onChangeDeadline(period)} aria-label={`Change the deadline of ${name}`}>
+              <Button
+                variant="ghost"
+                size="xs"
+                onClick={() => actions.onChangeDeadline(period)}
+                aria-label={`Change the deadline of ${name}`}
+              >
                 Deadline
               </Button>
             ) : null}
             {period.state === 'open' ? (
-              <Button variant="ghost" size="xs" onClick={() => actions.onTransition(period, 'close')} aria-label={`Close ${name}`}>
+              <Button
+                variant="ghost"
+                size="xs"
+                onClick={() => actions.onTransition(period, 'close')}
+                aria-label={`Close ${name}`}
+              >
                 Close
               </Button>
             ) : null}
             {period.state === 'closed' ? (
-              <Button variant="ghost" size="xs" onClick={() => actions.onTransition(period, 'reopen')} aria-label={`Reopen ${name}`}>
+              <Button
+                variant="ghost"
+                size="xs"
+                onClick={() => actions.onTransition(period, 'reopen')}
+                aria-label={`Reopen ${name}`}
+              >
                 Reopen
               </Button>
             ) : null}

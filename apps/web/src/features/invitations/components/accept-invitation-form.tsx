@@ -53,7 +53,10 @@ export function AcceptInvitationForm({
   return (
     <form noValidate onSubmit={onSubmit} className="flex flex-col gap-5" aria-label="Set your password">
       {failure ? (
-        <Alert tone="error" title={accept.error ? 'Your password was not set' : 'Your password is set, but signing in failed'}>
+        <Alert
+          tone="error"
+          title={accept.error ? 'Your password was not set' : 'Your password is set, but signing in failed'}
+        >
           {accept.error ? formAlertMessage(accept.error, ['password']) : errorMessage(failure)}
         </Alert>
       ) : null}

@@ -18,7 +18,15 @@ export function inviteLabUser({ labId, body }: { labId: string; body: Invitation
   });
 }
 
-export function updateLabUser({ labId, userId, body }: { labId: string; userId: string; body: LabUserUpdate }) {
+export function updateLabUser({
+  labId,
+  userId,
+  body,
+}: {
+  labId: string;
+  userId: string;
+  body: LabUserUpdate;
+}) {
   return apiRequest(`/labs/${encodeURIComponent(labId)}/users/${encodeURIComponent(userId)}`, {
     method: 'PATCH',
     body,

@@ -16,7 +16,10 @@ export const labSettingsSchema = labDetailSchema.omit({ createdAt: true });
 export type LabSettings = z.infer<typeof labSettingsSchema>;
 
 export type NetworkProceduresParams = Partial<
-  Pick<NetworkProceduresQuery, 'analyteId' | 'instrumentModelId' | 'methodId' | 'labId' | 'unpeerable' | 'minLabs' | 'limit' | 'offset'>
+  Pick<
+    NetworkProceduresQuery,
+    'analyteId' | 'instrumentModelId' | 'methodId' | 'labId' | 'unpeerable' | 'minLabs' | 'limit' | 'offset'
+  >
 >;
 
 export const PROCEDURES_PAGE_SIZE = 50;

@@ -19,7 +19,15 @@ import { useInviteLabUser } from '../api/lab-users.ts';
 type FormValues = z.input<typeof invitationCreateSchema>;
 const inviteFields = ['email', 'name', 'role'];
 
-export function InviteUserDialog({ lab, open, onClose }: { lab: LabListItem; open: boolean; onClose: () => void }) {
+export function InviteUserDialog({
+  lab,
+  open,
+  onClose,
+}: {
+  lab: LabListItem;
+  open: boolean;
+  onClose: () => void;
+}) {
   return (
     <Dialog open={open} onClose={onClose} title={`Invite a user to ${lab.code}`} description={lab.name}>
       <InviteSteps lab={lab} onClose={onClose} />
@@ -101,8 +109,8 @@ function InvitationLink({ invitation, onClose }: { invitation: InvitationCreated
   return (
     <div>
       <Alert tone="info" title="E-mail delivery is not configured">
-        Plumbline does not send e-mail yet. Send this link to {invitation.user.name} yourself, by a channel you
-        trust: whoever opens it can set the password of this account.
+        Plumbline does not send e-mail yet. Send this link to {invitation.user.name} yourself, by a channel
+        you trust: whoever opens it can set the password of this account.
       </Alert>
       <div className="mt-5 flex flex-col gap-1.5">
         <label htmlFor={linkId} className="text-sm font-medium text-slate-800">
@@ -126,9 +134,7 @@ function InvitationLink({ invitation, onClose }: { invitation: InvitationCreated
         </p>
       </div>
       <DialogActions>
-        <Button onClick={onClose}>
-          Done
-        </Button>
+        <Button onClick={onClose}>Done</Button>
       </DialogActions>
     </div>
   );

@@ -113,7 +113,12 @@ function LabForm({ settings, onDone }: { settings: LabSettings | null; onDone: (
           error={errors.code?.message}
           {...form.register('code')}
         />
-        <TextField label="Lab name" hint="Only you see it." error={errors.name?.message} {...form.register('name')} />
+        <TextField
+          label="Lab name"
+          hint="Only you see it."
+          error={errors.name?.message}
+          {...form.register('name')}
+        />
         <SelectField
           className="sm:col-span-2"
           label="Units in the lab's reports"

@@ -3,7 +3,13 @@
 // role, deactivate or reactivate an account, withdraw an invitation.
 import { useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
-import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
+import {
+  createColumnHelper,
+  getCoreRowModel,
+  getSortedRowModel,
+  useReactTable,
+  type SortingState,
+} from '@tanstack/react-table';
 import type { LabListItem, LabUser, LabUserUpdate } from '@plumbline/contracts';
 import { Alert } from '../../../components/ui/alert.tsx';
 import { Badge } from '../../../components/ui/badge.tsx';
@@ -17,7 +23,15 @@ import { useUpdateLabUser } from '../api/lab-users.ts';
 import { networkLabsKeys } from '../api/network-labs-keys.ts';
 import { InviteUserDialog } from './invite-user-dialog.tsx';
 
-type UserChange = { user: LabUser; body: LabUserUpdate; title: string; confirmLabel: string; done: string; danger: boolean; text: string };
+type UserChange = {
+  user: LabUser;
+  body: LabUserUpdate;
+  title: string;
+  confirmLabel: string;
+  done: string;
+  danger: boolean;
+  text: string;
+};
 
 function statusOf(user: LabUser) {
   if (user.invitationPending) return <Badge tone="brass">Invitation pending</Badge>;
@@ -98,6 +112,9 @@ export function LabPanel({
         <div>
           <p className="font-medium text-slate-900">{c.getValue()}</p>
           <p className="text-xs break-words text-slate-600">{c.row.original.email}</p>
+          <p className="text-xs text-slate-500">
+            Added <time dateTime={c.row.original.createdAt}>{formatDate(c.row.original.createdAt)}</time>
+          </p>
         </div>
       ),
     }),
@@ -108,14 +125,6 @@ export function LabPanel({
           {c.getValue() === 'supervisor' ? 'Supervisor' : 'Analyst'}
           {statusOf(c.row.original)}
         </span>
-      ),
-    }),
-    column.accessor('createdAt', {
-      header: 'Added',
-      cell: (c) => (
-        <time dateTime={c.getValue()} className="whitespace-nowrap">
-          {formatDate(c.getValue())}
-        </time>
       ),
     }),
     column.display({
@@ -149,7 +158,10 @@ export function LabPanel({
   };
 
   return (
-    <section aria-labelledby="lab-panel-title" className="rounded-lg border border-slate-200 bg-white shadow-xs">
+    <section
+      aria-labelledby="lab-panel-title"
+      className="rounded-lg border border-slate-200 bg-white shadow-xs"
+    >
       <div className="flex flex-wrap items-start justify-between gap-3 border-b border-slate-200 px-5 py-4">
         <div className="min-w-0">
           <div className="flex items-center gap-2">
@@ -165,11 +177,21 @@ export function LabPanel({
             Edit
           </Button>
           {lab.active ? (
-            <Button variant="secondary" size="sm" onClick={() => onStateChange(lab, 'deactivate')} aria-label={`Deactivate ${lab.code}`}>
+            <Button
+              variant="secondary"
+              size="sm"
+              onClick={() => onStateChange(lab, 'deactivate')}
+              aria-label={`Deactivate ${lab.code}`}
+            >
               Deactivate
             </Button>
           ) : (
-            <Button variant="secondary" size="sm" onClick={() => onStateChange(lab, 'reactivate')} aria-label={`Reactivate ${lab.code}`}>
+            <Button
+              variant="secondary"
+              size="sm"
+              onClick={() => onStateChange(lab, 'reactivate')}
+              aria-label={`Reactivate ${lab.code}`}
+            >
               Reactivate
             </Button>
           )}
@@ -183,21 +205,23 @@ export function LabPanel({
           </Button>
         </div>
         {!lab.active ? (
-          <p className="mt-1 text-sm text-slate-600">This lab is deactivated; reactivate it before inviting anyone.</p>
+          <p className="mt-1 text-sm text-slate-600">
+            This lab is deactivated; reactivate it before inviting anyone.
+          </p>
         ) : null}
         <div className="mt-3">
-        {users.isError ? (
-          <Alert tone="error" title="The users could not be loaded">
-            {errorMessage(users.error)}
-          </Alert>
-        ) : (
-          <DataTable
-            table={table}
-            caption={`Users of ${lab.code}`}
-            emptyMessage={users.isPending ? 'Loading…' : 'Nobody has been invited to this lab yet.'}
-            rowClassName={(user) => (user.active || user.invitationPending ? '' : 'text-slate-500')}
-          />
-        )}
+          {users.isError ? (
+            <Alert tone="error" title="The users could not be loaded">
+              {errorMessage(users.error)}
+            </Alert>
+          ) : (
+            <DataTable
+              table={table}
+              caption={`Users of ${lab.code}`}
+              emptyMessage={users.isPending ? 'Loading…' : 'Nobody has been invited to this lab yet.'}
+              rowClassName={(user) => (user.active || user.invitationPending ? '' : 'text-slate-500')}
+            />
+          )}
         </div>
       </div>
       <InviteUserDialog lab={lab} open={inviting} onClose={() => setInviting(false)} />

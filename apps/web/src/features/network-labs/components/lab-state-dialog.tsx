@@ -37,21 +37,25 @@ export function LabStateDialog({ request, onClose }: { request: LabStateRequest;
           close();
         };
         if (deactivating) deactivate.mutate({ labId: lab.id, reason }, { onSuccess });
-        else reactivate.mutate({ labId: lab.id, body: { active: true, reason: reason || undefined } }, { onSuccess });
+        else
+          reactivate.mutate(
+            { labId: lab.id, body: { active: true, reason: reason || undefined } },
+            { onSuccess },
+          );
       }}
     >
       {deactivating ? (
         <>
           <p>
-            <strong className="font-semibold text-slate-900">{label}</strong> leaves the network&rsquo;s active
-            labs: its users can no longer sign in and its open invitations can no longer be accepted.
+            <strong className="font-semibold text-slate-900">{label}</strong> leaves the network&rsquo;s
+            active labs: its users can no longer sign in and its open invitations can no longer be accepted.
           </p>
           <p>Its data stays, and you can reactivate the lab later.</p>
         </>
       ) : (
         <p>
-          <strong className="font-semibold text-slate-900">{label}</strong> becomes an active member again; its
-          users can sign in as before.
+          <strong className="font-semibold text-slate-900">{label}</strong> becomes an active member again;
+          its users can sign in as before.
         </p>
       )}
     </ConfirmDialog>

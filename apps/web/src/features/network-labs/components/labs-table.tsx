@@ -98,7 +98,11 @@ export function LabsTable({ labs, actions }: { labs: LabListItem[]; actions: Lab
         </div>
         {inactiveCount > 0 ? (
           <label className="flex h-9 items-center gap-2 text-sm text-slate-700">
-            <input type="checkbox" checked={showInactive} onChange={(event) => setShowInactive(event.target.checked)} />
+            <input
+              type="checkbox"
+              checked={showInactive}
+              onChange={(event) => setShowInactive(event.target.checked)}
+            />
             Show inactive labs ({inactiveCount})
           </label>
         ) : null}
@@ -106,7 +110,9 @@ export function LabsTable({ labs, actions }: { labs: LabListItem[]; actions: Lab
       <DataTable
         table={table}
         caption="Member labs"
-        emptyMessage={labs.length === 0 ? 'No labs are enrolled yet. Enrol the first one.' : 'No lab matches.'}
+        emptyMessage={
+          labs.length === 0 ? 'No labs are enrolled yet. Enrol the first one.' : 'No lab matches.'
+        }
         rowClassName={(lab) =>
           `${lab.active ? '' : 'text-slate-500'} ${actions.selectedLabId === lab.id ? 'bg-plumb-50/70' : ''}`
         }

@@ -11,7 +11,16 @@ const baseAnswers = {
   'GET /api/labs': { status: 200, body: testLabs },
   [`GET /api/labs/${lab.id}/users`]: {
     status: 200,
-    body: [buildLabUser(), buildLabUser({ id: '4b3a2c1d-0e9f-4a8b-9c7d-6e5f4a3b2c02', email: 'new@harrow-fen.example', name: 'Invited Person', active: false, invitationPending: true })],
+    body: [
+      buildLabUser(),
+      buildLabUser({
+        id: '4b3a2c1d-0e9f-4a8b-9c7d-6e5f4a3b2c02',
+        email: 'new@harrow-fen.example',
+        name: 'Invited Person',
+        active: false,
+        invitationPending: true,
+      }),
+    ],
   },
 };
 
@@ -41,7 +50,13 @@ describe('labs page', () => {
         status: 201,
         body: {
           invitationId: '7c6b5a4d-3e2f-4a1b-8c9d-0e1f2a3b4c5d',
-          user: { id: '4b3a2c1d-0e9f-4a8b-9c7d-6e5f4a3b2c09', email: 'newcomer@harrow-fen.example', name: 'Newcomer', role: 'supervisor', labId: lab.id },
+          user: {
+            id: '4b3a2c1d-0e9f-4a8b-9c7d-6e5f4a3b2c09',
+            email: 'newcomer@harrow-fen.example',
+            name: 'Newcomer',
+            role: 'supervisor',
+            labId: lab.id,
+          },
           expiresAt: '2026-12-09T10:00:00.000Z',
           link,
         },
@@ -64,7 +79,11 @@ describe('labs page', () => {
     expect(within(dialog).getByText('E-mail delivery is not configured')).toBeTruthy();
     const sent = api.requests.find((r) => r.method === 'POST');
     // The contract lower-cases the address before it is sent.
-    expect(sent?.body).toEqual({ name: 'Newcomer', email: 'newcomer@harrow-fen.example', role: 'supervisor' });
+    expect(sent?.body).toEqual({
+      name: 'Newcomer',
+      email: 'newcomer@harrow-fen.example',
+      role: 'supervisor',
+    });
   });
 
   it('when the invited address is taken, then the API’s message shows beside the e-mail field', async () => {
@@ -119,7 +138,10 @@ describe('labs page', () => {
 
   it('when an enrolment uses a taken code, then the API’s message is shown and the dialog stays open', async () => {
     const message = 'A lab with the code "L03" already exists; lab codes must be unique.';
-    mockApi({ ...baseAnswers, 'POST /api/labs': { status: 409, body: { error: { code: 'conflict', message } } } });
+    mockApi({
+      ...baseAnswers,
+      'POST /api/labs': { status: 409, body: { error: { code: 'conflict', message } } },
+    });
     const { user } = renderApp('/network/labs', { signedInAs: 'coordinator' });
 
     await user.click(await screen.findByRole('button', { name: 'Enrol a lab' }));

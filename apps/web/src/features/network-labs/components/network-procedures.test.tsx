@@ -6,7 +6,11 @@ import { mockApi } from '../../../testing/mock-api.ts';
 import { testLabs } from '../../../testing/network-data.ts';
 import { renderApp } from '../../../testing/render-app.tsx';
 
-const ref = (n: number, code: string, name: string) => ({ id: `1e2d3c4b-5a69-4788-9a0b-1c2d3e4f50${String(n).padStart(2, '0')}`, code, name });
+const ref = (n: number, code: string, name: string) => ({
+  id: `1e2d3c4b-5a69-4788-9a0b-1c2d3e4f50${String(n).padStart(2, '0')}`,
+  code,
+  name,
+});
 const tier = (labs: number) => ({ labs, enough: labs >= 3 });
 
 const procedure = (n: number, labs: [number, number, number]) =>
@@ -33,7 +37,9 @@ describe('network procedures', () => {
       'GET /api/catalogue/methods': { status: 200, body: { total: 0, items: [] } },
       'GET /api/network/procedures': (request) => {
         const onlyUnpeerable = request.query.get('unpeerable') === 'true';
-        const items = onlyUnpeerable ? [procedure(2, [1, 2, 2])] : [procedure(1, [4, 5, 9]), procedure(2, [1, 2, 2])];
+        const items = onlyUnpeerable
+          ? [procedure(2, [1, 2, 2])]
+          : [procedure(1, [4, 5, 9]), procedure(2, [1, 2, 2])];
         return { status: 200, body: { total: items.length, minLabs: 3, items } };
       },
     });
@@ -41,13 +47,22 @@ describe('network procedures', () => {
 
     const table = await screen.findByRole('table', { name: /Measurement procedures/ });
     await within(table).findByText('K-1');
-    expect(screen.getByText(/cannot be peered at any tier/).textContent).toMatch(/1\s+cannot be peered at any tier \(fewer than 3 labs\)/);
+    expect(screen.getByText(/cannot be peered at any tier/).textContent).toMatch(
+      /1\s+cannot be peered at any tier \(fewer than 3 labs\)/,
+    );
     expect(within(table).getByText('Instrument tier')).toBeTruthy();
     expect(within(table).getByText('No peer group')).toBeTruthy();
 
     await user.click(screen.getByLabelText('Only procedures without a peer group'));
     await waitFor(() => expect(within(table).queryByText('K-1')).toBeNull());
-    const last = api.requests.filter((r) => r.path === '/api/network/procedures' && r.query.get('limit') === '50').at(-1);
-    expect(Object.fromEntries(last!.query)).toEqual({ unpeerable: 'true', minLabs: '3', limit: '50', offset: '0' });
+    const last = api.requests
+      .filter((r) => r.path === '/api/network/procedures' && r.query.get('limit') === '50')
+      .at(-1);
+    expect(Object.fromEntries(last!.query)).toEqual({
+      unpeerable: 'true',
+      minLabs: '3',
+      limit: '50',
+      offset: '0',
+    });
   });
 });

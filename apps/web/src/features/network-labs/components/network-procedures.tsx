@@ -11,7 +11,11 @@ import { DataTable } from '../../../components/ui/data-table.tsx';
 import { Pagination } from '../../../components/ui/pagination.tsx';
 import { errorMessage } from '../../../lib/form-errors.ts';
 import { formatCount } from '../../../utils/format.ts';
-import { networkLabsKeys, PROCEDURES_PAGE_SIZE, type NetworkProceduresParams } from '../api/network-labs-keys.ts';
+import {
+  networkLabsKeys,
+  PROCEDURES_PAGE_SIZE,
+  type NetworkProceduresParams,
+} from '../api/network-labs-keys.ts';
 
 export type FilterOption = { id: string; label: string };
 export type ProcedureFilterOptions = {
@@ -67,37 +71,60 @@ const columns = [
       <span className="block">
         <span className="font-semibold text-plumb-900">{c.getValue()}</span>
         {!c.row.original.lab.active ? <span className="ml-1 text-xs text-slate-500">(inactive)</span> : null}
-        <span className="block max-w-[11rem] truncate text-xs text-slate-600" title={c.row.original.lab.name}>
+        <span className="block max-w-[10rem] truncate text-xs text-slate-600" title={c.row.original.lab.name}>
           {c.row.original.lab.name}
         </span>
       </span>
     ),
   }),
-  column.accessor('code', { header: 'Procedure', cell: (c) => <span className="whitespace-nowrap">{c.getValue()}</span> }),
+  column.accessor('code', {
+    header: 'Procedure',
+    cell: (c) => (
+      <span className="block whitespace-nowrap">
+        {c.getValue()}
+        <span className="block font-mono text-xs text-slate-500">{c.row.original.unit}</span>
+      </span>
+    ),
+  }),
   column.accessor((p) => p.analyte.code, {
     id: 'analyte',
     header: 'Analyte',
     cell: (c) => (
       <span className="block">
         <span className="font-medium text-slate-900">{c.row.original.analyte.code}</span>
-        <span className="block max-w-[9rem] truncate text-xs text-slate-600" title={c.row.original.analyte.name}>
+        <span
+          className="block max-w-[8rem] truncate text-xs text-slate-600"
+          title={c.row.original.analyte.name}
+        >
           {c.row.original.analyte.name}
         </span>
       </span>
     ),
   }),
-  column.accessor((p) => p.instrumentModel.code, {
-    id: 'instrumentModel',
-    header: 'Instrument model',
-    cell: (c) => <Ref {...c.row.original.instrumentModel} />,
+  column.display({
+    id: 'key',
+    header: 'Instrument model · method · reagent',
+    cell: (c) => {
+      const p = c.row.original;
+      return (
+        <span className="whitespace-nowrap">
+          <Ref {...p.instrumentModel} />
+          <span aria-hidden="true" className="px-1.5 text-slate-300">
+            ·
+          </span>
+          <Ref {...p.method} />
+          <span aria-hidden="true" className="px-1.5 text-slate-300">
+            ·
+          </span>
+          <Ref {...p.reagent} />
+        </span>
+      );
+    },
   }),
-  column.accessor((p) => p.method.code, { id: 'method', header: 'Method', cell: (c) => <Ref {...c.row.original.method} /> }),
-  column.accessor((p) => p.reagent.code, { id: 'reagent', header: 'Reagent', cell: (c) => <Ref {...c.row.original.reagent} /> }),
-  column.accessor('unit', { header: 'Unit', cell: (c) => <span className="font-mono text-xs">{c.getValue()}</span> }),
   column.display({
     id: 'tiers',
     header: () => (
-      <span className="grid grid-cols-3 gap-x-2 text-right">
+      <span className="grid grid-cols-[3.25rem_3.25rem_3.25rem] gap-x-1 text-right">
         <abbr title="Labs sharing analyte, instrument model, method and reagent">Instr.</abbr>
         <abbr title="Labs sharing analyte and method">Method</abbr>
         <abbr title="Labs measuring the analyte">Analyte</abbr>
@@ -107,7 +134,7 @@ const columns = [
     cell: (c) => {
       const { peerable } = c.row.original;
       return (
-        <span className="grid grid-cols-3 gap-x-2">
+        <span className="grid grid-cols-[3.25rem_3.25rem_3.25rem] gap-x-1">
           <TierCount tier={peerable.instrument} label="instrument tier" />
           <TierCount tier={peerable.method} label="method tier" />
           <TierCount tier={peerable.analyte} label="analyte tier" />
@@ -115,7 +142,11 @@ const columns = [
       );
     },
   }),
-  column.display({ id: 'status', header: 'Peered at', cell: (c) => <PeerStatus procedure={c.row.original} /> }),
+  column.display({
+    id: 'status',
+    header: 'Peered at',
+    cell: (c) => <PeerStatus procedure={c.row.original} />,
+  }),
 ];
 
 function FilterSelect({
@@ -153,7 +184,14 @@ function FilterSelect({
   );
 }
 
-type Filters = { labId: string; analyteId: string; instrumentModelId: string; methodId: string; unpeerableOnly: boolean; minLabs: number };
+type Filters = {
+  labId: string;
+  analyteId: string;
+  instrumentModelId: string;
+  methodId: string;
+  unpeerableOnly: boolean;
+  minLabs: number;
+};
 
 export function NetworkProcedures({ options }: { options: ProcedureFilterOptions }) {
   const [filters, setFilters] = useState<Filters>({
@@ -186,7 +224,9 @@ export function NetworkProcedures({ options }: { options: ProcedureFilterOptions
     }),
   );
   // How many of the matching procedures have no peer group, whatever the page shows.
-  const unpeerable = useQuery(networkLabsKeys.procedures({ ...common, unpeerable: true, limit: 1, offset: 0 }));
+  const unpeerable = useQuery(
+    networkLabsKeys.procedures({ ...common, unpeerable: true, limit: 1, offset: 0 }),
+  );
 
   const table = useReactTable({
     data: page.data?.items ?? [],
@@ -200,7 +240,13 @@ export function NetworkProcedures({ options }: { options: ProcedureFilterOptions
   return (
     <div>
       <div className="mb-4 flex flex-wrap items-end gap-3 rounded-lg border border-slate-200 bg-white px-4 py-3 shadow-xs">
-        <FilterSelect id="procedures-lab" label="Lab" value={filters.labId} options={options.labs} onChange={(v) => setFilter('labId', v)} />
+        <FilterSelect
+          id="procedures-lab"
+          label="Lab"
+          value={filters.labId}
+          options={options.labs}
+          onChange={(v) => setFilter('labId', v)}
+        />
         <FilterSelect
           id="procedures-analyte"
           label="Analyte"

@@ -12,20 +12,48 @@ const periods = [
 ];
 
 const board = participationBoardSchema.parse({
-  period: { period: '2026-10', state: 'published', deadline: periods[1].deadline, closedAt: null, publishedAt: null },
+  period: {
+    period: '2026-10',
+    state: 'published',
+    deadline: periods[1].deadline,
+    closedAt: null,
+    publishedAt: null,
+  },
   totals: { labs: 3, complete: 1, partial: 1, none: 1, late: 1 },
   labs: [
-    { lab: testLabs[0], proceduresRegistered: 4, proceduresWithData: 4, lateCount: 0, status: 'complete', missing: [], flags: [] },
+    {
+      lab: testLabs[0],
+      proceduresRegistered: 4,
+      proceduresWithData: 4,
+      lateCount: 0,
+      status: 'complete',
+      missing: [],
+      flags: [],
+    },
     {
       lab: testLabs[1],
       proceduresRegistered: 4,
       proceduresWithData: 3,
       lateCount: 2,
       status: 'partial',
-      missing: [{ procedureId: '8d7c6b5a-4e3f-4a2b-9c1d-0e9f8a7b6c01', code: 'NA-1', analyte: { code: 'NA', name: 'Sodium' } }],
+      missing: [
+        {
+          procedureId: '8d7c6b5a-4e3f-4a2b-9c1d-0e9f8a7b6c01',
+          code: 'NA-1',
+          analyte: { code: 'NA', name: 'Sodium' },
+        },
+      ],
       flags: [],
     },
-    { lab: testLabs[2], proceduresRegistered: 2, proceduresWithData: 0, lateCount: 0, status: 'none', missing: [], flags: [] },
+    {
+      lab: testLabs[2],
+      proceduresRegistered: 2,
+      proceduresWithData: 0,
+      lateCount: 0,
+      status: 'none',
+      missing: [],
+      flags: [],
+    },
   ],
 });
 
@@ -59,10 +87,16 @@ describe('participation board', () => {
 
     const table = await screen.findByRole('table', { name: 'Participation of each lab' });
     await within(table).findByText('L03');
-    const firstCodes = () => within(table).getAllByRole('row').slice(1).map((row) => within(row).getAllByRole('cell')[0].textContent?.slice(0, 3));
+    const firstCodes = () =>
+      within(table)
+        .getAllByRole('row')
+        .slice(1)
+        .map((row) => within(row).getAllByRole('cell')[0].textContent?.slice(0, 3));
     // Counts sort largest first on the first click.
     await user.click(within(table).getByRole('button', { name: /Late/ }));
-    expect(within(table).getByRole('columnheader', { name: /Late/ }).getAttribute('aria-sort')).toBe('descending');
+    expect(within(table).getByRole('columnheader', { name: /Late/ }).getAttribute('aria-sort')).toBe(
+      'descending',
+    );
     expect(firstCodes()[0]).toBe('L07');
 
     await user.selectOptions(screen.getByLabelText('Status'), 'none');

@@ -22,7 +22,11 @@ import { formatCount, formatDateTime } from '../../../utils/format.ts';
 import { participationKeys } from '../api/participation-keys.ts';
 
 type Status = ParticipationLab['status'];
-const statusLabels: Record<Status, string> = { complete: 'Complete', partial: 'Partial', none: 'Nothing yet' };
+const statusLabels: Record<Status, string> = {
+  complete: 'Complete',
+  partial: 'Partial',
+  none: 'Nothing yet',
+};
 const statusTones = { complete: 'solid', partial: 'brass', none: 'alarm' } as const;
 const statusOrder: Record<Status, number> = { none: 0, partial: 1, complete: 2 };
 
@@ -55,7 +59,10 @@ function Submitted({ lab }: { lab: ParticipationLab }) {
         {lab.proceduresWithData} / {lab.proceduresRegistered}
       </span>
       <span aria-hidden="true" className="h-1.5 w-14 overflow-hidden rounded-full bg-slate-100">
-        <span className="block h-full rounded-full bg-plumb-600" style={{ width: `${Math.round(share * 100)}%` }} />
+        <span
+          className="block h-full rounded-full bg-plumb-600"
+          style={{ width: `${Math.round(share * 100)}%` }}
+        />
       </span>
     </span>
   );
@@ -90,7 +97,8 @@ function LabDetail({ lab }: { lab: ParticipationLab }) {
             {lab.flags.map((flag, index) => (
               <li key={index}>
                 {flagLabels[flag.kind]}
-                {flag.value !== null ? <span className="figures"> ({flag.value.toFixed(2)})</span> : null}, level {flag.level}
+                {flag.value !== null ? <span className="figures"> ({flag.value.toFixed(2)})</span> : null},
+                level {flag.level}
               </li>
             ))}
           </ul>
@@ -107,7 +115,11 @@ function Totals({ board }: { board: Board }) {
     { label: 'Labs', value: board.totals.labs, tone: 'text-plumb-950' },
     { label: 'Complete', value: board.totals.complete, tone: 'text-plumb-800' },
     { label: 'Partial', value: board.totals.partial, tone: 'text-brass-700' },
-    { label: 'Nothing yet', value: board.totals.none, tone: board.totals.none > 0 ? 'text-alarm-800' : 'text-slate-700' },
+    {
+      label: 'Nothing yet',
+      value: board.totals.none,
+      tone: board.totals.none > 0 ? 'text-alarm-800' : 'text-slate-700',
+    },
     { label: 'With late data', value: board.totals.late, tone: 'text-slate-800' },
   ];
   return (
@@ -168,7 +180,9 @@ export function ParticipationBoard({ period }: { period: string }) {
     column.accessor((lab) => statusOrder[lab.status], {
       id: 'status',
       header: 'Status',
-      cell: (c) => <Badge tone={statusTones[c.row.original.status]}>{statusLabels[c.row.original.status]}</Badge>,
+      cell: (c) => (
+        <Badge tone={statusTones[c.row.original.status]}>{statusLabels[c.row.original.status]}</Badge>
+      ),
     }),
     column.accessor('proceduresWithData', {
       header: 'Submitted',
@@ -179,12 +193,20 @@ export function ParticipationBoard({ period }: { period: string }) {
       id: 'missing',
       header: 'Missing',
       meta: { align: 'right' },
-      cell: (c) => <span className={c.getValue() > 0 ? 'font-semibold text-alarm-800' : 'text-slate-400'}>{c.getValue()}</span>,
+      cell: (c) => (
+        <span className={c.getValue() > 0 ? 'font-semibold text-alarm-800' : 'text-slate-400'}>
+          {c.getValue()}
+        </span>
+      ),
     }),
     column.accessor('lateCount', {
       header: 'Late',
       meta: { align: 'right' },
-      cell: (c) => <span className={c.getValue() > 0 ? 'font-semibold text-brass-700' : 'text-slate-400'}>{c.getValue()}</span>,
+      cell: (c) => (
+        <span className={c.getValue() > 0 ? 'font-semibold text-brass-700' : 'text-slate-400'}>
+          {c.getValue()}
+        </span>
+      ),
     }),
     column.accessor((lab) => lab.flags.length, {
       id: 'flags',
@@ -251,7 +273,8 @@ export function ParticipationBoard({ period }: { period: string }) {
         {data.period.publishedAt ? (
           <>
             {' '}
-            · published <time dateTime={data.period.publishedAt}>{formatDateTime(data.period.publishedAt)}</time>
+            · published{' '}
+            <time dateTime={data.period.publishedAt}>{formatDateTime(data.period.publishedAt)}</time>
           </>
         ) : null}
         .
@@ -293,7 +316,11 @@ export function ParticipationBoard({ period }: { period: string }) {
           With late data
         </label>
         <label className="flex h-9 items-center gap-2 text-sm text-slate-700">
-          <input type="checkbox" checked={flaggedOnly} onChange={(event) => setFlaggedOnly(event.target.checked)} />
+          <input
+            type="checkbox"
+            checked={flaggedOnly}
+            onChange={(event) => setFlaggedOnly(event.target.checked)}
+          />
           With action-level flags
         </label>
       </div>
@@ -307,8 +334,8 @@ export function ParticipationBoard({ period }: { period: string }) {
       />
       {!anyFlags ? (
         <p className="text-xs text-slate-600">
-          Action-level flags (|SDI| &gt; 3, CVR &gt; 2, a lab excluded as an outlier) are listed once the period&rsquo;s
-          peer statistics are computed; none are recorded for this period.
+          Action-level flags (|SDI| &gt; 3, CVR &gt; 2, a lab excluded as an outlier) are listed once the
+          period&rsquo;s peer statistics are computed; none are recorded for this period.
         </p>
       ) : null}
     </div>

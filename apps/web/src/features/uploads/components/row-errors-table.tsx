@@ -37,7 +37,8 @@ function downloadCsv(text: string, filename: string) {
   document.body.append(link);
   link.click();
   link.remove();
-  URL.revokeObjectURL(url);
+  // Revoked a moment later: some browsers read the blob after click() returns.
+  setTimeout(() => URL.revokeObjectURL(url), 10_000);
 }
 
 /** The rejected rows of a file, sortable by each column and downloadable as CSV. */

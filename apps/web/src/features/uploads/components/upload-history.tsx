@@ -3,6 +3,7 @@ import type { UploadSummary } from '@plumbline/contracts';
 import { Alert } from '../../../components/ui/alert.tsx';
 import { Spinner } from '../../../components/ui/spinner.tsx';
 import { formatCount, formatDateTime } from '../../../utils/format.ts';
+import { isWorking } from '../api/upload-keys.ts';
 import { useUploadList } from '../hooks/use-uploads.ts';
 import { uploadKindLabels } from './upload-kind-choice.tsx';
 import { UploadStatusBadge } from './upload-status-badge.tsx';
@@ -12,11 +13,12 @@ function sender(upload: UploadSummary): string {
   return upload.uploadedBy?.name || '—';
 }
 
-/** Counts mean something only once the worker has read the file. */
+/** Counts are final only once the worker has read the whole file; a discarded file's are shown muted. */
 function RowCount({ upload, value }: { upload: UploadSummary; value: number }) {
-  if (upload.status === 'queued' || (upload.status === 'failed' && upload.rowsTotal === 0)) {
+  if (isWorking(upload.status) || (upload.status === 'failed' && upload.rowsTotal === 0)) {
     return <span className="text-slate-400">—</span>;
   }
+  if (upload.status === 'cancelled') return <span className="text-slate-400">{formatCount(value)}</span>;
   return <>{formatCount(value)}</>;
 }
 

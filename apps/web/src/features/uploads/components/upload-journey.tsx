@@ -5,7 +5,7 @@ import type { UploadKind, UploadStatus } from '@plumbline/contracts';
 import { Alert } from '../../../components/ui/alert.tsx';
 import { Button } from '../../../components/ui/button.tsx';
 import { Spinner } from '../../../components/ui/spinner.tsx';
-import { formatFileSize } from '../../../utils/format.ts';
+import { formatFileSize, formatPeriod } from '../../../utils/format.ts';
 import { useCreateUpload } from '../api/create-upload.ts';
 import { usePreviewUpload } from '../api/preview-upload.ts';
 import { samplePeriods, toColumnMapping, type MappingDraft } from '../utils/column-mapping.ts';
@@ -117,7 +117,7 @@ export function UploadJourney({ onStored }: { onStored: (periods: string[]) => v
   return (
     <section
       aria-label="Send a file"
-      className="rounded-lg border border-slate-200 bg-white p-5 shadow-xs md:p-6"
+      className="self-start rounded-lg border border-slate-200 bg-white p-5 shadow-xs md:p-6"
     >
       <StepIndicator current={currentStep} />
       <div className="mt-5 border-t border-slate-100 pt-5">
@@ -134,6 +134,11 @@ export function UploadJourney({ onStored }: { onStored: (periods: string[]) => v
               uploadId={sent.id}
               initialStatus={sent.status}
               duplicateNotice={sent.duplicateNotice}
+              storedNote={
+                sent.periods.length > 0
+                  ? `Your report for ${formatPeriod(sent.periods[sent.periods.length - 1])} now includes it.`
+                  : 'Your period report now includes it.'
+              }
               onStored={() => onStored(sent.periods)}
             />
             <Button variant="secondary" onClick={startOver}>

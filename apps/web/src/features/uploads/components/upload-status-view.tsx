@@ -115,16 +115,17 @@ function Decision({ upload }: { upload: UploadDetail }) {
   );
 }
 
-function Result({ upload }: { upload: UploadDetail }) {
+function Result({ upload, storedNote }: { upload: UploadDetail; storedNote?: string }) {
   switch (upload.status) {
     case 'stored':
       return (
         <Outcome tone="stored" title={`Stored: ${rows(upload.rowsAccepted)} accepted`}>
-          {upload.rowsRejected > 0 ? (
-            <p>{rows(upload.rowsRejected)} rejected were left out, as you chose.</p>
-          ) : (
-            <p>Every row passed the checks.</p>
-          )}
+          <p>
+            {upload.rowsRejected > 0
+              ? `${rows(upload.rowsRejected)} rejected were left out, as you chose.`
+              : 'Every row passed the checks.'}
+            {storedNote ? ` ${storedNote}` : null}
+          </p>
         </Outcome>
       );
     case 'needs-review':
@@ -155,11 +156,14 @@ export function UploadStatusView({
   uploadId,
   initialStatus,
   duplicateNotice,
+  storedNote,
   onStored,
 }: {
   uploadId: string;
   initialStatus?: UploadStatus;
   duplicateNotice?: string | null;
+  /** One more sentence for a stored upload, e.g. which report now includes it. */
+  storedNote?: string;
   onStored?: () => void;
 }) {
   const upload = useUpload(uploadId);
@@ -190,7 +194,7 @@ export function UploadStatusView({
       ) : null}
       {isWorking(data.status) ? <Working upload={data} /> : null}
       <div aria-live="polite">
-        <Result upload={data} />
+        <Result upload={data} storedNote={storedNote} />
       </div>
       {showErrors ? (
         <RowErrorsTable errors={data.errors} filename={data.filename} totalRejected={data.rowsRejected} />
