@@ -99,6 +99,7 @@ async function main() {
   const queuePrefix = `plumbline-bench-${randomBytes(4).toString('hex')}`;
   const redis = new Redis(REDIS_URL, { maxRetriesPerRequest: null });
   const db = scratch.db;
+  scratch.pool.on('error', () => {}); // dropping the database at the end ends its connections
 
   // Catalogue: invented names; one control lot with two levels.
   const [material] = await db.insert(controlMaterials).values({ code: 'BENCH-CM', name: 'Bench control material' }).returning();
@@ -171,12 +172,21 @@ async function main() {
     stdio: ['ignore', 'pipe', 'inherit'],
   });
   let workerOutput = '';
-  worker.stdout!.on('data', (d: Buffer) => (workerOutput += d.toString()));
+  worker.stdout!.on('data', (d: Buffer) => {
+    workerOutput += d.toString();
+    if (process.env.BENCH_DEBUG) process.stdout.write(d);
+  });
   while (!/worker: ready/.test(workerOutput)) {
     if (worker.exitCode !== null) throw new Error(`worker exited:\n${workerOutput}`);
     await new Promise((r) => setTimeout(r, 50));
   }
 
+  if (process.env.BENCH_DEBUG) {
+    setTimeout(async () => {
+      const { rows } = await scratch.pool.query(`select pid, state, wait_event_type, wait_event, left(query, 120) as q from pg_stat_activity where datname = current_database()`);
+      console.log(rows);
+    }, 6000).unref();
+  }
   log(`uploading ${LAB_COUNT} files through the API (${UPLOADS_IN_FLIGHT} in flight, worker concurrency ${CONCURRENCY})`);
   const started = performance.now();
   let nextLab = 0;

@@ -34,8 +34,9 @@ describe.skipIf(!chromiumAvailable())('signing in through the browser', () => {
         await page.getByRole('button', { name: 'Sign in' }).click();
         await page.waitForURL(`${server.url}${home.path}`);
         const nav = page.getByRole('navigation').first();
-        await expect(nav.getByRole('link', { name: home.nav })).toBeTruthy();
-        expect(await nav.getByRole('link', { name: home.nav }).count()).toBe(1);
+        // The navigation renders once the session's user is loaded: wait for it before counting links.
+        await nav.getByRole('link', { name: home.nav, exact: true }).waitFor();
+        expect(await nav.getByRole('link', { name: home.nav, exact: true }).count()).toBe(1);
         expect(await nav.getByRole('link', { name: home.absent, exact: true }).count()).toBe(0);
         expect(await page.getByText(/do not replace, the laboratory director/).count()).toBeGreaterThan(0);
         await snap(page, `home-${home.role}`);

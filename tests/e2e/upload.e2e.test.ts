@@ -186,13 +186,11 @@ describe.skipIf(!chromiumAvailable())('uploading a month of control data through
 
       // The corrected file, chosen with the file picker: the lab's mapping is remembered.
       await page.getByRole('button', { name: 'Send another file' }).click();
-      await page
-        .getByLabel('Choose a file')
-        .setInputFiles({
-          name: 'pl003-december-fixed.csv',
-          mimeType: 'text/csv',
-          buffer: Buffer.from(fixedFile),
-        });
+      await page.getByLabel('Choose a file').setInputFiles({
+        name: 'pl003-december-fixed.csv',
+        mimeType: 'text/csv',
+        buffer: Buffer.from(fixedFile),
+      });
       await page.getByRole('heading', { name: 'Match the columns of pl003-december-fixed.csv' }).waitFor();
       expect(await page.getByLabel('procedure', { exact: true }).inputValue()).toBe('Assay code');
       await page.getByText(/saved column choices are filled in/).waitFor();

@@ -15,6 +15,8 @@ import { auditRouter } from './modules/audit/audit.router.ts';
 import { catalogueAdminRouter } from './modules/catalogue-admin/catalogue-admin.router.ts';
 import { networkLabsRouter } from './modules/network-labs/network-labs.router.ts';
 import { cyclesRouter } from './modules/cycles/cycles.router.ts';
+import { peerGroupsRouter } from './modules/peer-groups/peer-groups.router.ts';
+import { publishingRouter } from './modules/publishing/publishing.router.ts';
 
 /** Builds the HTTP app (never listens, so tests drive it in-process). */
 export function createApp(deps: AppDeps): Express {
@@ -41,6 +43,8 @@ export function createApp(deps: AppDeps): Express {
   api.use(catalogueAdminRouter(deps, requireUser));
   api.use(networkLabsRouter(deps, requireUser));
   api.use(cyclesRouter(deps, requireUser));
+  api.use(peerGroupsRouter(deps, requireUser));
+  api.use(publishingRouter(deps, requireUser));
   api.use(notFoundHandler);
   api.use(errorHandler);
   app.use('/api', api);

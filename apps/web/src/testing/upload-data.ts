@@ -91,6 +91,7 @@ export function buildPeerReport(
     period,
     lab: buildMe('analyst').lab,
     published: null,
+    statisticsPending: false,
     rows: rows.map((row, index) => ({
       procedure: {
         id: `7e1f0c2a-5b3d-4e8f-9a1b-2c3d4e5f60${String(index).padStart(2, '0')}`,

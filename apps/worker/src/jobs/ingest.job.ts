@@ -58,6 +58,7 @@ export async function processUpload(
     await Promise.all([reportProgress(clamped), repo.saveProgress(deps.db, uploadId, clamped)]);
   };
 
+  const t0 = performance.now();
   let read: ReadResult;
   try {
     read = await readUpload(deps, upload, (fraction) => progress(0.6 * fraction));
@@ -82,10 +83,11 @@ export async function processUpload(
   }
 
   await progress(0.6, true);
+  const t1 = performance.now();
   const stored = await storeInOneTransaction(deps, upload, read, counts, (fraction) => progress(0.6 + 0.4 * fraction));
   if (!stored) return 'skipped';
   await reportProgress(1);
-  log(`upload ${uploadId}: stored ${read.rowsAccepted} rows`);
+  log(`upload ${uploadId}: stored ${read.rowsAccepted} rows (read ${Math.round(t1 - t0)} ms, store ${Math.round(performance.now() - t1)} ms)`);
   return 'stored';
 }
 
@@ -249,9 +251,11 @@ function resolveColumns(
 }
 
 /**
- * Writes the accepted rows, the upload's counts and the recompute requests in one transaction: the file
- * is stored whole or not at all. The upload row is locked first, so two runs of the same upload (a
- * duplicate job, a stalled one retried) cannot both store it, and a cancel waits for the outcome.
+ * Writes the accepted rows, the upload's counts, its 'stored' status and the recompute requests in one
+ * transaction: the file is stored whole or not at all. Just before COMMIT the upload row is locked and
+ * checked, so two runs of the same upload (a duplicate job, a stalled one retried) cannot both store it,
+ * and an upload cancelled meanwhile stores nothing. (The row is not locked earlier: progress updates
+ * from outside the transaction keep writing to it while the rows go in.)
  */
 async function storeInOneTransaction(
   deps: IngestDeps,
@@ -264,15 +268,6 @@ async function storeInOneTransaction(
   let broken = false;
   try {
     await client.query('begin');
-    const locked = await client.query<{ status: string; stored_at: Date | null }>(
-      'select status, stored_at from uploads where id = $1 for update',
-      [upload.id],
-    );
-    const current = locked.rows[0];
-    if (!current || current.status !== 'processing' || current.stored_at) {
-      await client.query('rollback');
-      return false;
-    }
     const tx = dbOnClient(client);
     const ctx: StoreContext = {
       tx,
@@ -284,9 +279,19 @@ async function storeInOneTransaction(
     };
     const { replaced } =
       upload.kind === 'qc-summary' ? await storeSummaries(ctx, read.summaries) : await storeValues(ctx, read.values, onFraction);
+
+    const locked = await client.query<{ status: string; stored_at: Date | null }>(
+      'select status, stored_at from uploads where id = $1 for update',
+      [upload.id],
+    );
+    const current = locked.rows[0];
+    if (!current || current.status !== 'processing' || current.stored_at) {
+      await client.query('rollback');
+      return false;
+    }
     await client.query(
-      `update uploads set status = 'stored', stored_at = now(), progress = 1, rows_total = $2, rows_accepted = $3, rows_rejected = $4,
-              errors = $5::jsonb, updated_at = now() where id = $1`,
+      `update uploads set status = 'stored', stored_at = now(), progress = 1, rows_total = $2, rows_accepted = $3,
+              rows_rejected = $4, errors = $5::jsonb, updated_at = now() where id = $1`,
       [upload.id, counts.rowsTotal, counts.rowsAccepted, counts.rowsRejected, JSON.stringify(read.errors)],
     );
     await recordAudit(tx, {

@@ -25,7 +25,9 @@ export function createPeerStatisticsDrainer(
     do {
       again = false;
       try {
+        const started = performance.now();
         await drainPeerStatisticsUntilIdle(db, settings);
+        log(`peer statistics: recomputed in ${Math.round(performance.now() - started)} ms`);
       } catch (error) {
         // The requests stay in PostgreSQL; the next kick or the recovery sweep retries them.
         log(`peer statistics: recompute failed: ${(error as Error).message}`);

@@ -1,18 +1,46 @@
-import type { Executor } from '@plumbline/db';
+import type { Database } from '@plumbline/db';
 import type { ParticipationFlag } from '@plumbline/contracts';
+import type { Principal } from '../../auth/principal.ts';
+import { buildPeerReport } from '../peer-report/peer-report.service.ts';
+
+/** Action-level bounds (METHODS.md §3; common practice with no single published source). */
+const SDI_ACTION = 3;
+const CVR_ACTION = 2;
 
 /**
- * EXTENSION POINT for the participation board: action-level flags per lab for a period —
- * |SDI| > 3, CVR > 2, or the lab's data excluded as an outlier from the peer figures.
- *
- * These need the peer statistics of the period (peer mean, SD and CV per group and level, and the
- * exclusions they record), which the peer-statistics recompute produces. Until that is wired in,
- * no flags are reported: the board shows participation only. Replace the body, keep the signature.
+ * Reads every lab's report with the coordinator's rights; the board is coordinator-only, and the
+ * report checks nothing but the role for a coordinator.
+ */
+const boardReader: Principal = {
+  kind: 'user',
+  userId: 'participation-board',
+  role: 'coordinator',
+  labId: null,
+  jti: 'participation-board',
+  expiresAt: new Date(8.64e15),
+};
+
+/**
+ * Action-level flags per lab for a period — |SDI| > 3, CVR > 2, or the lab's data excluded as an
+ * outlier from the peer figures — taken from the same report rows the lab itself sees (the published
+ * version once the period is published, the provisional figures before).
  */
 export async function participationFlags(
-  _db: Executor,
-  _period: string,
+  db: Database,
+  period: string,
   labIds: readonly string[],
 ): Promise<Map<string, ParticipationFlag[]>> {
-  return new Map(labIds.map((id) => [id, []]));
+  const flags = new Map<string, ParticipationFlag[]>();
+  for (const labId of labIds) {
+    const report = await buildPeerReport(db, boardReader, labId, period);
+    const found: ParticipationFlag[] = [];
+    for (const row of report.rows) {
+      const where = { procedureId: row.procedure.id, controlLotId: row.controlLot.id, level: row.level };
+      if (row.sdi !== null && Math.abs(row.sdi) > SDI_ACTION) found.push({ kind: 'sdi', ...where, value: row.sdi });
+      if (row.cvr !== null && row.cvr > CVR_ACTION) found.push({ kind: 'cvr', ...where, value: row.cvr });
+      if (row.excluded?.reason === 'outlier') found.push({ kind: 'excluded-outlier', ...where, value: null });
+    }
+    flags.set(labId, found);
+  }
+  return flags;
 }

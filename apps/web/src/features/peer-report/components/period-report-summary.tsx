@@ -12,6 +12,7 @@ import { peerReportKeys } from '../api/peer-report-keys.ts';
 import { defaultReportPeriod } from '../utils/default-period.ts';
 
 const ROWS_SHOWN = 6;
+const STATISTICS_POLL_MS = 2000;
 
 function periodStateText(period: Period): string {
   if (period.state === 'published') return 'Peer figures published';
@@ -47,6 +48,12 @@ function ReportFigures({ report }: { report: PeerReport }) {
     );
   }
   const compared = rows.filter((row) => row.peer !== null).length;
+  const pending = report.statisticsPending ? (
+    <p className="mt-3 flex items-center gap-2 text-xs text-slate-600">
+      <Spinner className="size-3.5" />
+      Peer figures are being recomputed with the new data.
+    </p>
+  ) : null;
   const flagged = rows.filter(needsAttention).length;
   return (
     <>
@@ -55,6 +62,7 @@ function ReportFigures({ report }: { report: PeerReport }) {
         <Figure value={compared} label="compared with peers" />
         <Figure value={flagged} label="with a flag to look at" />
       </dl>
+      {pending}
       <table className="mt-4 w-full text-left text-sm">
         <caption className="sr-only">First results of {formatPeriod(report.period)}</caption>
         <thead>
@@ -123,6 +131,8 @@ export function PeriodReportSummary({
   const report = useQuery({
     ...peerReportKeys.detail({ labId, period: chosen ?? '' }),
     enabled: chosen !== null,
+    // Newly stored data is folded into the peer figures within seconds: ask again until it is.
+    refetchInterval: (query) => (query.state.data?.statisticsPending ? STATISTICS_POLL_MS : false),
   });
   const chosenPeriod = list.find((p) => p.period === chosen);
   // A period named by an upload but not (yet) in the list still gets an option.
