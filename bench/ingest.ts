@@ -45,6 +45,7 @@ import { newLabToken } from '../apps/api/src/auth/lab-tokens.ts';
 const args = new Map(process.argv.slice(2).map((a) => a.replace(/^--/, '').split('=') as [string, string]));
 const LAB_COUNT = Number(args.get('labs') ?? 500);
 const CONCURRENCY = Number(args.get('concurrency') ?? 2);
+const WORKERS = Number(args.get('workers') ?? 1);
 const ANALYTES = 25;
 const LEVELS = [1, 2];
 const DAYS = 20;
@@ -157,37 +158,43 @@ async function main() {
   await once(server, 'listening');
   const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 
-  const worker = spawn(process.execPath, ['--import', 'tsx', join(repoRoot, 'apps/worker/src/main.ts')], {
-    cwd: repoRoot,
-    env: {
-      ...process.env,
-      NODE_ENV: 'production',
-      DATABASE_URL: scratch.url,
-      REDIS_URL,
-      QUEUE_PREFIX: queuePrefix,
-      STORAGE_DIR: env.STORAGE_DIR,
-      S3_BUCKET: '',
-      INGEST_CONCURRENCY: String(CONCURRENCY),
-    },
-    stdio: ['ignore', 'pipe', 'inherit'],
+  const nodeArgs = process.env.BENCH_WORKER_NODE_ARGS ? process.env.BENCH_WORKER_NODE_ARGS.split(' ') : [];
+  const workers = Array.from({ length: WORKERS }, () => {
+    const child = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', join(repoRoot, 'apps/worker/src/main.ts')], {
+      cwd: repoRoot,
+      env: {
+        ...process.env,
+        NODE_ENV: 'production',
+        DATABASE_URL: scratch.url,
+        REDIS_URL,
+        QUEUE_PREFIX: queuePrefix,
+        STORAGE_DIR: env.STORAGE_DIR,
+        S3_BUCKET: '',
+        INGEST_CONCURRENCY: String(CONCURRENCY),
+      },
+      stdio: ['ignore', 'pipe', 'inherit'],
+    });
+    const state = { child, output: '' };
+    child.stdout!.on('data', (d: Buffer) => {
+      state.output += d.toString();
+      if (process.env.BENCH_DEBUG) process.stdout.write(d);
+    });
+    return state;
   });
-  let workerOutput = '';
-  worker.stdout!.on('data', (d: Buffer) => {
-    workerOutput += d.toString();
-    if (process.env.BENCH_DEBUG) process.stdout.write(d);
-  });
-  while (!/worker: ready/.test(workerOutput)) {
-    if (worker.exitCode !== null) throw new Error(`worker exited:\n${workerOutput}`);
-    await new Promise((r) => setTimeout(r, 50));
+  const workerOutput = () => workers.map((w) => w.output).join('\n');
+  for (const w of workers) {
+    while (!/worker: ready/.test(w.output)) {
+      if (w.child.exitCode !== null) throw new Error(`worker exited:\n${w.output}`);
+      await new Promise((r) => setTimeout(r, 50));
+    }
   }
-
   if (process.env.BENCH_DEBUG) {
     setTimeout(async () => {
       const { rows } = await scratch.pool.query(`select pid, state, wait_event_type, wait_event, left(query, 120) as q from pg_stat_activity where datname = current_database()`);
       console.log(rows);
     }, 6000).unref();
   }
-  log(`uploading ${LAB_COUNT} files through the API (${UPLOADS_IN_FLIGHT} in flight, worker concurrency ${CONCURRENCY})`);
+  log(`uploading ${LAB_COUNT} files through the API (${UPLOADS_IN_FLIGHT} in flight; ${WORKERS} worker process(es), ${CONCURRENCY} jobs each)`);
   const started = performance.now();
   let nextLab = 0;
   const ids: string[] = [];
@@ -219,13 +226,19 @@ async function main() {
          from uploads`,
     );
     const { stored, failed, pending } = rows[0];
-    if (failed > 0) throw new Error(`${failed} upload(s) did not store:\n${workerOutput}`);
+    if (failed > 0) throw new Error(`${failed} upload(s) did not store:\n${workerOutput()}`);
     if (stored === LAB_COUNT && !storedAt) storedAt = performance.now();
     if (stored === LAB_COUNT && pending === 0) break;
     await new Promise((r) => setTimeout(r, 100));
   }
   const finished = performance.now();
-  const peakRssKb = Number(/VmHWM:\s+(\d+)/.exec(readFileSync(`/proc/${worker.pid}/status`, 'utf8'))?.[1] ?? NaN);
+  const cpuSeconds = workers.map((w) => {
+    const [utime, stime] = readFileSync(`/proc/${w.child.pid}/stat`, 'utf8').split(') ')[1].split(' ').slice(11, 13).map(Number);
+    return (utime + stime) / 100;
+  });
+  const peakRssKb = Math.max(
+    ...workers.map((w) => Number(/VmHWM:\s+(\d+)/.exec(readFileSync(`/proc/${w.child.pid}/status`, 'utf8'))?.[1] ?? NaN)),
+  );
 
   const check = await db.execute<{ values: number; summaries: number; statistics: number }>(sql`
     select (select count(*)::int from qc_values) as "values", (select count(*)::int from qc_summaries) as summaries,
@@ -252,11 +265,14 @@ async function main() {
   console.log(`  peer statistics recomputed         ${seconds(pipelineMs)}  (${counts.summaries.toLocaleString('en')} monthly summaries, ${counts.statistics.toLocaleString('en')} peer statistic rows)`);
   console.log(`  PostgreSQL COPY, same rows         ${seconds(copyMs)}`);
   console.log(`  ratio pipeline / COPY              ${(pipelineMs / copyMs).toFixed(2)}  (target ≤ 2.0)`);
-  console.log(`  worker peak RSS                    ${(peakRssKb / 1024).toFixed(0)} MB  (target ≤ 512 MB)`);
+  console.log(`  worker peak RSS                    ${(peakRssKb / 1024).toFixed(0)} MB  (target ≤ 512 MB; the largest of ${WORKERS} process(es))`);
+  console.log(`  worker CPU time                    ${cpuSeconds.map((c) => `${c.toFixed(1)} s`).join(' + ')}`);
   console.log('');
 
-  worker.kill('SIGTERM');
-  await once(worker, 'exit');
+  for (const w of workers) {
+    w.child.kill('SIGTERM');
+    await once(w.child, 'exit');
+  }
   server.close();
   await ingestQueue.close();
   redis.disconnect();

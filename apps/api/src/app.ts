@@ -17,6 +17,11 @@ import { networkLabsRouter } from './modules/network-labs/network-labs.router.ts
 import { cyclesRouter } from './modules/cycles/cycles.router.ts';
 import { peerGroupsRouter } from './modules/peer-groups/peer-groups.router.ts';
 import { publishingRouter } from './modules/publishing/publishing.router.ts';
+import { labOverviewRouter } from './modules/lab-overview/lab-overview.router.ts';
+import { labReviewRouter } from './modules/lab-review/lab-review.router.ts';
+import { labProceduresRouter } from './modules/lab-procedures/lab-procedures.router.ts';
+import { reportDrilldownRouter } from './modules/report-drilldown/report-drilldown.router.ts';
+import { reportExportRouter } from './modules/report-export/report-export.router.ts';
 
 /** Builds the HTTP app (never listens, so tests drive it in-process). */
 export function createApp(deps: AppDeps): Express {
@@ -45,6 +50,11 @@ export function createApp(deps: AppDeps): Express {
   api.use(cyclesRouter(deps, requireUser));
   api.use(peerGroupsRouter(deps, requireUser));
   api.use(publishingRouter(deps, requireUser));
+  api.use(labOverviewRouter(deps, requireUser));
+  api.use(labReviewRouter(deps, requireUser));
+  api.use(labProceduresRouter(deps, requireUser));
+  api.use(reportDrilldownRouter(deps, requireUser));
+  api.use(reportExportRouter(deps, requireUser));
   api.use(notFoundHandler);
   api.use(errorHandler);
   app.use('/api', api);

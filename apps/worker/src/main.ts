@@ -23,6 +23,8 @@ const ingest = startIngestWorker(
     prefix: env.QUEUE_PREFIX,
     concurrency: env.INGEST_CONCURRENCY,
     recoveryIntervalMs: env.RECOVERY_INTERVAL_MS,
+    recomputeDelayMs: env.PEER_RECOMPUTE_DELAY_MS,
+    recomputeMaxWaitMs: env.PEER_RECOMPUTE_MAX_WAIT_MS,
     lockDurationMs: env.INGEST_LOCK_MS,
     stalledIntervalMs: env.INGEST_STALLED_CHECK_MS,
   },

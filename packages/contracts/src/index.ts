@@ -13,3 +13,4 @@ export * from './peer-report.ts';
 export * from './lab-tokens.ts';
 export * from './peer-groups.ts';
 export * from './publishing.ts';
+export * from './lab-workspace.ts';

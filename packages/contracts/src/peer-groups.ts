@@ -78,7 +78,13 @@ export const peerGroupMemberSchema = z.object({
   assigned: z.boolean(),
   /** The member's figures for the level and period; null when it sent none. */
   data: z
-    .object({ n: z.number().int(), mean: z.number(), sd: z.number(), cv: z.number().nullable(), late: z.boolean() })
+    .object({
+      n: z.number().int(),
+      mean: z.number(),
+      sd: z.number(),
+      cv: z.number().nullable(),
+      late: z.boolean(),
+    })
     .nullable(),
   /** Left out of the group's provisional figures, and why. */
   excluded: z.object({ reason: excludedReasonSchema, note: z.string().nullable() }).nullable(),
@@ -117,7 +123,13 @@ export type PeerExclusion = z.infer<typeof peerExclusionSchema>;
 
 export const peerGroupsViewSchema = z.object({
   controlLot: z.object({ id: uuidSchema, lotNumber: z.string(), levels: z.array(z.number().int()) }),
-  analyte: z.object({ id: uuidSchema, code: z.string(), name: z.string(), unit: z.string(), decimals: z.number().int() }),
+  analyte: z.object({
+    id: uuidSchema,
+    code: z.string(),
+    name: z.string(),
+    unit: z.string(),
+    decimals: z.number().int(),
+  }),
   level: z.number().int(),
   period: periodKeySchema,
   /** Null when no such period exists. */
@@ -182,7 +194,9 @@ export const exclusionRequestSchema = z.object({
   reason: adjustmentReasonSchema,
 });
 /** The reason is optional here; when given, the preview shows it as the exclusion's note. */
-export const exclusionPreviewRequestSchema = exclusionRequestSchema.extend({ reason: z.string().trim().max(500).optional() });
+export const exclusionPreviewRequestSchema = exclusionRequestSchema.extend({
+  reason: z.string().trim().max(500).optional(),
+});
 export type ExclusionRequest = z.infer<typeof exclusionRequestSchema>;
 export type ExclusionPreviewRequest = z.infer<typeof exclusionPreviewRequestSchema>;
 
@@ -203,7 +217,11 @@ export const adjustmentPreviewSchema = z.object({
   description: z.string(),
   period: periodKeySchema,
   levels: z.array(
-    z.object({ level: z.number().int(), before: z.array(previewGroupSchema), after: z.array(previewGroupSchema) }),
+    z.object({
+      level: z.number().int(),
+      before: z.array(previewGroupSchema),
+      after: z.array(previewGroupSchema),
+    }),
   ),
 });
 export type AdjustmentPreview = z.infer<typeof adjustmentPreviewSchema>;
@@ -221,7 +239,11 @@ export const peerGroupAdjustmentSchema = z.object({
   /** Exclusions only. */
   period: periodKeySchema.nullable(),
   undone: z
-    .object({ at: z.string(), actor: z.object({ id: uuidSchema, name: z.string() }).nullable(), reason: z.string().nullable() })
+    .object({
+      at: z.string(),
+      actor: z.object({ id: uuidSchema, name: z.string() }).nullable(),
+      reason: z.string().nullable(),
+    })
     .nullable(),
 });
 export type PeerGroupAdjustment = z.infer<typeof peerGroupAdjustmentSchema>;

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { periodKeySchema, uuidSchema } from './common.ts';
+import { preferredUnitsSchema } from './network-labs.ts';
 
 /** Peer tiers, narrowest first: instrument model + method + reagent; method; every procedure for the analyte. */
 export const peerTiers = ['instrument', 'method', 'analyte'] as const;
@@ -40,8 +41,15 @@ export const peerReportRowSchema = z.object({
   }),
   controlLot: z.object({ id: uuidSchema, lotNumber: z.string() }),
   level: z.number().int(),
-  /** The analyte's canonical unit, in which every figure of the row is given. */
+  /**
+   * The unit in which the row's means and SDs are given: the analyte's canonical unit, or its conventional
+   * unit when the report is read in conventional units (CV, SDI, CVR, bias % and sigma are unit-free).
+   */
   unit: z.string(),
+  /** The analyte's canonical (SI) unit, in which the data is stored. */
+  canonicalUnit: z.string(),
+  /** Decimals to show means and SDs with in `unit` (the analyte's decimals, adjusted by the conversion factor). */
+  decimals: z.number().int(),
   /** 'summary' (uploaded as a monthly summary) or 'values' (derived from daily values). */
   source: z.enum(['summary', 'values']),
   /** The data arrived after the period was closed. */
@@ -70,6 +78,8 @@ export type PeerReportRow = z.infer<typeof peerReportRowSchema>;
 export const peerReportSchema = z.object({
   period: periodKeySchema,
   lab: z.object({ id: uuidSchema, code: z.string(), name: z.string() }),
+  /** The unit system the means and SDs are shown in (the query's `units`, else the lab's preference). */
+  units: preferredUnitsSchema,
   /** The published snapshot the peer figures come from; null while they are provisional. */
   published: z.object({ version: z.number().int(), publishedAt: z.string() }).nullable(),
   /**
@@ -81,4 +91,8 @@ export const peerReportSchema = z.object({
 });
 export type PeerReport = z.infer<typeof peerReportSchema>;
 
-export const peerReportQuerySchema = z.object({ period: periodKeySchema });
+export const peerReportQuerySchema = z.object({
+  period: periodKeySchema,
+  /** 'si' or 'conventional'; default: the lab's preferred units. */
+  units: preferredUnitsSchema.optional(),
+});

@@ -48,6 +48,7 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
                 { path: paths.lab.overview.path, lazy: page(() => import('./routes/lab/overview.tsx')) },
                 { path: paths.lab.uploads.path, lazy: page(() => import('./routes/lab/uploads.tsx')) },
                 { path: paths.lab.peerReport.path, lazy: page(() => import('./routes/lab/peer-report.tsx')) },
+                { path: paths.lab.reportRow.path, lazy: page(() => import('./routes/lab/report-row.tsx')) },
                 {
                   element: <RequireRole policy="labManagement" />,
                   children: [

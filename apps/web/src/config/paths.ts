@@ -8,6 +8,15 @@ export function isSafeReturnPath(value: string | null | undefined): value is str
   );
 }
 
+/** Adds the given query parameters (those with a value) to a path. */
+function withSearch(path: string, search: Record<string, string | undefined> | undefined): string {
+  if (!search) return path;
+  const params = new URLSearchParams();
+  for (const [key, value] of Object.entries(search)) if (value) params.set(key, value);
+  const text = params.toString();
+  return text ? `${path}?${text}` : path;
+}
+
 export const paths = {
   home: {
     path: '/',
@@ -33,7 +42,23 @@ export const paths = {
   lab: {
     overview: { path: '/lab', getHref: () => '/lab' },
     uploads: { path: '/lab/uploads', getHref: () => '/lab/uploads' },
-    peerReport: { path: '/lab/peer-report', getHref: () => '/lab/peer-report' },
+    peerReport: {
+      path: '/lab/peer-report',
+      /** `search` keeps the period, units and filters when coming back from a row's details. */
+      getHref: (search?: Record<string, string | undefined>) => withSearch('/lab/peer-report', search),
+    },
+    /** One report row's details: trend, peer distribution, two-level plot, control chart, comments. */
+    reportRow: {
+      path: '/lab/peer-report/:procedureId/:controlLotId/:level',
+      getHref: (
+        row: { procedureId: string; controlLotId: string; level: number | string },
+        search?: Record<string, string | undefined>,
+      ) =>
+        withSearch(
+          `/lab/peer-report/${encodeURIComponent(row.procedureId)}/${encodeURIComponent(row.controlLotId)}/${encodeURIComponent(String(row.level))}`,
+          search,
+        ),
+    },
     procedures: { path: '/lab/procedures', getHref: () => '/lab/procedures' },
     administration: { path: '/lab/administration', getHref: () => '/lab/administration' },
   },

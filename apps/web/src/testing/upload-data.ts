@@ -90,6 +90,7 @@ export function buildPeerReport(
   return peerReportSchema.parse({
     period,
     lab: buildMe('analyst').lab,
+    units: 'si',
     published: null,
     statisticsPending: false,
     rows: rows.map((row, index) => ({
@@ -101,6 +102,8 @@ export function buildPeerReport(
       controlLot: { id: '5a4b3c2d-1e0f-4a9b-8c7d-6e5f4a3b2c1d', lotNumber: 'PGC-26187' },
       level: row.level,
       unit: 'mmol/L',
+      canonicalUnit: 'mmol/L',
+      decimals: 2,
       source: 'summary',
       late: false,
       lab: { n: 31, mean: row.mean, sd: 0.05, cv: 1.2 },

@@ -2,7 +2,7 @@ import { z } from 'zod';
 import type { RowError, RowErrorCode } from '@plumbline/contracts';
 import { parseDecimal, parseWholeNumber } from './numbers.ts';
 import { parseMeasuredAt } from './timestamps.ts';
-import { normalizeUnit, type UnitConverter } from './units.ts';
+import { normalizeUnit, type Conversion, type UnitConverter } from './units.ts';
 
 /** A lab's procedure as the rows refer to it by code. */
 export type ProcedureInfo = {
@@ -30,91 +30,97 @@ export type RowContext = {
 export const MAX_COMMENT_LENGTH = 500;
 const PERIOD = /^(\d{4})-(0[1-9]|1[0-2])$/;
 
-/** Adds an issue carrying our row error code; zod keeps the field path. */
-function reject(ctx: z.RefinementCtx, code: RowErrorCode, message: string, path?: string[]): typeof z.NEVER {
-  ctx.addIssue({ code: 'custom', message, params: { code }, ...(path ? { path } : {}) });
-  return z.NEVER;
+/**
+ * The rows are checked with one zod schema per file kind: an object of text cells, then one transform
+ * that checks every cell (in column order, all problems of a row reported) and resolves codes to the
+ * catalogue. Field-by-field zod pipes cost several times more per row; a file can have a million rows.
+ */
+type Ctx = z.RefinementCtx;
+
+/** Adds an issue carrying our row error code and the column; returns undefined for the caller's value. */
+function reject(ctx: Ctx, column: string, code: RowErrorCode, message: string): undefined {
+  ctx.addIssue({ code: 'custom', message, params: { code }, path: [column] });
+  return undefined;
 }
 
-const cell = z.string().optional().default('');
+function requiredText(ctx: Ctx, column: string, text: string): string | undefined {
+  const value = text.trim();
+  if (value === '') return reject(ctx, column, 'required', `${column} is empty`);
+  return value;
+}
 
-const required = (name: string) =>
-  cell.transform((text, ctx) => {
-    const value = text.trim();
-    if (value === '') return reject(ctx, 'required', `${name} is empty`);
-    return value;
-  });
+function wholeNumberCell(ctx: Ctx, column: string, text: string, min: number, tooSmall: RowErrorCode): number | undefined {
+  const t = requiredText(ctx, column, text);
+  if (t === undefined) return undefined;
+  const value = parseWholeNumber(t);
+  if (value === null) return reject(ctx, column, 'invalid_integer', `${column} "${t}" is not a whole number`);
+  if (value < min) return reject(ctx, column, tooSmall, `${column} must be at least ${min}, got ${value}`);
+  return value;
+}
 
-const wholeNumber = (name: string, min: number, tooSmall: RowErrorCode) =>
-  required(name).transform((text, ctx) => {
-    const value = parseWholeNumber(text);
-    if (value === null) return reject(ctx, 'invalid_integer', `${name} "${text}" is not a whole number`);
-    if (value < min) return reject(ctx, tooSmall, `${name} must be at least ${min}, got ${value}`);
-    return value;
-  });
-
-const decimal = (name: string, context: RowContext) =>
-  required(name).transform((text, ctx) => {
-    const value = parseDecimal(text, context.decimalComma);
-    if (value === null) {
-      const hint = !context.decimalComma && /^\s*[+-]?\d+,\d+\s*$/.test(text)
+function decimalCell(ctx: Ctx, column: string, text: string, context: RowContext): number | undefined {
+  const t = requiredText(ctx, column, text);
+  if (t === undefined) return undefined;
+  const value = parseDecimal(t, context.decimalComma);
+  if (value === null) {
+    const hint =
+      !context.decimalComma && /^[+-]?\d+,\d+$/.test(t)
         ? ' (a decimal comma is read only in semicolon-separated files; use a decimal point)'
         : '';
-      return reject(ctx, 'invalid_number', `${name} "${text}" is not a number${hint}`);
-    }
-    return value;
-  });
+    return reject(ctx, column, 'invalid_number', `${column} "${t}" is not a number${hint}`);
+  }
+  return value;
+}
 
-const procedureField = (context: RowContext) =>
-  required('procedure').transform((code, ctx) => {
-    const procedure = context.procedures.get(code) ?? context.procedures.get(code.toUpperCase());
-    if (!procedure) {
-      return reject(ctx, 'unknown_procedure', `"${code}" is not a registered measurement procedure of this lab`);
-    }
-    return procedure;
-  });
+function procedureCell(ctx: Ctx, text: string, context: RowContext): ProcedureInfo | undefined {
+  const code = requiredText(ctx, 'procedure', text);
+  if (code === undefined) return undefined;
+  const procedure = context.procedures.get(code) ?? context.procedures.get(code.toUpperCase());
+  if (!procedure) {
+    return reject(ctx, 'procedure', 'unknown_procedure', `"${code}" is not a registered measurement procedure of this lab`);
+  }
+  return procedure;
+}
 
-const lotField = (context: RowContext) =>
-  required('control_lot').transform((lotNumber, ctx) => {
-    const lot = context.lots.get(lotNumber);
-    if (!lot) return reject(ctx, 'unknown_control_lot', `control lot "${lotNumber}" is not in the network's catalogue`);
-    return lot;
-  });
+function lotCell(ctx: Ctx, text: string, context: RowContext): LotInfo | undefined {
+  const lotNumber = requiredText(ctx, 'control_lot', text);
+  if (lotNumber === undefined) return undefined;
+  const lot = context.lots.get(lotNumber);
+  if (!lot) return reject(ctx, 'control_lot', 'unknown_control_lot', `control lot "${lotNumber}" is not in the network's catalogue`);
+  return lot;
+}
 
-const periodField = (context: RowContext) =>
-  required('period').transform((text, ctx) => {
-    if (!PERIOD.test(text)) return reject(ctx, 'invalid_period', `period "${text}" is not a month written as YYYY-MM`);
-    const period = context.periods.get(text);
-    if (!period) return reject(ctx, 'unknown_period', `${text} is not a cycle of the network`);
-    return period;
-  });
+function periodCell(ctx: Ctx, text: string, context: RowContext): PeriodInfo | undefined {
+  const value = requiredText(ctx, 'period', text);
+  if (value === undefined) return undefined;
+  if (!PERIOD.test(value)) return reject(ctx, 'period', 'invalid_period', `period "${value}" is not a month written as YYYY-MM`);
+  const period = context.periods.get(value);
+  if (!period) return reject(ctx, 'period', 'unknown_period', `${value} is not a cycle of the network`);
+  return period;
+}
 
-const unitField = (context: RowContext) =>
-  required('unit').transform((text, ctx) => {
-    const unit = normalizeUnit(text);
-    const problem = context.units.problemWithUnit(unit);
-    if (problem) return reject(ctx, 'invalid_unit', problem);
-    return unit;
-  });
+function unitCell(ctx: Ctx, text: string, context: RowContext): string | undefined {
+  const value = requiredText(ctx, 'unit', text);
+  if (value === undefined) return undefined;
+  const unit = normalizeUnit(value);
+  const problem = context.units.problemWithUnit(unit);
+  if (problem) return reject(ctx, 'unit', 'invalid_unit', problem);
+  return unit;
+}
 
 /** Level known for the lot, and a unit convertible to the analyte's: the conversion, or null after adding issues. */
-function checkLevelAndUnit(
-  row: { procedure: ProcedureInfo; control_lot: LotInfo; level: number; unit: string },
+function levelAndUnit(
+  ctx: Ctx,
+  row: { procedure: ProcedureInfo; lot: LotInfo; level: number; unit: string },
   context: RowContext,
-  ctx: z.RefinementCtx,
-) {
-  const levelKnown = row.control_lot.levels.includes(row.level);
+): Conversion | null {
+  const levelKnown = row.lot.levels.includes(row.level);
   if (!levelKnown) {
-    reject(
-      ctx,
-      'unknown_level',
-      `control lot ${row.control_lot.lotNumber} has levels ${row.control_lot.levels.join(', ')}, not ${row.level}`,
-      ['level'],
-    );
+    reject(ctx, 'level', 'unknown_level', `control lot ${row.lot.lotNumber} has levels ${row.lot.levels.join(', ')}, not ${row.level}`);
   }
   const conversion = context.units.conversion(row.unit, row.procedure.analyteUnit, row.procedure.molarMass);
   if ('problem' in conversion) {
-    reject(ctx, 'unit_not_convertible', `${conversion.problem} (${row.procedure.analyteName} is stored in ${row.procedure.analyteUnit})`, ['unit']);
+    reject(ctx, 'unit', 'unit_not_convertible', `${conversion.problem} (${row.procedure.analyteName} is stored in ${row.procedure.analyteUnit})`);
     return null;
   }
   return levelKnown ? conversion : null;
@@ -131,34 +137,44 @@ export type SummaryRow = {
   sd: number;
 };
 
+const summaryCells = z.object({
+  period: z.string(),
+  procedure: z.string(),
+  control_lot: z.string(),
+  level: z.string(),
+  n: z.string(),
+  mean: z.string(),
+  sd: z.string(),
+  unit: z.string(),
+});
+
 /** A qc-summary row: period, procedure, control_lot, level, n, mean, sd, unit. */
 export function summaryRowSchema(context: RowContext) {
-  return z
-    .object({
-      period: periodField(context),
-      procedure: procedureField(context),
-      control_lot: lotField(context),
-      level: wholeNumber('level', 1, 'invalid_integer'),
-      n: wholeNumber('n', 2, 'n_too_small'),
-      mean: decimal('mean', context),
-      sd: decimal('sd', context),
-      unit: unitField(context),
-    })
-    .transform((row, ctx): SummaryRow => {
-      const sdPositive = row.sd > 0;
-      if (!sdPositive) reject(ctx, 'sd_not_positive', `sd must be greater than 0, got ${row.sd}`, ['sd']);
-      const conversion = checkLevelAndUnit(row, context, ctx);
-      if (!conversion || !sdPositive) return z.NEVER;
-      return {
-        procedure: row.procedure,
-        lot: row.control_lot,
-        level: row.level,
-        period: row.period,
-        n: row.n,
-        mean: conversion.factor * row.mean + conversion.offset,
-        sd: Math.abs(conversion.factor) * row.sd,
-      };
-    });
+  return summaryCells.transform((cells, ctx): SummaryRow => {
+    const period = periodCell(ctx, cells.period, context);
+    const procedure = procedureCell(ctx, cells.procedure, context);
+    const lot = lotCell(ctx, cells.control_lot, context);
+    const level = wholeNumberCell(ctx, 'level', cells.level, 1, 'invalid_integer');
+    const n = wholeNumberCell(ctx, 'n', cells.n, 2, 'n_too_small');
+    const mean = decimalCell(ctx, 'mean', cells.mean, context);
+    let sd = decimalCell(ctx, 'sd', cells.sd, context);
+    const unit = unitCell(ctx, cells.unit, context);
+    if (sd !== undefined && !(sd > 0)) sd = reject(ctx, 'sd', 'sd_not_positive', `sd must be greater than 0, got ${sd}`);
+    if (!period || !procedure || !lot || level === undefined || n === undefined || mean === undefined || unit === undefined) {
+      return z.NEVER;
+    }
+    const conversion = levelAndUnit(ctx, { procedure, lot, level, unit }, context);
+    if (!conversion || sd === undefined) return z.NEVER;
+    return {
+      procedure,
+      lot,
+      level,
+      period,
+      n,
+      mean: conversion.factor * mean + conversion.offset,
+      sd: Math.abs(conversion.factor) * sd,
+    };
+  });
 }
 
 export type ValueRow = {
@@ -173,43 +189,59 @@ export type ValueRow = {
   comment: string | null;
 };
 
+const valueCells = z.object({
+  measured_at: z.string(),
+  procedure: z.string(),
+  control_lot: z.string(),
+  level: z.string(),
+  value: z.string(),
+  unit: z.string(),
+  run: z.string(),
+  comment: z.string(),
+});
+
+function measuredAtCell(ctx: Ctx, text: string, context: RowContext): { ms: number; period: PeriodInfo } | undefined {
+  const value = requiredText(ctx, 'measured_at', text);
+  if (value === undefined) return undefined;
+  const parsed = parseMeasuredAt(value);
+  if ('problem' in parsed) return reject(ctx, 'measured_at', 'invalid_timestamp', parsed.problem);
+  const period = context.periods.get(parsed.period);
+  if (!period) {
+    return reject(ctx, 'measured_at', 'unknown_period', `${parsed.period} (the month of ${value}) is not a cycle of the network`);
+  }
+  return { ms: parsed.ms, period };
+}
+
 /** A qc-values row: measured_at, procedure, control_lot, level, value, unit, run, comment. */
 export function valueRowSchema(context: RowContext) {
-  return z
-    .object({
-      measured_at: required('measured_at').transform((text, ctx) => {
-        const parsed = parseMeasuredAt(text);
-        if ('problem' in parsed) return reject(ctx, 'invalid_timestamp', parsed.problem);
-        const period = context.periods.get(parsed.period);
-        if (!period) return reject(ctx, 'unknown_period', `${parsed.period} (the month of ${text}) is not a cycle of the network`);
-        return { ms: parsed.ms, period };
-      }),
-      procedure: procedureField(context),
-      control_lot: lotField(context),
-      level: wholeNumber('level', 1, 'invalid_integer'),
-      value: decimal('value', context),
-      unit: unitField(context),
-      run: cell.transform((t) => t.trim() || null),
-      comment: cell.transform((text, ctx) => {
-        const t = text.trim();
-        if (t.length > MAX_COMMENT_LENGTH) return reject(ctx, 'too_long', `comment is longer than ${MAX_COMMENT_LENGTH} characters`);
-        return t || null;
-      }),
-    })
-    .transform((row, ctx): ValueRow => {
-      const conversion = checkLevelAndUnit(row, context, ctx);
-      if (!conversion) return z.NEVER;
-      return {
-        procedure: row.procedure,
-        lot: row.control_lot,
-        level: row.level,
-        period: row.measured_at.period,
-        measuredAtMs: row.measured_at.ms,
-        value: conversion.factor * row.value + conversion.offset,
-        run: row.run,
-        comment: row.comment,
-      };
-    });
+  return valueCells.transform((cells, ctx): ValueRow => {
+    const measuredAt = measuredAtCell(ctx, cells.measured_at, context);
+    const procedure = procedureCell(ctx, cells.procedure, context);
+    const lot = lotCell(ctx, cells.control_lot, context);
+    const level = wholeNumberCell(ctx, 'level', cells.level, 1, 'invalid_integer');
+    const value = decimalCell(ctx, 'value', cells.value, context);
+    const unit = unitCell(ctx, cells.unit, context);
+    const run = cells.run.trim() || null;
+    let comment: string | null | undefined = cells.comment.trim() || null;
+    if (comment && comment.length > MAX_COMMENT_LENGTH) {
+      comment = reject(ctx, 'comment', 'too_long', `comment is longer than ${MAX_COMMENT_LENGTH} characters`);
+    }
+    if (!measuredAt || !procedure || !lot || level === undefined || value === undefined || unit === undefined || comment === undefined) {
+      return z.NEVER;
+    }
+    const conversion = levelAndUnit(ctx, { procedure, lot, level, unit }, context);
+    if (!conversion) return z.NEVER;
+    return {
+      procedure,
+      lot,
+      level,
+      period: measuredAt.period,
+      measuredAtMs: measuredAt.ms,
+      value: conversion.factor * value + conversion.offset,
+      run,
+      comment,
+    };
+  });
 }
 
 /** zod issues of one row → row errors naming the file's own column header. */

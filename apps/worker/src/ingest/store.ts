@@ -76,8 +76,12 @@ export async function storeValues(
     if (list) list.push(i);
     else indicesBySeries.set(buffer.seriesOf[i], [i]);
   }
+  const T = (label: string) => process.env.PLUMBLINE_PROFILE && console.log(`  ${label} ${Math.round(performance.now() - t0)} ms`);
+  const t0 = performance.now();
   const figures = seriesFigures(buffer, indicesBySeries);
+  T('figures');
   const targets = await multiruleTargets(ctx.tx, buffer, figures);
+  T('targets');
 
   // One multirule evaluation per procedure, lot and period (levels together).
   const groups = new Map<string, number[]>();
@@ -104,6 +108,7 @@ export async function storeValues(
     'values',
   );
 
+  T('replace');
   const copy = ctx.client.query(
     copyStreams.from(
       'COPY qc_values (lab_id, procedure_id, control_lot_id, level, period, measured_at, value, run, comment, z, rules, upload_id) FROM STDIN',
@@ -139,6 +144,7 @@ export async function storeValues(
     if (chunk) yield chunk;
   }
   await pipeline(Readable.from(lines()), copy);
+  T('copy');
   return { replaced };
 }
 
@@ -281,13 +287,20 @@ async function multiruleTargets(
     if (f) push(`${s.procedure.id}|${s.lot.id}|${s.level}`, f);
   });
 
-  const peer = await peerTargets(tx, buffer);
+  const labTargets = buffer.series.map((s) =>
+    labTargetBefore(history.get(`${s.procedure.id}|${s.lot.id}|${s.level}`) ?? [], s.period.period),
+  );
+  // Peer figures are looked up only for series the lab has no figures of its own for.
+  const peer = await peerTargets(
+    tx,
+    buffer,
+    buffer.series.map((_, index) => index).filter((index) => labTargets[index] === null),
+  );
 
   const result = new Map<string, Map<number, Target>>();
   buffer.series.forEach((s, index) => {
     const groupKey = `${s.procedure.id}|${s.lot.id}|${s.period.period}`;
-    const lab = labTargetBefore(history.get(`${s.procedure.id}|${s.lot.id}|${s.level}`) ?? [], s.period.period);
-    const target = chooseTarget(lab, peer.get(index) ?? null, figures.get(index) ?? null);
+    const target = chooseTarget(labTargets[index], peer.get(index) ?? null, figures.get(index) ?? null);
     if (!target) return;
     const levels = result.get(groupKey) ?? new Map<number, Target>();
     levels.set(s.level, target);
@@ -312,19 +325,19 @@ async function historyRows(tx: Database, procedureIds: string[], lotIds: string[
 }
 
 /** The peers' latest lot-to-date figures before each series' period, at the narrowest sufficient tier. */
-async function peerTargets(tx: Database, buffer: ValuesBuffer): Promise<Map<number, Target>> {
+async function peerTargets(tx: Database, buffer: ValuesBuffer, seriesIndices: readonly number[]): Promise<Map<number, Target>> {
   const result = new Map<number, Target>();
-  const byLotAnalyte = new Map<string, number[]>();
-  buffer.series.forEach((s, index) => {
-    const key = `${s.lot.id}|${s.procedure.analyteId}`;
-    const list = byLotAnalyte.get(key);
+  const byLot = new Map<string, number[]>();
+  for (const index of seriesIndices) {
+    const key = buffer.series[index].lot.id;
+    const list = byLot.get(key);
     if (list) list.push(index);
-    else byLotAnalyte.set(key, [index]);
-  });
-  for (const indices of byLotAnalyte.values()) {
+    else byLot.set(key, [index]);
+  }
+  for (const indices of byLot.values()) {
     const first = buffer.series[indices[0]];
     const parts = await loadPeerKeyParts(tx, [...new Set(indices.map((i) => buffer.series[i].procedure.id))]);
-    const membership = await resolvePeerMembership(tx, first.lot.id, first.procedure.analyteId, parts, { create: false });
+    const membership = await resolvePeerMembership(tx, first.lot.id, parts, { create: false });
     const groupIds = [...new Set([...membership.values()].flatMap((m) => Object.values(m).map((g) => g!.id)))];
     if (groupIds.length === 0) continue;
     const latestPeriod = indices.map((i) => buffer.series[i].period.period).sort().at(-1)!;
@@ -340,14 +353,20 @@ async function peerTargets(tx: Database, buffer: ValuesBuffer): Promise<Map<numb
           lt(peerStatistics.period, latestPeriod),
         ),
       );
+    const statsByGroup = new Map<string, (typeof stats)[number][]>();
+    for (const r of stats) {
+      const list = statsByGroup.get(r.peerGroupId);
+      if (list) list.push(r);
+      else statsByGroup.set(r.peerGroupId, [r]);
+    }
     for (const index of indices) {
       const s = buffer.series[index];
       const groups = membership.get(s.procedure.id) ?? {};
       for (const tier of PEER_TIERS) {
         const group = groups[tier];
         if (!group) continue;
-        const best = stats
-          .filter((r) => r.peerGroupId === group.id && r.level === s.level && r.period < s.period.period && r.mean !== null && r.sd !== null && r.sd > 0)
+        const best = (statsByGroup.get(group.id) ?? [])
+          .filter((r) => r.level === s.level && r.period < s.period.period && r.mean !== null && r.sd !== null && r.sd > 0)
           .sort((a, b) => (a.period < b.period ? 1 : -1))[0];
         if (best) {
           result.set(index, { mean: best.mean!, sd: best.sd!, source: 'peer' });

@@ -147,7 +147,8 @@ async function readUpload(
   const summaryLines = new Map<string, number>();
   const summarySchema = upload.kind === 'qc-summary' ? summaryRowSchema(context) : null;
   const valueSchema = upload.kind === 'qc-values' ? valueRowSchema(context) : null;
-  const entries = Object.entries(columns.indexOf);
+  // Every canonical column, -1 when the file has none (an optional column left out).
+  const entries = canonicalColumns[upload.kind].map((c) => [c.name, columns.indexOf[c.name] ?? -1] as const);
 
   while (true) {
     const next = await iterator.next();
@@ -166,7 +167,7 @@ async function readUpload(
       });
     }
     const raw: Record<string, string> = {};
-    for (const [canonical, index] of entries) raw[canonical] = cells[index] ?? '';
+    for (const [canonical, index] of entries) raw[canonical] = index >= 0 ? (cells[index] ?? '') : '';
 
     if (summarySchema) {
       const parsed = summarySchema.safeParse(raw);

@@ -11,6 +11,10 @@ export type IngestWorkerOptions = {
   concurrency: number;
   /** How often uploads left queued/processing are handed to the queue again (0: only at start). */
   recoveryIntervalMs: number;
+  /** Peer statistics wait this long after an upload is stored, so uploads arriving together share a recompute. */
+  recomputeDelayMs?: number;
+  /** …and while this worker keeps ingesting, at most this long. */
+  recomputeMaxWaitMs?: number;
   /** How long a job's lock lasts without renewal; a job whose worker died is retried after it (default 60 s). */
   lockDurationMs?: number;
   /** How often this worker looks for jobs whose worker died (default 30 s). */
@@ -39,13 +43,24 @@ const JOB_OPTIONS = {
 export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions): IngestWorker {
   const log = deps.log ?? (() => {});
   const queue = new Queue<IngestJob>(INGEST_QUEUE_NAME, { connection: options.connection, prefix: options.prefix });
-  const drainer = createPeerStatisticsDrainer(deps.db, { minLabs: deps.minLabs }, log);
+  let activeJobs = 0;
+  const drainer = createPeerStatisticsDrainer(
+    deps.db,
+    {
+      minLabs: deps.minLabs,
+      delayMs: options.recomputeDelayMs ?? 500,
+      maxWaitMs: options.recomputeMaxWaitMs ?? 15_000,
+      busy: () => activeJobs > 0,
+    },
+    log,
+  );
 
   const worker = new Worker<IngestJob, IngestOutcome>(
     INGEST_QUEUE_NAME,
     async (job: Job<IngestJob>) => {
       const payload = ingestJobSchema.safeParse(job.data);
       if (!payload.success) throw new UnrecoverableError(`ingest job ${job.id}: invalid payload`);
+      activeJobs += 1;
       try {
         const outcome = await processUpload(deps, payload.data.uploadId, (progress) =>
           job.updateProgress(Math.round(progress * 1000) / 1000),
@@ -61,6 +76,8 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
             .catch(() => {});
         }
         throw error;
+      } finally {
+        activeJobs -= 1;
       }
     },
     {

@@ -34,7 +34,7 @@ export async function createWorkerHarness(label: string) {
         holdBeforeCommitMs: options.holdBeforeCommitMs,
         log: process.env.PLUMBLINE_TEST_LOG ? (m: string) => console.log(m) : undefined,
       },
-      { connection, prefix, concurrency: 2, recoveryIntervalMs: 0, stalledIntervalMs: options.stalledIntervalMs },
+      { connection, prefix, concurrency: 2, recoveryIntervalMs: 0, stalledIntervalMs: options.stalledIntervalMs, recomputeDelayMs: 20 },
     );
     return worker;
   }

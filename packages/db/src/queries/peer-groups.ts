@@ -1,5 +1,5 @@
 import { and, eq, inArray } from 'drizzle-orm';
-import { instrumentModels, methods, reagents, analytes } from '../schema/catalogue.ts';
+import { analytes, instrumentModels, methods, reagents } from '../schema/catalogue.ts';
 import { peerGroupAssignments, peerGroups } from '../schema/peer-groups.ts';
 import { procedures } from '../schema/procedures.ts';
 import type { Executor } from '../client.ts';
@@ -39,77 +39,87 @@ function derivedLabel(tier: PeerTierName, p: PeerKeyParts): string {
   return `All procedures for ${p.analyteName}`;
 }
 
-/** Procedures with the names their peer group labels are made of. */
+/** Procedures with what their peer group keys are made of, and the names for labels. */
 export async function loadPeerKeyParts(db: Executor, procedureIds: readonly string[]): Promise<PeerKeyParts[]> {
-  if (procedureIds.length === 0) return [];
-  return db
-    .select({
-      id: procedures.id,
-      analyteId: procedures.analyteId,
-      analyteName: analytes.name,
-      instrumentModelId: procedures.instrumentModelId,
-      instrumentModelName: instrumentModels.name,
-      methodId: procedures.methodId,
-      methodName: methods.name,
-      reagentId: procedures.reagentId,
-      reagentName: reagents.name,
-    })
-    .from(procedures)
-    .innerJoin(analytes, eq(analytes.id, procedures.analyteId))
-    .innerJoin(instrumentModels, eq(instrumentModels.id, procedures.instrumentModelId))
-    .innerJoin(methods, eq(methods.id, procedures.methodId))
-    .innerJoin(reagents, eq(reagents.id, procedures.reagentId))
-    .where(inArray(procedures.id, [...procedureIds]));
+  const result: PeerKeyParts[] = [];
+  for (let i = 0; i < procedureIds.length; i += 5000) {
+    const chunk = procedureIds.slice(i, i + 5000);
+    result.push(
+      ...(await db
+        .select({
+          id: procedures.id,
+          analyteId: procedures.analyteId,
+          analyteName: analytes.name,
+          instrumentModelId: procedures.instrumentModelId,
+          instrumentModelName: instrumentModels.name,
+          methodId: procedures.methodId,
+          methodName: methods.name,
+          reagentId: procedures.reagentId,
+          reagentName: reagents.name,
+        })
+        .from(procedures)
+        .innerJoin(analytes, eq(analytes.id, procedures.analyteId))
+        .innerJoin(instrumentModels, eq(instrumentModels.id, procedures.instrumentModelId))
+        .innerJoin(methods, eq(methods.id, procedures.methodId))
+        .innerJoin(reagents, eq(reagents.id, procedures.reagentId))
+        .where(inArray(procedures.id, chunk))),
+    );
+  }
+  return result;
 }
 
 /**
- * Resolves each procedure's peer group at every tier for one control lot and analyte:
- * the coordinator's assignment when there is one, otherwise the group of the derived key; a merged
- * group resolves to the group it was merged into. With `create`, missing derived groups are made.
+ * Resolves each procedure's peer group at every tier for one control lot (each procedure within its
+ * analyte): the coordinator's assignment when there is one, otherwise the group of the derived key; a
+ * merged group resolves to the group it was merged into. With `create`, missing derived groups are made.
  */
 export async function resolvePeerMembership(
   db: Executor,
   controlLotId: string,
-  analyteId: string,
   parts: readonly PeerKeyParts[],
   options: { create: boolean },
 ): Promise<PeerMembership> {
   const membership: PeerMembership = new Map();
   if (parts.length === 0) return membership;
 
+  const analyteIds = [...new Set(parts.map((p) => p.analyteId))];
+  const loadGroups = () =>
+    db
+      .select()
+      .from(peerGroups)
+      .where(and(eq(peerGroups.controlLotId, controlLotId), inArray(peerGroups.analyteId, analyteIds)));
+  let groups = await loadGroups();
+  let byKey = new Map(groups.map((g) => [`${g.analyteId}|${g.tier}|${g.key}`, g]));
+
   if (options.create) {
-    const wanted = new Map<string, { tier: PeerTierName; key: string; label: string }>();
+    // A group is made once, for a derived key that has none yet.
+    const missing = new Map<string, { part: PeerKeyParts; tier: PeerTierName; key: string }>();
     for (const p of parts) {
       for (const tier of PEER_TIERS) {
         const key = derivedPeerKey(tier, p);
-        wanted.set(`${tier}|${key}`, { tier, key, label: derivedLabel(tier, p) });
+        const id = `${p.analyteId}|${tier}|${key}`;
+        if (!byKey.has(id) && !missing.has(id)) missing.set(id, { part: p, tier, key });
       }
     }
-    await db
-      .insert(peerGroups)
-      .values([...wanted.values()].map((g) => ({ controlLotId, analyteId, tier: g.tier, key: g.key, label: g.label })))
-      .onConflictDoNothing();
+    if (missing.size > 0) {
+      const values = [...missing.values()].map((m) => ({
+        controlLotId,
+        analyteId: m.part.analyteId,
+        tier: m.tier,
+        key: m.key,
+        label: derivedLabel(m.tier, m.part),
+      }));
+      for (let i = 0; i < values.length; i += 1000) {
+        await db.insert(peerGroups).values(values.slice(i, i + 1000)).onConflictDoNothing();
+      }
+      groups = await loadGroups();
+      byKey = new Map(groups.map((g) => [`${g.analyteId}|${g.tier}|${g.key}`, g]));
+    }
   }
-
-  const groups = await db
-    .select()
-    .from(peerGroups)
-    .where(and(eq(peerGroups.controlLotId, controlLotId), eq(peerGroups.analyteId, analyteId)));
   const byId = new Map(groups.map((g) => [g.id, g]));
-  const byKey = new Map(groups.map((g) => [`${g.tier}|${g.key}`, g]));
 
-  const assignments = await db
-    .select()
-    .from(peerGroupAssignments)
-    .where(
-      and(
-        eq(peerGroupAssignments.controlLotId, controlLotId),
-        inArray(
-          peerGroupAssignments.procedureId,
-          parts.map((p) => p.id),
-        ),
-      ),
-    );
+  // A lot has few assignments: read them all rather than sending every procedure id.
+  const assignments = await db.select().from(peerGroupAssignments).where(eq(peerGroupAssignments.controlLotId, controlLotId));
   const assigned = new Map(assignments.map((a) => [`${a.procedureId}|${a.tier}`, a.peerGroupId]));
 
   // Follow merges to the surviving group; a cycle (a data error) stops at the last group seen.
@@ -126,7 +136,7 @@ export async function resolvePeerMembership(
   for (const p of parts) {
     const entry: Partial<Record<PeerTierName, PeerGroupRef>> = {};
     for (const tier of PEER_TIERS) {
-      const start = assigned.get(`${p.id}|${tier}`) ?? byKey.get(`${tier}|${derivedPeerKey(tier, p)}`)?.id;
+      const start = assigned.get(`${p.id}|${tier}`) ?? byKey.get(`${p.analyteId}|${tier}|${derivedPeerKey(tier, p)}`)?.id;
       const group = start ? surviving(start) : undefined;
       if (group) entry[tier] = { id: group.id, tier: group.tier, key: group.key, label: group.label };
     }

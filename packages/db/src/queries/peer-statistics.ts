@@ -1,4 +1,4 @@
-import { and, asc, eq, gte, inArray, isNull, lte, sql } from 'drizzle-orm';
+import { and, asc, eq, gte, inArray, isNull, lte, or, sql } from 'drizzle-orm';
 import { peerStatistics as computePeerStatistics, pool, type PeerStatistics } from '@plumbline/stats';
 import { peerExclusions, peerGroups, peerStatistics, peerStatisticsRequests, type ExcludedLab } from '../schema/peer-groups.ts';
 import { procedures } from '../schema/procedures.ts';
@@ -69,7 +69,9 @@ export async function drainPeerStatisticsRequestsIfFree(
  */
 export async function drainPeerStatisticsUntilIdle(db: Database, settings: PeerStatisticsSettings = {}): Promise<void> {
   while (true) {
+    const t = performance.now();
     const drained = await drainPeerStatisticsRequestsIfFree(db, settings);
+    if (process.env.PLUMBLINE_PROFILE) console.log(`  drain pass: ${drained} targets, ${Math.round(performance.now() - t)} ms`);
     if (drained === null) return;
     if (!(await hasPendingPeerStatistics(db))) return;
   }
@@ -89,11 +91,14 @@ async function drainClaimed(tx: Executor, settings: PeerStatisticsSettings): Pro
     claimed.rows.map((r) => ({ controlLotId: r.control_lot_id, analyteId: r.analyte_id, level: r.level, period: r.period })),
     settings,
   );
-  for (const r of claimed.rows) {
+  for (let i = 0; i < claimed.rows.length; i += 500) {
+    const batch = claimed.rows.slice(i, i + 500);
     await tx.execute(sql`
       delete from peer_statistics_requests
-      where control_lot_id = ${r.control_lot_id} and analyte_id = ${r.analyte_id}
-        and level = ${r.level} and period = ${r.period} and requested_at = ${r.stamp}::timestamptz`);
+      where (control_lot_id, analyte_id, level, period, requested_at) in (${sql.join(
+        batch.map((r) => sql`(${r.control_lot_id}::uuid, ${r.analyte_id}::uuid, ${r.level}::int, ${r.period}::text, ${r.stamp}::timestamptz)`),
+        sql`, `,
+      )})`);
   }
   return claimed.rows.length;
 }
@@ -133,6 +138,7 @@ export async function recomputeAllPeerStatistics(db: Database, settings: PeerSta
 
 type SummaryRow = {
   procedureId: string;
+  analyteId: string;
   level: number;
   period: string;
   n: number;
@@ -150,35 +156,34 @@ type ExclusionRow = { procedureId: string; level: number | null; period: string;
  * Each member procedure counts as one lab series in `peerStatistics` (a lab running the same control on
  * two analysers of a group contributes two series). Coordinator exclusions for the period are passed as
  * manual exclusions; cumulative figures leave the excluded months out of that lab's to-date pool.
+ * Work is done per control lot, a fixed handful of queries however many analytes and labs it covers.
  */
 export async function recomputePeerStatistics(
   tx: Executor,
   targets: readonly PeerStatisticsTarget[],
   settings: PeerStatisticsSettings = {},
 ): Promise<void> {
-  const byLotAnalyte = new Map<string, PeerStatisticsTarget[]>();
+  const byLot = new Map<string, PeerStatisticsTarget[]>();
   for (const t of dedupeTargets(targets)) {
-    const key = `${t.controlLotId}|${t.analyteId}`;
-    const list = byLotAnalyte.get(key);
+    const list = byLot.get(t.controlLotId);
     if (list) list.push(t);
-    else byLotAnalyte.set(key, [t]);
+    else byLot.set(t.controlLotId, [t]);
   }
-  for (const group of byLotAnalyte.values()) {
-    await recomputeLotAnalyte(tx, group[0].controlLotId, group[0].analyteId, group, settings);
-  }
+  for (const [controlLotId, lotTargets] of byLot) await recomputeLot(tx, controlLotId, lotTargets, settings);
 }
 
-async function recomputeLotAnalyte(
+async function recomputeLot(
   tx: Executor,
   controlLotId: string,
-  analyteId: string,
   targets: readonly PeerStatisticsTarget[],
   settings: PeerStatisticsSettings,
 ): Promise<void> {
+  const analyteIds = [...new Set(targets.map((t) => t.analyteId))];
   const levels = [...new Set(targets.map((t) => t.level))];
   const summaries: SummaryRow[] = await tx
     .select({
       procedureId: qcSummaries.procedureId,
+      analyteId: procedures.analyteId,
       level: qcSummaries.level,
       period: qcSummaries.period,
       n: qcSummaries.n,
@@ -190,101 +195,93 @@ async function recomputeLotAnalyte(
     .where(
       and(
         eq(qcSummaries.controlLotId, controlLotId),
-        eq(procedures.analyteId, analyteId),
+        inArray(procedures.analyteId, analyteIds),
         inArray(qcSummaries.level, levels),
       ),
     )
     .orderBy(asc(qcSummaries.period));
 
-  const procedureIds = [...new Set(summaries.map((s) => s.procedureId))];
-  const parts = await loadPeerKeyParts(tx, procedureIds);
-  const membership = await resolvePeerMembership(tx, controlLotId, analyteId, parts, { create: true });
-  const groupIds = (
-    await tx
-      .select({ id: peerGroups.id })
-      .from(peerGroups)
-      .where(and(eq(peerGroups.controlLotId, controlLotId), eq(peerGroups.analyteId, analyteId)))
-  ).map((g) => g.id);
+  // Summaries by analyte and level, in period order.
+  const series = new Map<string, SummaryRow[]>();
+  for (const s of summaries) {
+    const key = `${s.analyteId}|${s.level}`;
+    const list = series.get(key);
+    if (list) list.push(s);
+    else series.set(key, [s]);
+  }
 
-  const exclusions: ExclusionRow[] = procedureIds.length
-    ? await tx
-        .select({
-          procedureId: peerExclusions.procedureId,
-          level: peerExclusions.level,
-          period: peerExclusions.period,
-          reason: peerExclusions.reason,
-        })
-        .from(peerExclusions)
-        .where(and(eq(peerExclusions.controlLotId, controlLotId), isNull(peerExclusions.revokedAt)))
-    : [];
+  const parts = await loadPeerKeyParts(tx, [...new Set(summaries.map((s) => s.procedureId))]);
+  const membership = await resolvePeerMembership(tx, controlLotId, parts, { create: true });
+  const groups = await tx
+    .select({ id: peerGroups.id, analyteId: peerGroups.analyteId })
+    .from(peerGroups)
+    .where(and(eq(peerGroups.controlLotId, controlLotId), inArray(peerGroups.analyteId, analyteIds)));
+  const groupIdsOf = (analyteId: string) => groups.filter((g) => g.analyteId === analyteId).map((g) => g.id);
+
+  const exclusions: ExclusionRow[] = await tx
+    .select({
+      procedureId: peerExclusions.procedureId,
+      level: peerExclusions.level,
+      period: peerExclusions.period,
+      reason: peerExclusions.reason,
+    })
+    .from(peerExclusions)
+    .where(and(eq(peerExclusions.controlLotId, controlLotId), isNull(peerExclusions.revokedAt)));
   const exclusionOf = (procedureId: string, level: number, period: string) =>
-    exclusions.find((e) => e.procedureId === procedureId && e.period === period && (e.level === null || e.level === level));
+    exclusions.length === 0
+      ? undefined
+      : exclusions.find((e) => e.procedureId === procedureId && e.period === period && (e.level === null || e.level === level));
 
   const rows: (typeof peerStatistics.$inferInsert)[] = [];
 
   // Period figures of each target.
   for (const target of targets) {
-    const entries = summaries.filter((s) => s.level === target.level && s.period === target.period);
-    rows.push(
-      ...groupFigures(membership, entries, settings, (procedureId) => exclusionOf(procedureId, target.level, target.period)).map(
-        (g) => ({ ...g, level: target.level, period: target.period, scope: 'period', version: 0 }),
-      ),
-    );
+    const entries = (series.get(`${target.analyteId}|${target.level}`) ?? []).filter((s) => s.period === target.period);
+    for (const g of groupFigures(membership, entries, settings, (id) => exclusionOf(id, target.level, target.period))) {
+      rows.push({ ...g, level: target.level, period: target.period, scope: 'period', version: 0 });
+    }
   }
 
-  // Lot-to-date figures from the earliest target period on, per level.
-  const firstPeriodByLevel = new Map<number, string>();
+  // Lot-to-date figures from the earliest target period on, per analyte and level.
+  const firstPeriod = new Map<string, PeerStatisticsTarget>();
   for (const t of targets) {
-    const earlier = firstPeriodByLevel.get(t.level);
-    if (!earlier || t.period < earlier) firstPeriodByLevel.set(t.level, t.period);
+    const key = `${t.analyteId}|${t.level}`;
+    const earlier = firstPeriod.get(key);
+    if (!earlier || t.period < earlier.period) firstPeriod.set(key, t);
   }
-  for (const [level, firstPeriod] of firstPeriodByLevel) {
-    const ofLevel = summaries.filter((s) => s.level === level);
-    const periods = [...new Set(ofLevel.map((s) => s.period))].filter((p) => p >= firstPeriod).sort();
+  for (const [key, first] of firstPeriod) {
+    const ofSeries = series.get(key) ?? [];
+    const periods = [...new Set(ofSeries.map((s) => s.period))].filter((p) => p >= first.period).sort();
     for (const period of periods) {
       const toDate = cumulativeByProcedure(
-        ofLevel.filter((s) => s.period <= period && !exclusionOf(s.procedureId, level, s.period)),
+        ofSeries.filter((s) => s.period <= period && !exclusionOf(s.procedureId, first.level, s.period)),
       );
-      rows.push(
-        ...groupFigures(membership, toDate, settings, () => undefined).map((g) => ({
-          ...g,
-          level,
-          period,
-          scope: 'cumulative',
-          version: 0,
-        })),
-      );
+      for (const g of groupFigures(membership, toDate, settings, () => undefined)) {
+        rows.push({ ...g, level: first.level, period, scope: 'cumulative', version: 0 });
+      }
     }
   }
 
   // Replace the provisional figures of the targets (and of the to-date periods) with the new ones.
-  if (groupIds.length) {
-    for (const target of targets) {
-      await tx
-        .delete(peerStatistics)
-        .where(
-          and(
-            inArray(peerStatistics.peerGroupId, groupIds),
-            eq(peerStatistics.version, 0),
-            eq(peerStatistics.scope, 'period'),
-            eq(peerStatistics.level, target.level),
-            eq(peerStatistics.period, target.period),
-          ),
-        );
-    }
-    for (const [level, firstPeriod] of firstPeriodByLevel) {
-      await tx
-        .delete(peerStatistics)
-        .where(
-          and(
-            inArray(peerStatistics.peerGroupId, groupIds),
-            eq(peerStatistics.version, 0),
-            eq(peerStatistics.scope, 'cumulative'),
-            eq(peerStatistics.level, level),
-            gte(peerStatistics.period, firstPeriod),
-          ),
-        );
-    }
+  const periodConditions = targets
+    .filter((t) => groupIdsOf(t.analyteId).length > 0)
+    .map((t) =>
+      and(inArray(peerStatistics.peerGroupId, groupIdsOf(t.analyteId)), eq(peerStatistics.level, t.level), eq(peerStatistics.period, t.period)),
+    );
+  if (periodConditions.length) {
+    await tx
+      .delete(peerStatistics)
+      .where(and(eq(peerStatistics.version, 0), eq(peerStatistics.scope, 'period'), or(...periodConditions)));
+  }
+  const cumulativeConditions = [...firstPeriod.values()]
+    .filter((t) => groupIdsOf(t.analyteId).length > 0)
+    .map((t) =>
+      and(inArray(peerStatistics.peerGroupId, groupIdsOf(t.analyteId)), eq(peerStatistics.level, t.level), gte(peerStatistics.period, t.period)),
+    );
+  if (cumulativeConditions.length) {
+    await tx
+      .delete(peerStatistics)
+      .where(and(eq(peerStatistics.version, 0), eq(peerStatistics.scope, 'cumulative'), or(...cumulativeConditions)));
   }
   for (let i = 0; i < rows.length; i += 500) {
     await tx.insert(peerStatistics).values(rows.slice(i, i + 500));
@@ -302,7 +299,8 @@ function cumulativeByProcedure(rows: readonly SummaryRow[]): SummaryRow[] {
   const result: SummaryRow[] = [];
   for (const [procedureId, parts] of byProcedure) {
     const pooled = parts.length === 1 ? parts[0] : pool(parts);
-    result.push({ procedureId, level: parts[0].level, period: parts[parts.length - 1].period, n: pooled.n, mean: pooled.mean, sd: pooled.sd });
+    const last = parts[parts.length - 1];
+    result.push({ procedureId, analyteId: last.analyteId, level: last.level, period: last.period, n: pooled.n, mean: pooled.mean, sd: pooled.sd });
   }
   return result;
 }

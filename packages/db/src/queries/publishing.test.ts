@@ -17,12 +17,22 @@ beforeAll(async () => {
   scratch = await createScratchDatabase('publishing');
   c = await createQcCatalogue(scratch.db);
   // Like the demo seed: January is marked published, but no snapshot exists.
-  await scratch.db.update(periods).set({ state: 'published', publishedAt: seededAt }).where(eq(periods.period, '2026-01'));
+  await scratch.db
+    .update(periods)
+    .set({ state: 'published', publishedAt: seededAt })
+    .where(eq(periods.period, '2026-01'));
   for (const mean of [5.5, 5.6, 5.4]) {
     const { lab, procedures } = await c.makeLabWithProcedures([{ code: 'G1' }]);
     for (const period of ['2026-01', '2026-02']) {
       await scratch.db.insert(qcSummaries).values({
-        labId: lab.id, procedureId: procedures[0].id, controlLotId: c.lot.id, level: 1, period, n: 20, mean, sd: 0.1,
+        labId: lab.id,
+        procedureId: procedures[0].id,
+        controlLotId: c.lot.id,
+        level: 1,
+        period,
+        n: 20,
+        mean,
+        sd: 0.1,
       });
     }
   }
@@ -31,12 +41,18 @@ beforeAll(async () => {
 afterAll(async () => scratch?.drop());
 
 const rowsOf = (period: string, version: number) =>
-  scratch.db.select().from(peerStatistics).where(and(eq(peerStatistics.period, period), eq(peerStatistics.version, version)));
+  scratch.db
+    .select()
+    .from(peerStatistics)
+    .where(and(eq(peerStatistics.period, period), eq(peerStatistics.version, version)));
 
 describe('publishing periods', () => {
   it('when a period is marked published without a snapshot, then it gets version 1 at its recorded date, once', async () => {
     expect(await publishPeriodsWithoutSnapshot(scratch.db, { actorLabel: 'demo seed' })).toEqual(['2026-01']);
-    const [publication] = await scratch.db.select().from(publications).where(eq(publications.period, '2026-01'));
+    const [publication] = await scratch.db
+      .select()
+      .from(publications)
+      .where(eq(publications.period, '2026-01'));
     expect(publication).toMatchObject({ version: 1, publishedAt: seededAt, publishedBy: null });
     const provisional = await rowsOf('2026-01', 0);
     expect(provisional.length).toBeGreaterThan(0);

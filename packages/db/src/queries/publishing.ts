@@ -2,7 +2,11 @@ import { and, desc, eq, sql } from 'drizzle-orm';
 import { periods, publications } from '../schema/periods.ts';
 import type { Database } from '../client.ts';
 import { recordAudit } from './audit.ts';
-import { drainPeerStatisticsRequests, hasPendingPeerStatistics, type PeerStatisticsSettings } from './peer-statistics.ts';
+import {
+  drainPeerStatisticsRequests,
+  hasPendingPeerStatistics,
+  type PeerStatisticsSettings,
+} from './peer-statistics.ts';
 
 type PeriodState = (typeof periods.$inferSelect)['state'];
 
@@ -51,7 +55,11 @@ const PUBLISH_LOCK_KEY = 740_100_003;
  * requests that change the period's figures are served first, so the snapshot holds every upload
  * stored before the call. Audited as `period.publish` (version 1) or `period.republish`.
  */
-export async function publishPeriod(db: Database, period: string, options: PublishOptions = {}): Promise<PublicationRecord> {
+export async function publishPeriod(
+  db: Database,
+  period: string,
+  options: PublishOptions = {},
+): Promise<PublicationRecord> {
   if (await hasPendingPeerStatistics(db, period)) await drainPeerStatisticsRequests(db, options.statistics);
   return db.transaction(async (tx) => {
     await tx.execute(sql`select pg_advisory_xact_lock(${PUBLISH_LOCK_KEY})`);
@@ -81,7 +89,13 @@ export async function publishPeriod(db: Database, period: string, options: Publi
 
     const [publication] = await tx
       .insert(publications)
-      .values({ period, version, reason: options.reason ?? null, publishedBy: options.actorId ?? null, publishedAt })
+      .values({
+        period,
+        version,
+        reason: options.reason ?? null,
+        publishedBy: options.actorId ?? null,
+        publishedAt,
+      })
       .returning();
     await tx.update(periods).set({ state: 'published', publishedAt }).where(eq(periods.period, period));
     await recordAudit(tx, {

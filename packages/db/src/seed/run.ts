@@ -24,7 +24,10 @@ function formatDemoAccounts(): string {
  * first version for each such month. Runs again only when a published month still has no snapshot
  * (e.g. a database seeded before snapshots existed), so a restart changes nothing.
  */
-async function publishSeededPeriods(db: ReturnType<typeof createDb>['db'], justSeeded: boolean): Promise<void> {
+async function publishSeededPeriods(
+  db: ReturnType<typeof createDb>['db'],
+  justSeeded: boolean,
+): Promise<void> {
   const pending = await db.execute<{ count: number }>(
     sql`select count(*)::int as count from periods p
         where p.state = 'published' and not exists (select 1 from publications x where x.period = p.period)`,

@@ -36,7 +36,8 @@ export async function participationFlags(
     const found: ParticipationFlag[] = [];
     for (const row of report.rows) {
       const where = { procedureId: row.procedure.id, controlLotId: row.controlLot.id, level: row.level };
-      if (row.sdi !== null && Math.abs(row.sdi) > SDI_ACTION) found.push({ kind: 'sdi', ...where, value: row.sdi });
+      if (row.sdi !== null && Math.abs(row.sdi) > SDI_ACTION)
+        found.push({ kind: 'sdi', ...where, value: row.sdi });
       if (row.cvr !== null && row.cvr > CVR_ACTION) found.push({ kind: 'cvr', ...where, value: row.cvr });
       if (row.excluded?.reason === 'outlier') found.push({ kind: 'excluded-outlier', ...where, value: null });
     }

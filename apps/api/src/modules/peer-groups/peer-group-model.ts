@@ -7,7 +7,13 @@ import { peerStatistics as computePeerStatistics } from '@plumbline/stats';
 import { PEER_TIERS, derivedPeerKey, type PeerKeyParts, type PeerTierName } from '@plumbline/db';
 import type { PeerGroupFigures, PreviewGroup } from '@plumbline/contracts';
 
-export type GroupRow = { id: string; tier: PeerTierName; key: string; label: string; mergedIntoId: string | null };
+export type GroupRow = {
+  id: string;
+  tier: PeerTierName;
+  key: string;
+  label: string;
+  mergedIntoId: string | null;
+};
 export type AssignmentRow = { procedureId: string; tier: PeerTierName; peerGroupId: string };
 export type Layout = { groups: readonly GroupRow[]; assignments: readonly AssignmentRow[] };
 
@@ -15,7 +21,14 @@ export type LabRef = { id: string; code: string; name: string };
 export type ProcedureInfo = PeerKeyParts & { code: string; lab: LabRef };
 
 /** One member's monthly figures for a level and period. */
-export type SummaryEntry = { procedureId: string; level: number; n: number; mean: number; sd: number; late: boolean };
+export type SummaryEntry = {
+  procedureId: string;
+  level: number;
+  n: number;
+  mean: number;
+  sd: number;
+  late: boolean;
+};
 
 /** A coordinator's exclusion in force: the procedure, the level it covers (null = every level) and why. */
 export type ExclusionEntry = { procedureId: string; level: number | null; reason: string };
@@ -54,7 +67,8 @@ export function resolveMembership(layout: Layout, procedures: readonly PeerKeyPa
 /** The procedures that resolve to a group. */
 export function membersOf(membership: Membership, group: Pick<GroupRow, 'id' | 'tier'>): string[] {
   const ids: string[] = [];
-  for (const [procedureId, groups] of membership) if (groups[group.tier]?.id === group.id) ids.push(procedureId);
+  for (const [procedureId, groups] of membership)
+    if (groups[group.tier]?.id === group.id) ids.push(procedureId);
   return ids;
 }
 
@@ -119,7 +133,9 @@ export function previewGroups(
     const group = byId.get(id);
     if (!group) continue;
     const memberIds = membersOf(membership, group);
-    const entries = context.summaries.filter((s) => s.level === context.level && memberIds.includes(s.procedureId));
+    const entries = context.summaries.filter(
+      (s) => s.level === context.level && memberIds.includes(s.procedureId),
+    );
     result.push({
       id: context.isNew?.(id) ? null : id,
       tier: group.tier,

@@ -18,7 +18,13 @@ import {
   users,
   type Executor,
 } from '@plumbline/db';
-import type { AssignmentRow, ExclusionEntry, GroupRow, ProcedureInfo, SummaryEntry } from './peer-group-model.ts';
+import type {
+  AssignmentRow,
+  ExclusionEntry,
+  GroupRow,
+  ProcedureInfo,
+  SummaryEntry,
+} from './peer-group-model.ts';
 
 export async function findControlLot(db: Executor, id: string) {
   const [row] = await db
@@ -31,7 +37,13 @@ export async function findControlLot(db: Executor, id: string) {
 
 export async function findAnalyte(db: Executor, id: string) {
   const [row] = await db
-    .select({ id: analytes.id, code: analytes.code, name: analytes.name, unit: analytes.unit, decimals: analytes.decimals })
+    .select({
+      id: analytes.id,
+      code: analytes.code,
+      name: analytes.name,
+      unit: analytes.unit,
+      decimals: analytes.decimals,
+    })
     .from(analytes)
     .where(eq(analytes.id, id))
     .limit(1);
@@ -90,7 +102,11 @@ function procedureQuery(db: Executor) {
 }
 
 /** The procedures of the analyte with QC data on the lot in any period: the peer groups' possible members. */
-export async function lotProcedures(db: Executor, controlLotId: string, analyteId: string): Promise<ProcedureInfo[]> {
+export async function lotProcedures(
+  db: Executor,
+  controlLotId: string,
+  analyteId: string,
+): Promise<ProcedureInfo[]> {
   return procedureQuery(db)
     .where(
       and(
@@ -108,7 +124,13 @@ export async function findProcedure(db: Executor, id: string): Promise<Procedure
 
 export async function groupsOf(db: Executor, controlLotId: string, analyteId: string): Promise<GroupRow[]> {
   return db
-    .select({ id: peerGroups.id, tier: peerGroups.tier, key: peerGroups.key, label: peerGroups.label, mergedIntoId: peerGroups.mergedIntoId })
+    .select({
+      id: peerGroups.id,
+      tier: peerGroups.tier,
+      key: peerGroups.key,
+      label: peerGroups.label,
+      mergedIntoId: peerGroups.mergedIntoId,
+    })
     .from(peerGroups)
     .where(and(eq(peerGroups.controlLotId, controlLotId), eq(peerGroups.analyteId, analyteId)));
 }
@@ -118,12 +140,25 @@ export async function findGroup(db: Executor, id: string) {
   return row ?? null;
 }
 
-export async function assignmentsOf(db: Executor, controlLotId: string, procedureIds: readonly string[]): Promise<AssignmentRow[]> {
+export async function assignmentsOf(
+  db: Executor,
+  controlLotId: string,
+  procedureIds: readonly string[],
+): Promise<AssignmentRow[]> {
   if (procedureIds.length === 0) return [];
   return db
-    .select({ procedureId: peerGroupAssignments.procedureId, tier: peerGroupAssignments.tier, peerGroupId: peerGroupAssignments.peerGroupId })
+    .select({
+      procedureId: peerGroupAssignments.procedureId,
+      tier: peerGroupAssignments.tier,
+      peerGroupId: peerGroupAssignments.peerGroupId,
+    })
     .from(peerGroupAssignments)
-    .where(and(eq(peerGroupAssignments.controlLotId, controlLotId), inArray(peerGroupAssignments.procedureId, [...procedureIds])));
+    .where(
+      and(
+        eq(peerGroupAssignments.controlLotId, controlLotId),
+        inArray(peerGroupAssignments.procedureId, [...procedureIds]),
+      ),
+    );
 }
 
 export async function summariesOf(
@@ -156,7 +191,12 @@ export async function summariesOf(
 }
 
 /** The coordinator's exclusions in force for the lot and period (of one analyte when given). */
-export async function activeExclusions(db: Executor, controlLotId: string, period: string, analyteId?: string) {
+export async function activeExclusions(
+  db: Executor,
+  controlLotId: string,
+  period: string,
+  analyteId?: string,
+) {
   return db
     .select({
       id: peerExclusions.id,
@@ -186,7 +226,13 @@ export const toExclusionEntries = (rows: Awaited<ReturnType<typeof activeExclusi
   rows.map((r) => ({ procedureId: r.procedureId, level: r.level, reason: r.reason }));
 
 /** Stored period figures of the groups for a level and period, at the given versions. */
-export async function periodStatistics(db: Executor, groupIds: readonly string[], level: number, period: string, versions: readonly number[]) {
+export async function periodStatistics(
+  db: Executor,
+  groupIds: readonly string[],
+  level: number,
+  period: string,
+  versions: readonly number[],
+) {
   if (groupIds.length === 0) return [];
   return db
     .select()
@@ -225,11 +271,22 @@ export async function dataTargets(
 }
 
 /** Levels at which the procedure has data on the lot for the period. */
-export async function procedureLevelsWithData(db: Executor, procedureId: string, controlLotId: string, period: string) {
+export async function procedureLevelsWithData(
+  db: Executor,
+  procedureId: string,
+  controlLotId: string,
+  period: string,
+) {
   const rows = await db
     .select({ level: qcSummaries.level })
     .from(qcSummaries)
-    .where(and(eq(qcSummaries.procedureId, procedureId), eq(qcSummaries.controlLotId, controlLotId), eq(qcSummaries.period, period)))
+    .where(
+      and(
+        eq(qcSummaries.procedureId, procedureId),
+        eq(qcSummaries.controlLotId, controlLotId),
+        eq(qcSummaries.period, period),
+      ),
+    )
     .orderBy(asc(qcSummaries.level));
   return rows.map((r) => r.level);
 }
@@ -248,7 +305,9 @@ export async function findActiveExclusionOverlap(
         eq(peerExclusions.period, input.period),
         isNull(peerExclusions.revokedAt),
         // Every-level exclusions overlap anything; a level exclusion overlaps the same level.
-        input.level === null ? undefined : or(isNull(peerExclusions.level), eq(peerExclusions.level, input.level)),
+        input.level === null
+          ? undefined
+          : or(isNull(peerExclusions.level), eq(peerExclusions.level, input.level)),
       ),
     )
     .limit(1);
@@ -257,10 +316,18 @@ export async function findActiveExclusionOverlap(
 
 // ---------- the adjustment ledger (audit events) ----------
 
-export const ADJUSTMENT_EVENT_KINDS = ['peer-group.merge', 'peer-group.split', 'peer-group.move', 'peer-group.exclude'] as const;
+export const ADJUSTMENT_EVENT_KINDS = [
+  'peer-group.merge',
+  'peer-group.split',
+  'peer-group.move',
+  'peer-group.exclude',
+] as const;
 export const UNDO_EVENT_KIND = 'peer-group.undo';
 
-export async function adjustmentEvents(db: Executor, filter: { controlLotId?: string; analyteId?: string; id?: number }) {
+export async function adjustmentEvents(
+  db: Executor,
+  filter: { controlLotId?: string; analyteId?: string; id?: number },
+) {
   return db
     .select({ event: auditEvents, actor: { id: users.id, name: users.name } })
     .from(auditEvents)
@@ -269,7 +336,9 @@ export async function adjustmentEvents(db: Executor, filter: { controlLotId?: st
       and(
         inArray(auditEvents.kind, [...ADJUSTMENT_EVENT_KINDS]),
         filter.id !== undefined ? eq(auditEvents.id, filter.id) : undefined,
-        filter.controlLotId ? sql`${auditEvents.details}->>'controlLotId' = ${filter.controlLotId}` : undefined,
+        filter.controlLotId
+          ? sql`${auditEvents.details}->>'controlLotId' = ${filter.controlLotId}`
+          : undefined,
         filter.analyteId ? sql`${auditEvents.details}->>'analyteId' = ${filter.analyteId}` : undefined,
       ),
     )

@@ -67,7 +67,10 @@ const tierText: Record<PeerTierName, string> = {
   method: 'method',
   analyte: 'analyte',
 };
-const criterionText: Record<SplitCriterion, string> = { reagent: 'reagent', instrumentModel: 'instrument model' };
+const criterionText: Record<SplitCriterion, string> = {
+  reagent: 'reagent',
+  instrumentModel: 'instrument model',
+};
 
 /** 422 naming the field that is wrong, in the shape parseInput uses for 400s. */
 function fieldError(path: string, message: string) {
@@ -121,7 +124,11 @@ export async function peerGroupsView(db: Database, rawQuery: unknown): Promise<P
     repo.summariesOf(db, lot.id, analyte.id, query.period, [query.level]),
     repo.activeExclusions(db, lot.id, query.period, analyte.id),
   ]);
-  const assignments = await repo.assignmentsOf(db, lot.id, procedures.map((p) => p.id));
+  const assignments = await repo.assignmentsOf(
+    db,
+    lot.id,
+    procedures.map((p) => p.id),
+  );
   const membership = resolveMembership({ groups, assignments }, procedures);
   const assigned = new Set(assignments.map((a) => `${a.procedureId}|${a.tier}`));
   const byId = new Map(groups.map((g) => [g.id, g]));
@@ -151,7 +158,15 @@ export async function peerGroupsView(db: Database, rawQuery: unknown): Promise<P
           method: { id: p.methodId, name: p.methodName },
           reagent: { id: p.reagentId, name: p.reagentName },
           assigned: assigned.has(`${procedureId}|${group.tier}`),
-          data: s ? { n: s.n, mean: s.mean, sd: s.sd, cv: s.mean !== 0 ? (100 * s.sd) / Math.abs(s.mean) : null, late: s.late } : null,
+          data: s
+            ? {
+                n: s.n,
+                mean: s.mean,
+                sd: s.sd,
+                cv: s.mean !== 0 ? (100 * s.sd) / Math.abs(s.mean) : null,
+                late: s.late,
+              }
+            : null,
           excluded: excluded ? { reason: excluded.reason, note: excluded.note ?? null } : null,
         };
       })
@@ -167,7 +182,8 @@ export async function peerGroupsView(db: Database, rawQuery: unknown): Promise<P
       members,
       labsWithData: new Set(members.filter((m) => m.data).map((m) => m.lab.id)).size,
       provisional: provisional ? figuresOfRow(provisional) : null,
-      published: published && publication ? { ...figuresOfRow(published), version: publication.version } : null,
+      published:
+        published && publication ? { ...figuresOfRow(published), version: publication.version } : null,
     };
   };
 
@@ -177,7 +193,9 @@ export async function peerGroupsView(db: Database, rawQuery: unknown): Promise<P
     level: query.level,
     period: query.period,
     periodState: periodRow?.state ?? null,
-    publication: publication ? { version: publication.version, publishedAt: publication.publishedAt.toISOString() } : null,
+    publication: publication
+      ? { version: publication.version, publishedAt: publication.publishedAt.toISOString() }
+      : null,
     minLabs: MIN_LABS,
     tiers: PEER_TIERS.map((tier) => ({
       tier,
@@ -200,7 +218,11 @@ async function loadContext(db: Executor, controlLotId: string, analyteId: string
   const procedures = await repo.lotProcedures(db, controlLotId, analyteId);
   const [groups, assignments, summaries, exclusionRows] = await Promise.all([
     repo.groupsOf(db, controlLotId, analyteId),
-    repo.assignmentsOf(db, controlLotId, procedures.map((p) => p.id)),
+    repo.assignmentsOf(
+      db,
+      controlLotId,
+      procedures.map((p) => p.id),
+    ),
     period ? repo.summariesOf(db, controlLotId, analyteId, period, lot.levels) : [],
     period ? repo.activeExclusions(db, controlLotId, period, analyteId) : [],
   ]);
@@ -237,7 +259,12 @@ function buildPreview(
     description,
     period,
     levels: levels.map((level) => {
-      const common = { procedures: context.procedures, summaries: context.summaries, level, minLabs: MIN_LABS };
+      const common = {
+        procedures: context.procedures,
+        summaries: context.summaries,
+        level,
+        minLabs: MIN_LABS,
+      };
       return {
         level,
         before: previewGroups(before.scenario, before.groupIds, common),
@@ -304,7 +331,8 @@ async function applyAdjustment(
 // ---------- merge ----------
 
 async function mergePair(db: Executor, sourceGroupId: string, targetGroupId: string) {
-  if (sourceGroupId === targetGroupId) throw fieldError('targetGroupId', 'choose two different groups to merge');
+  if (sourceGroupId === targetGroupId)
+    throw fieldError('targetGroupId', 'choose two different groups to merge');
   const source = await repo.findGroup(db, sourceGroupId);
   if (!source) throw fieldError('sourceGroupId', 'no such peer group');
   const target = await repo.findGroup(db, targetGroupId);
@@ -313,10 +341,14 @@ async function mergePair(db: Executor, sourceGroupId: string, targetGroupId: str
     throw fieldError('targetGroupId', 'the groups belong to different control lots or analytes');
   }
   if (source.tier !== target.tier) {
-    throw fieldError('targetGroupId', `the groups are at different tiers (${source.tier} and ${target.tier}); merge groups of one tier`);
+    throw fieldError(
+      'targetGroupId',
+      `the groups are at different tiers (${source.tier} and ${target.tier}); merge groups of one tier`,
+    );
   }
   for (const group of [source, target]) {
-    if (group.mergedIntoId) throw conflict(`“${group.label}” is already merged into another group; use that group.`);
+    if (group.mergedIntoId)
+      throw conflict(`“${group.label}” is already merged into another group; use that group.`);
   }
   return { source, target };
 }
@@ -335,7 +367,10 @@ export async function previewMerge(db: Database, rawBody: unknown): Promise<Adju
     body.period,
     context,
     previewLevels(context, body.level),
-    { scenario: { layout: context.layout, exclusions: context.exclusions }, groupIds: [source.id, target.id] },
+    {
+      scenario: { layout: context.layout, exclusions: context.exclusions },
+      groupIds: [source.id, target.id],
+    },
     { scenario: { layout: after, exclusions: context.exclusions }, groupIds: [target.id] },
   );
 }
@@ -366,7 +401,8 @@ type SplitPart = { value: string; name: string; procedureIds: string[] };
 async function splitPlan(db: Executor, groupId: string, by: SplitCriterion, period: string | null) {
   const group = await repo.findGroup(db, groupId);
   if (!group) throw fieldError('groupId', 'no such peer group');
-  if (group.mergedIntoId) throw conflict(`“${group.label}” is merged into another group; split that group instead.`);
+  if (group.mergedIntoId)
+    throw conflict(`“${group.label}” is merged into another group; split that group instead.`);
   const context = await loadContext(db, group.controlLotId, group.analyteId, period);
   const membership = resolveMembership(context.layout, context.procedures);
   const procedureById = new Map(context.procedures.map((p) => [p.id, p]));
@@ -380,7 +416,10 @@ async function splitPlan(db: Executor, groupId: string, by: SplitCriterion, peri
     else parts.set(value, { value, name, procedureIds: [procedureId] });
   }
   if (parts.size < 2) {
-    throw fieldError('by', `every member of “${group.label}” uses the same ${criterionText[by]}; there is nothing to split`);
+    throw fieldError(
+      'by',
+      `every member of “${group.label}” uses the same ${criterionText[by]}; there is nothing to split`,
+    );
   }
   const sorted = [...parts.values()].sort((a, b) => a.name.localeCompare(b.name));
   const keyOf = (part: SplitPart) => `${group.key}|${by}:${part.value}`;
@@ -404,7 +443,11 @@ export async function previewSplit(db: Database, rawBody: unknown): Promise<Adju
     assignments: [
       ...context.layout.assignments.filter((a) => !(a.tier === group.tier && moved.has(a.procedureId))),
       ...parts.flatMap((part) =>
-        part.procedureIds.map((procedureId): AssignmentRow => ({ procedureId, tier: group.tier, peerGroupId: `new:${part.value}` })),
+        part.procedureIds.map((procedureId): AssignmentRow => ({
+          procedureId,
+          tier: group.tier,
+          peerGroupId: `new:${part.value}`,
+        })),
       ),
     ],
   };
@@ -420,19 +463,41 @@ export async function previewSplit(db: Database, rawBody: unknown): Promise<Adju
   );
 }
 
-type AssignmentChange = { procedureId: string; tier: PeerTierName; newGroupId: string; previousGroupId: string | null };
+type AssignmentChange = {
+  procedureId: string;
+  tier: PeerTierName;
+  newGroupId: string;
+  previousGroupId: string | null;
+};
 
 /** Points each procedure's assignment at its new group, returning what was there before (for the undo). */
-async function reassign(tx: Executor, controlLotId: string, changes: Omit<AssignmentChange, 'previousGroupId'>[]) {
-  const existing = await repo.assignmentsOf(tx, controlLotId, changes.map((c) => c.procedureId));
+async function reassign(
+  tx: Executor,
+  controlLotId: string,
+  changes: Omit<AssignmentChange, 'previousGroupId'>[],
+) {
+  const existing = await repo.assignmentsOf(
+    tx,
+    controlLotId,
+    changes.map((c) => c.procedureId),
+  );
   const result: AssignmentChange[] = [];
   for (const change of changes) {
     const previous = existing.find((a) => a.procedureId === change.procedureId && a.tier === change.tier);
     await tx
       .insert(peerGroupAssignments)
-      .values({ procedureId: change.procedureId, controlLotId, tier: change.tier, peerGroupId: change.newGroupId })
+      .values({
+        procedureId: change.procedureId,
+        controlLotId,
+        tier: change.tier,
+        peerGroupId: change.newGroupId,
+      })
       .onConflictDoUpdate({
-        target: [peerGroupAssignments.procedureId, peerGroupAssignments.controlLotId, peerGroupAssignments.tier],
+        target: [
+          peerGroupAssignments.procedureId,
+          peerGroupAssignments.controlLotId,
+          peerGroupAssignments.tier,
+        ],
         set: { peerGroupId: change.newGroupId, createdAt: new Date() },
       });
     result.push({ ...change, previousGroupId: previous?.peerGroupId ?? null });
@@ -447,14 +512,29 @@ export async function applySplit(db: Database, principal: Principal, rawBody: un
     const { group, parts, keyOf, labelOf } = await splitPlan(tx, body.groupId, body.by, null);
     await tx
       .insert(peerGroups)
-      .values(parts.map((part) => ({ controlLotId: group.controlLotId, analyteId: group.analyteId, tier: group.tier, key: keyOf(part), label: labelOf(part) })))
+      .values(
+        parts.map((part) => ({
+          controlLotId: group.controlLotId,
+          analyteId: group.analyteId,
+          tier: group.tier,
+          key: keyOf(part),
+          label: labelOf(part),
+        })),
+      )
       .onConflictDoNothing();
     const created = await repo.groupsOf(tx, group.controlLotId, group.analyteId);
-    const groupIdOf = (part: SplitPart) => created.find((g) => g.tier === group.tier && g.key === keyOf(part))!.id;
+    const groupIdOf = (part: SplitPart) =>
+      created.find((g) => g.tier === group.tier && g.key === keyOf(part))!.id;
     const changes = await reassign(
       tx,
       group.controlLotId,
-      parts.flatMap((part) => part.procedureIds.map((procedureId) => ({ procedureId, tier: group.tier, newGroupId: groupIdOf(part) }))),
+      parts.flatMap((part) =>
+        part.procedureIds.map((procedureId) => ({
+          procedureId,
+          tier: group.tier,
+          newGroupId: groupIdOf(part),
+        })),
+      ),
     );
     return {
       kind: 'split',
@@ -464,7 +544,13 @@ export async function applySplit(db: Database, principal: Principal, rawBody: un
       entityId: group.id,
       description: `Split “${group.label}” by ${criterionText[body.by]} into ${parts.map((p) => `“${labelOf(p)}”`).join(', ')}`,
       reason: body.reason,
-      details: { tier: group.tier, groupId: group.id, by: body.by, createdGroupIds: parts.map(groupIdOf), assignments: changes },
+      details: {
+        tier: group.tier,
+        groupId: group.id,
+        by: body.by,
+        createdGroupIds: parts.map(groupIdOf),
+        assignments: changes,
+      },
       targets: await repo.dataTargets(tx, group.controlLotId, group.analyteId),
     };
   });
@@ -477,24 +563,37 @@ async function movePlan(db: Executor, procedureId: string, targetGroupId: string
   if (!procedure) throw fieldError('procedureId', 'no such measurement procedure');
   const target = await repo.findGroup(db, targetGroupId);
   if (!target) throw fieldError('targetGroupId', 'no such peer group');
-  if (target.mergedIntoId) throw conflict(`“${target.label}” is merged into another group; move the procedure there instead.`);
-  if (target.analyteId !== procedure.analyteId) throw fieldError('targetGroupId', 'the group is for another analyte');
+  if (target.mergedIntoId)
+    throw conflict(`“${target.label}” is merged into another group; move the procedure there instead.`);
+  if (target.analyteId !== procedure.analyteId)
+    throw fieldError('targetGroupId', 'the group is for another analyte');
   const context = await loadContext(db, target.controlLotId, target.analyteId, period);
   if (!context.procedures.some((p) => p.id === procedure.id)) {
-    throw fieldError('procedureId', `${procedureName(procedure)} has no QC data on the control lot ${context.lot.lotNumber}`);
+    throw fieldError(
+      'procedureId',
+      `${procedureName(procedure)} has no QC data on the control lot ${context.lot.lotNumber}`,
+    );
   }
   const current = resolveMembership(context.layout, context.procedures).get(procedure.id)?.[target.tier];
-  if (current?.id === target.id) throw fieldError('targetGroupId', `${procedureName(procedure)} is already in “${target.label}”`);
+  if (current?.id === target.id)
+    throw fieldError('targetGroupId', `${procedureName(procedure)} is already in “${target.label}”`);
   return { procedure, target, current, context };
 }
 
 export async function previewMove(db: Database, rawBody: unknown): Promise<AdjustmentPreview> {
   const body = parseInput(movePreviewRequestSchema, rawBody);
-  const { procedure, target, current, context } = await movePlan(db, body.procedureId, body.targetGroupId, body.period);
+  const { procedure, target, current, context } = await movePlan(
+    db,
+    body.procedureId,
+    body.targetGroupId,
+    body.period,
+  );
   const after: Layout = {
     groups: context.layout.groups,
     assignments: [
-      ...context.layout.assignments.filter((a) => !(a.procedureId === procedure.id && a.tier === target.tier)),
+      ...context.layout.assignments.filter(
+        (a) => !(a.procedureId === procedure.id && a.tier === target.tier),
+      ),
       { procedureId: procedure.id, tier: target.tier, peerGroupId: target.id },
     ],
   };
@@ -514,7 +613,9 @@ export async function applyMove(db: Database, principal: Principal, rawBody: unk
   const body = parseInput(moveRequestSchema, rawBody);
   return applyAdjustment(db, principal, async (tx) => {
     const { procedure, target, current } = await movePlan(tx, body.procedureId, body.targetGroupId, null);
-    const changes = await reassign(tx, target.controlLotId, [{ procedureId: procedure.id, tier: target.tier, newGroupId: target.id }]);
+    const changes = await reassign(tx, target.controlLotId, [
+      { procedureId: procedure.id, tier: target.tier, newGroupId: target.id },
+    ]);
     return {
       kind: 'move',
       controlLotId: target.controlLotId,
@@ -524,7 +625,13 @@ export async function applyMove(db: Database, principal: Principal, rawBody: unk
       entityId: target.id,
       description: `Moved ${procedureName(procedure)} from “${current?.label ?? 'no group'}” to “${target.label}” (${tierText[target.tier]} tier)`,
       reason: body.reason,
-      details: { tier: target.tier, procedureId: procedure.id, fromGroupId: current?.id ?? null, targetGroupId: target.id, assignments: changes },
+      details: {
+        tier: target.tier,
+        procedureId: procedure.id,
+        fromGroupId: current?.id ?? null,
+        targetGroupId: target.id,
+        assignments: changes,
+      },
       targets: await repo.dataTargets(tx, target.controlLotId, target.analyteId),
     };
   });
@@ -552,8 +659,17 @@ async function exclusionPlan(
       `${procedureName(procedure)} has no data on the lot ${lot.lotNumber}${level === null ? '' : ` at level ${level}`} for ${input.period}`,
     );
   }
-  if (await repo.findActiveExclusionOverlap(db, { procedureId: procedure.id, controlLotId: lot.id, period: input.period, level })) {
-    throw conflict(`${procedureName(procedure)} is already excluded for ${input.period}${level === null ? '' : ` at level ${level}`}.`);
+  if (
+    await repo.findActiveExclusionOverlap(db, {
+      procedureId: procedure.id,
+      controlLotId: lot.id,
+      period: input.period,
+      level,
+    })
+  ) {
+    throw conflict(
+      `${procedureName(procedure)} is already excluded for ${input.period}${level === null ? '' : ` at level ${level}`}.`,
+    );
   }
   const scope = `${input.period}${level === null ? ', every level' : `, level ${level}`}`;
   return { procedure, lot, level, levels, scope };
@@ -603,7 +719,10 @@ export async function applyExclusion(db: Database, principal: Principal, rawBody
       description: `Excluded ${procedureName(procedure)} from the peer figures of ${scope}`,
       reason: body.reason,
       details: { exclusionId: row.id, procedureId: procedure.id, level },
-      targets: await repo.dataTargets(tx, lot.id, procedure.analyteId, { period: body.period, levels: level === null ? undefined : [level] }),
+      targets: await repo.dataTargets(tx, lot.id, procedure.analyteId, {
+        period: body.period,
+        levels: level === null ? undefined : [level],
+      }),
     };
   });
 }
@@ -624,12 +743,20 @@ type AdjustmentDetails = {
   assignments?: AssignmentChange[];
 };
 
-async function loadAdjustments(db: Executor, filter: { controlLotId?: string; analyteId?: string; id?: number }) {
+async function loadAdjustments(
+  db: Executor,
+  filter: { controlLotId?: string; analyteId?: string; id?: number },
+) {
   const rows = await repo.adjustmentEvents(db, filter);
-  const undos = await repo.undoEvents(db, rows.map((r) => r.event.id));
+  const undos = await repo.undoEvents(
+    db,
+    rows.map((r) => r.event.id),
+  );
   return rows.map(({ event, actor }): PeerGroupAdjustment => {
     const details = event.details as AdjustmentDetails;
-    const undo = undos.find((u) => Number((u.event.details as { adjustmentId: unknown }).adjustmentId) === event.id);
+    const undo = undos.find(
+      (u) => Number((u.event.details as { adjustmentId: unknown }).adjustmentId) === event.id,
+    );
     return {
       id: event.id,
       kind: details.adjustment,
@@ -666,19 +793,26 @@ export async function undoAdjustment(db: Database, principal: Principal, rawId: 
     await tx.execute(sql`select pg_advisory_xact_lock(${ADJUSTMENT_LOCK_KEY})`);
     const [row] = await repo.adjustmentEvents(tx, { id });
     if (!row) throw notFound('Adjustment');
-    if ((await repo.undoEvents(tx, [id])).length > 0) throw conflict('This adjustment has already been undone.');
+    if ((await repo.undoEvents(tx, [id])).length > 0)
+      throw conflict('This adjustment has already been undone.');
     const details = row.event.details as AdjustmentDetails;
 
     if (details.adjustment === 'merge') {
       const source = await repo.findGroup(tx, details.sourceGroupId!);
-      if (source?.mergedIntoId !== details.targetGroupId) throw conflict(`The merge cannot be undone: ${CHANGED_SINCE}.`);
+      if (source?.mergedIntoId !== details.targetGroupId)
+        throw conflict(`The merge cannot be undone: ${CHANGED_SINCE}.`);
       await tx.update(peerGroups).set({ mergedIntoId: null }).where(eq(peerGroups.id, source.id));
     } else if (details.adjustment === 'split' || details.adjustment === 'move') {
       const changes = details.assignments ?? [];
-      const current = await repo.assignmentsOf(tx, details.controlLotId, changes.map((c) => c.procedureId));
+      const current = await repo.assignmentsOf(
+        tx,
+        details.controlLotId,
+        changes.map((c) => c.procedureId),
+      );
       for (const change of changes) {
         const now = current.find((a) => a.procedureId === change.procedureId && a.tier === change.tier);
-        if (now?.peerGroupId !== change.newGroupId) throw conflict(`The ${details.adjustment} cannot be undone: ${CHANGED_SINCE}.`);
+        if (now?.peerGroupId !== change.newGroupId)
+          throw conflict(`The ${details.adjustment} cannot be undone: ${CHANGED_SINCE}.`);
       }
       for (const change of changes) {
         const where = and(

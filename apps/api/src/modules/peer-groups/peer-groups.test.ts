@@ -12,7 +12,13 @@ import {
   recomputeAllPeerStatistics,
 } from '@plumbline/db';
 import { createQcCatalogue, type QcCatalogue } from '@plumbline/db/testing';
-import type { AdjustmentPreview, PeerGroup, PeerGroupFigures, PeerGroupsView, PeerReportRow } from '@plumbline/contracts';
+import type {
+  AdjustmentPreview,
+  PeerGroup,
+  PeerGroupFigures,
+  PeerGroupsView,
+  PeerReportRow,
+} from '@plumbline/contracts';
 import { createTestApp, type TestApp } from '../../testing/test-app.ts';
 
 let t: TestApp;
@@ -57,11 +63,13 @@ const february: Record<Name, { n: number; mean: number; sd: number }> = {
 };
 const PERIOD = '2026-02';
 
-const inputsOf = (names: Name[]): LabSummary[] => names.map((n) => ({ id: labs[n].procedureId, ...february[n] }));
+const inputsOf = (names: Name[]): LabSummary[] =>
+  names.map((n) => ({ id: labs[n].procedureId, ...february[n] }));
 
 const as = (auth: string) => ({
   get: (path: string) => request(t.app).get(`/api${path}`).set('Authorization', auth),
-  post: (path: string, body?: object) => request(t.app).post(`/api${path}`).set('Authorization', auth).send(body),
+  post: (path: string, body?: object) =>
+    request(t.app).post(`/api${path}`).set('Authorization', auth).send(body),
 });
 const asCoordinator = () => as(coordinator.auth);
 
@@ -77,7 +85,9 @@ async function view(): Promise<PeerGroupsView> {
 /** The group a lab's procedure belongs to at a tier, in the view. */
 async function groupOf(name: Name, tier: PeerGroup['tier']): Promise<PeerGroup> {
   const body = await view();
-  const group = body.tiers.find((x) => x.tier === tier)!.groups.find((g) => g.members.some((m) => m.procedureId === labs[name].procedureId));
+  const group = body.tiers
+    .find((x) => x.tier === tier)!
+    .groups.find((g) => g.members.some((m) => m.procedureId === labs[name].procedureId));
   if (!group) throw new Error(`no ${tier} group for ${name}`);
   return group;
 }
@@ -104,11 +114,19 @@ async function provisionalSnapshot() {
   const rows = await t.db.select().from(peerStatistics).where(eq(peerStatistics.version, 0));
   return rows
     .map(({ id: _id, computedAt: _at, ...rest }) => ({ ...rest, members: [...rest.members].sort() }))
-    .sort((a, b) => `${a.peerGroupId}|${a.level}|${a.period}|${a.scope}`.localeCompare(`${b.peerGroupId}|${b.level}|${b.period}|${b.scope}`));
+    .sort((a, b) =>
+      `${a.peerGroupId}|${a.level}|${a.period}|${a.scope}`.localeCompare(
+        `${b.peerGroupId}|${b.level}|${b.period}|${b.scope}`,
+      ),
+    );
 }
 
 /** Figures equal @plumbline/stats `peerStatistics` on the same inputs (to 12 digits). */
-function expectFigures(figures: Pick<PeerGroupFigures, 'labs' | 'n' | 'mean' | 'sd' | 'withinCv'> | null, inputs: LabSummary[], excludeIds: string[] = []) {
+function expectFigures(
+  figures: Pick<PeerGroupFigures, 'labs' | 'n' | 'mean' | 'sd' | 'withinCv'> | null,
+  inputs: LabSummary[],
+  excludeIds: string[] = [],
+) {
   const expected = computePeerStatistics(inputs, { minLabs: 3, excludeIds });
   expect(figures).not.toBeNull();
   expect(figures!.labs).toBe(expected.labs);
@@ -137,8 +155,17 @@ beforeAll(async () => {
       },
     ]);
     const user = await t.makeUser('analyst', lab.id);
-    labs[name] = { id: lab.id, code: lab.code, name: lab.name, procedureId: procedures[0].id, auth: user.auth };
-    for (const [period, data] of [['2026-01', january], [PERIOD, february]] as const) {
+    labs[name] = {
+      id: lab.id,
+      code: lab.code,
+      name: lab.name,
+      procedureId: procedures[0].id,
+      auth: user.auth,
+    };
+    for (const [period, data] of [
+      ['2026-01', january],
+      [PERIOD, february],
+    ] as const) {
       await t.db.insert(qcSummaries).values({
         labId: lab.id,
         procedureId: procedures[0].id,
@@ -172,7 +199,9 @@ describe('the peer-group view', () => {
 
     const abc = body.tiers[0].groups[0];
     expect(abc.members.map((m) => m.lab)).toEqual(
-      (['A', 'B', 'C'] as const).map((n) => ({ id: labs[n].id, code: labs[n].code, name: labs[n].name })).sort((a, b) => a.code.localeCompare(b.code)),
+      (['A', 'B', 'C'] as const)
+        .map((n) => ({ id: labs[n].id, code: labs[n].code, name: labs[n].name }))
+        .sort((a, b) => a.code.localeCompare(b.code)),
     );
     expect(abc.labsWithData).toBe(3);
     expect(abc.members[0].data).toMatchObject({ n: expect.any(Number), late: false });
@@ -184,7 +213,10 @@ describe('the peer-group view', () => {
     const expected = computePeerStatistics(inputsOf(['A', 'B', 'C', 'D', 'E', 'F']), { minLabs: 3 });
     expect(expected.excluded).toEqual([{ id: labs.F.procedureId, reason: 'outlier' }]);
     expectFigures(hexokinase.provisional, inputsOf(['A', 'B', 'C', 'D', 'E', 'F']));
-    expect(hexokinase.members.find((m) => m.procedureId === labs.F.procedureId)!.excluded).toEqual({ reason: 'outlier', note: null });
+    expect(hexokinase.members.find((m) => m.procedureId === labs.F.procedureId)!.excluded).toEqual({
+      reason: 'outlier',
+      note: null,
+    });
     expect(body.tiers[2].groups).toHaveLength(1);
     expect(body.tiers[2].groups[0].members).toHaveLength(7);
   });
@@ -192,17 +224,31 @@ describe('the peer-group view', () => {
   it('when the analytes of a lot are asked for, then those with data are listed', async () => {
     const res = await asCoordinator().get(`/peer-groups/analytes?controlLotId=${catalogue.lot.id}`);
     expect(res.status).toBe(200);
-    expect(res.body).toEqual([{ id: catalogue.analytes.glucose.id, code: catalogue.analytes.glucose.code, name: 'Glucose', unit: 'mmol/L' }]);
+    expect(res.body).toEqual([
+      {
+        id: catalogue.analytes.glucose.id,
+        code: catalogue.analytes.glucose.code,
+        name: 'Glucose',
+        unit: 'mmol/L',
+      },
+    ]);
   });
 
   it('when the query is incomplete or wrong, then 400 naming each field; an unknown lot gives 404', async () => {
     const missing = await asCoordinator().get(`/peer-groups?level=x&period=2026-2`);
     expect(missing.status).toBe(400);
-    expect(missing.body.error.details.map((d: { path: string }) => d.path).sort()).toEqual(['analyteId', 'controlLotId', 'level', 'period']);
+    expect(missing.body.error.details.map((d: { path: string }) => d.path).sort()).toEqual([
+      'analyteId',
+      'controlLotId',
+      'level',
+      'period',
+    ]);
 
     const noLevel = await asCoordinator().get(viewQuery(3));
     expect(noLevel.status).toBe(400);
-    expect(noLevel.body.error.details).toEqual([{ path: 'level', message: expect.stringContaining('has levels 1, 2') }]);
+    expect(noLevel.body.error.details).toEqual([
+      { path: 'level', message: expect.stringContaining('has levels 1, 2') },
+    ]);
 
     const unknown = await asCoordinator().get(
       `/peer-groups?controlLotId=00000000-0000-4000-8000-000000000000&analyteId=${catalogue.analytes.glucose.id}&level=1&period=${PERIOD}`,
@@ -218,7 +264,12 @@ describe('merging two groups', () => {
     const storedBefore = await provisionalSnapshot();
     const auditBefore = (await t.db.select().from(auditEvents)).length;
 
-    const res = await asCoordinator().post('/peer-groups/merge/preview', { sourceGroupId: de.id, targetGroupId: abc.id, period: PERIOD, level: 1 });
+    const res = await asCoordinator().post('/peer-groups/merge/preview', {
+      sourceGroupId: de.id,
+      targetGroupId: abc.id,
+      period: PERIOD,
+      level: 1,
+    });
     expect(res.status).toBe(200);
     const preview: AdjustmentPreview = res.body;
     expect(preview.kind).toBe('merge');
@@ -228,7 +279,9 @@ describe('merging two groups', () => {
     expectFigures(level.before[0].figures, inputsOf(['D', 'E']));
     expectFigures(level.before[1].figures, inputsOf(['A', 'B', 'C']));
     expect(level.after.map((g) => g.id)).toEqual([abc.id]);
-    expect(level.after[0].members.map((m) => m.procedureId).sort()).toEqual((['A', 'B', 'C', 'D', 'E'] as const).map((n) => labs[n].procedureId).sort());
+    expect(level.after[0].members.map((m) => m.procedureId).sort()).toEqual(
+      (['A', 'B', 'C', 'D', 'E'] as const).map((n) => labs[n].procedureId).sort(),
+    );
     expectFigures(level.after[0].figures, inputsOf(['A', 'B', 'C', 'D', 'E']));
 
     expect(await provisionalSnapshot()).toEqual(storedBefore);
@@ -242,7 +295,11 @@ describe('merging two groups', () => {
     const de = await groupOf('D', 'instrument');
     const storedBefore = await provisionalSnapshot();
 
-    const res = await asCoordinator().post('/peer-groups/merge', { sourceGroupId: de.id, targetGroupId: abc.id, reason: 'same optics and calibrator' });
+    const res = await asCoordinator().post('/peer-groups/merge', {
+      sourceGroupId: de.id,
+      targetGroupId: abc.id,
+      reason: 'same optics and calibrator',
+    });
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({
       kind: 'merge',
@@ -264,19 +321,35 @@ describe('merging two groups', () => {
     const [cumulative] = await t.db
       .select()
       .from(peerStatistics)
-      .where(and(eq(peerStatistics.peerGroupId, abc.id), eq(peerStatistics.scope, 'cumulative'), eq(peerStatistics.period, PERIOD), eq(peerStatistics.version, 0)));
+      .where(
+        and(
+          eq(peerStatistics.peerGroupId, abc.id),
+          eq(peerStatistics.scope, 'cumulative'),
+          eq(peerStatistics.period, PERIOD),
+          eq(peerStatistics.version, 0),
+        ),
+      );
     expect(cumulative.labs).toBe(5);
 
     const [event] = await auditOf('peer-group.merge');
-    expect(event).toMatchObject({ actorId: coordinator.id, entityId: abc.id, details: expect.objectContaining({ reason: 'same optics and calibrator' }) });
+    expect(event).toMatchObject({
+      actorId: coordinator.id,
+      entityId: abc.id,
+      details: expect.objectContaining({ reason: 'same optics and calibrator' }),
+    });
 
     const listed = await asCoordinator().get(`/peer-groups/adjustments?controlLotId=${catalogue.lot.id}`);
     expect(listed.status).toBe(200);
     expect(listed.body.map((a: { id: number }) => a.id)).toContain(res.body.id);
 
-    const undone = await asCoordinator().post(`/peer-groups/adjustments/${res.body.id}/undo`, { reason: 'merged the wrong pair' });
+    const undone = await asCoordinator().post(`/peer-groups/adjustments/${res.body.id}/undo`, {
+      reason: 'merged the wrong pair',
+    });
     expect(undone.status).toBe(200);
-    expect(undone.body.undone).toMatchObject({ actor: { id: coordinator.id }, reason: 'merged the wrong pair' });
+    expect(undone.body.undone).toMatchObject({
+      actor: { id: coordinator.id },
+      reason: 'merged the wrong pair',
+    });
     expect(await provisionalSnapshot()).toEqual(storedBefore);
     expect((await groupOf('D', 'instrument')).id).toBe(de.id);
 
@@ -288,17 +361,36 @@ describe('merging two groups', () => {
     const abc = await groupOf('A', 'instrument');
     const hexokinase = await groupOf('A', 'method');
 
-    const shape = await asCoordinator().post('/peer-groups/merge', { sourceGroupId: 'nope', targetGroupId: abc.id });
+    const shape = await asCoordinator().post('/peer-groups/merge', {
+      sourceGroupId: 'nope',
+      targetGroupId: abc.id,
+    });
     expect(shape.status).toBe(400);
-    expect(shape.body.error.details.map((d: { path: string }) => d.path).sort()).toEqual(['reason', 'sourceGroupId']);
+    expect(shape.body.error.details.map((d: { path: string }) => d.path).sort()).toEqual([
+      'reason',
+      'sourceGroupId',
+    ]);
 
-    const same = await asCoordinator().post('/peer-groups/merge', { sourceGroupId: abc.id, targetGroupId: abc.id, reason: 'x' });
+    const same = await asCoordinator().post('/peer-groups/merge', {
+      sourceGroupId: abc.id,
+      targetGroupId: abc.id,
+      reason: 'x',
+    });
     expect(same.status).toBe(422);
-    expect(same.body.error.details).toEqual([{ path: 'targetGroupId', message: 'choose two different groups to merge' }]);
+    expect(same.body.error.details).toEqual([
+      { path: 'targetGroupId', message: 'choose two different groups to merge' },
+    ]);
 
-    const tiers = await asCoordinator().post('/peer-groups/merge/preview', { sourceGroupId: abc.id, targetGroupId: hexokinase.id, period: PERIOD });
+    const tiers = await asCoordinator().post('/peer-groups/merge/preview', {
+      sourceGroupId: abc.id,
+      targetGroupId: hexokinase.id,
+      period: PERIOD,
+    });
     expect(tiers.status).toBe(422);
-    expect(tiers.body.error.details[0]).toMatchObject({ path: 'targetGroupId', message: expect.stringContaining('different tiers') });
+    expect(tiers.body.error.details[0]).toMatchObject({
+      path: 'targetGroupId',
+      message: expect.stringContaining('different tiers'),
+    });
 
     const unknown = await asCoordinator().post('/peer-groups/merge/preview', {
       sourceGroupId: '00000000-0000-4000-8000-000000000000',
@@ -308,7 +400,10 @@ describe('merging two groups', () => {
     expect(unknown.status).toBe(422);
     expect(unknown.body.error.details[0].path).toBe('sourceGroupId');
 
-    const noPeriod = await asCoordinator().post('/peer-groups/merge/preview', { sourceGroupId: abc.id, targetGroupId: hexokinase.id });
+    const noPeriod = await asCoordinator().post('/peer-groups/merge/preview', {
+      sourceGroupId: abc.id,
+      targetGroupId: hexokinase.id,
+    });
     expect(noPeriod.status).toBe(400);
     expect(noPeriod.body.error.details[0].path).toBe('period');
   });
@@ -319,7 +414,12 @@ describe('splitting a group', () => {
     const hexokinase = await groupOf('A', 'method');
     const storedBefore = await provisionalSnapshot();
 
-    const preview = await asCoordinator().post('/peer-groups/split/preview', { groupId: hexokinase.id, by: 'reagent', period: PERIOD, level: 1 });
+    const preview = await asCoordinator().post('/peer-groups/split/preview', {
+      groupId: hexokinase.id,
+      by: 'reagent',
+      period: PERIOD,
+      level: 1,
+    });
     expect(preview.status).toBe(200);
     const [level] = (preview.body as AdjustmentPreview).levels;
     expectFigures(level.before[0].figures, inputsOf(['A', 'B', 'C', 'D', 'E', 'F']));
@@ -331,7 +431,11 @@ describe('splitting a group', () => {
     expect(level.after[0].label).toContain('reagent Reagent kit R');
     expect(await provisionalSnapshot()).toEqual(storedBefore);
 
-    const applied = await asCoordinator().post('/peer-groups/split', { groupId: hexokinase.id, by: 'reagent', reason: 'reagent S reads differently' });
+    const applied = await asCoordinator().post('/peer-groups/split', {
+      groupId: hexokinase.id,
+      by: 'reagent',
+      reason: 'reagent S reads differently',
+    });
     expect(applied.status).toBe(201);
     const reagentR = await groupOf('A', 'method');
     expect(reagentR.id).not.toBe(hexokinase.id);
@@ -348,10 +452,21 @@ describe('splitting a group', () => {
 
   it('when every member shares the criterion, then 422 on `by`', async () => {
     const abc = await groupOf('A', 'instrument');
-    const res = await asCoordinator().post('/peer-groups/split/preview', { groupId: abc.id, by: 'instrumentModel', period: PERIOD });
+    const res = await asCoordinator().post('/peer-groups/split/preview', {
+      groupId: abc.id,
+      by: 'instrumentModel',
+      period: PERIOD,
+    });
     expect(res.status).toBe(422);
-    expect(res.body.error.details[0]).toMatchObject({ path: 'by', message: expect.stringContaining('nothing to split') });
-    const bad = await asCoordinator().post('/peer-groups/split', { groupId: abc.id, by: 'colour', reason: 'x' });
+    expect(res.body.error.details[0]).toMatchObject({
+      path: 'by',
+      message: expect.stringContaining('nothing to split'),
+    });
+    const bad = await asCoordinator().post('/peer-groups/split', {
+      groupId: abc.id,
+      by: 'colour',
+      reason: 'x',
+    });
     expect(bad.status).toBe(400);
     expect(bad.body.error.details[0].path).toBe('by');
   });
@@ -363,22 +478,37 @@ describe('moving a procedure', () => {
     const f = await groupOf('F', 'instrument');
     const storedBefore = await provisionalSnapshot();
 
-    const preview = await asCoordinator().post('/peer-groups/move/preview', { procedureId: labs.F.procedureId, targetGroupId: abc.id, period: PERIOD, level: 1 });
+    const preview = await asCoordinator().post('/peer-groups/move/preview', {
+      procedureId: labs.F.procedureId,
+      targetGroupId: abc.id,
+      period: PERIOD,
+      level: 1,
+    });
     expect(preview.status).toBe(200);
     const [level] = (preview.body as AdjustmentPreview).levels;
     expect(level.before.map((g) => g.id)).toEqual([f.id, abc.id]);
     expect(level.after[0].figures).toBeNull();
     expectFigures(level.after[1].figures, inputsOf(['A', 'B', 'C', 'F']));
 
-    const applied = await asCoordinator().post('/peer-groups/move', { procedureId: labs.F.procedureId, targetGroupId: abc.id, reason: 'reagent S is a relabel of R' });
+    const applied = await asCoordinator().post('/peer-groups/move', {
+      procedureId: labs.F.procedureId,
+      targetGroupId: abc.id,
+      reason: 'reagent S is a relabel of R',
+    });
     expect(applied.status).toBe(201);
     expectFigures(await storedFigures(abc.id), inputsOf(['A', 'B', 'C', 'F']));
-    const moved = (await groupOf('F', 'instrument')).members.find((m) => m.procedureId === labs.F.procedureId)!;
+    const moved = (await groupOf('F', 'instrument')).members.find(
+      (m) => m.procedureId === labs.F.procedureId,
+    )!;
     expect(moved.assigned).toBe(true);
     const [event] = await auditOf('peer-group.move');
     expect(event.labId).toBe(labs.F.id);
 
-    const same = await asCoordinator().post('/peer-groups/move/preview', { procedureId: labs.F.procedureId, targetGroupId: abc.id, period: PERIOD });
+    const same = await asCoordinator().post('/peer-groups/move/preview', {
+      procedureId: labs.F.procedureId,
+      targetGroupId: abc.id,
+      period: PERIOD,
+    });
     expect(same.status).toBe(422);
     expect(same.body.error.details[0].path).toBe('targetGroupId');
 
@@ -404,7 +534,9 @@ describe('excluding a lab’s data', () => {
     const [level] = (preview.body as AdjustmentPreview).levels;
     expect(level.before.map((g) => g.tier)).toEqual(['instrument', 'method', 'analyte']);
     expectFigures(level.after[0].figures, inputsOf(['A', 'B', 'C']), [labs.B.procedureId]);
-    expect(level.after[0].figures!.excluded).toEqual([{ procedureId: labs.B.procedureId, reason: 'manual', note: reason }]);
+    expect(level.after[0].figures!.excluded).toEqual([
+      { procedureId: labs.B.procedureId, reason: 'manual', note: reason },
+    ]);
     expect(level.after[0].figures!.sufficient).toBe(false);
     expect(await provisionalSnapshot()).toEqual(storedBefore);
 
@@ -423,19 +555,33 @@ describe('excluding a lab’s data', () => {
     const report = await as(labs.B.auth).get(`/labs/${labs.B.id}/peer-report?period=${PERIOD}`);
     expect(report.status).toBe(200);
     const row: PeerReportRow = report.body.rows.find((r: PeerReportRow) => r.level === 1);
-    const methodPeer = computePeerStatistics(inputsOf(['A', 'B', 'C', 'D', 'E', 'F']), { minLabs: 3, excludeIds: [labs.B.procedureId] });
+    const methodPeer = computePeerStatistics(inputsOf(['A', 'B', 'C', 'D', 'E', 'F']), {
+      minLabs: 3,
+      excludeIds: [labs.B.procedureId],
+    });
     expect(row.peer).toMatchObject({ tier: 'method', labs: methodPeer.labs });
     expect(row.peer!.mean).toBeCloseTo(methodPeer.mean, 12);
     expect(row.excluded).toEqual({ reason: 'manual', note: reason });
-    expect(row.flags).toContainEqual({ kind: 'exclusion', severity: 'warning', message: expect.stringContaining(reason) });
+    expect(row.flags).toContainEqual({
+      kind: 'exclusion',
+      severity: 'warning',
+      message: expect.stringContaining(reason),
+    });
 
     const audit = await asCoordinator().get(`/audit-events?labId=${labs.B.id}&kind=peer-group.exclude`);
     expect(audit.status).toBe(200);
     expect(audit.body.items).toHaveLength(1);
-    expect(audit.body.items[0]).toMatchObject({ actor: { id: coordinator.id }, lab: { id: labs.B.id }, details: expect.objectContaining({ reason }) });
+    expect(audit.body.items[0]).toMatchObject({
+      actor: { id: coordinator.id },
+      lab: { id: labs.B.id },
+      details: expect.objectContaining({ reason }),
+    });
 
     const groupB = await groupOf('B', 'instrument');
-    expect(groupB.members.find((m) => m.procedureId === labs.B.procedureId)!.excluded).toEqual({ reason: 'manual', note: reason });
+    expect(groupB.members.find((m) => m.procedureId === labs.B.procedureId)!.excluded).toEqual({
+      reason: 'manual',
+      note: reason,
+    });
 
     const twice = await asCoordinator().post('/peer-groups/exclusions', {
       procedureId: labs.B.procedureId,
@@ -453,7 +599,9 @@ describe('excluding a lab’s data', () => {
     expect(await provisionalSnapshot()).toEqual(storedBefore);
     const after = await as(labs.B.auth).get(`/labs/${labs.B.id}/peer-report?period=${PERIOD}`);
     expect(after.body.rows.find((r: PeerReportRow) => r.level === 1).excluded).toBeNull();
-    expect(await t.db.select().from(auditEvents).where(like(auditEvents.kind, 'peer-group.undo'))).not.toHaveLength(0);
+    expect(
+      await t.db.select().from(auditEvents).where(like(auditEvents.kind, 'peer-group.undo')),
+    ).not.toHaveLength(0);
   });
 
   it('when the exclusion has no reason, no data to exclude or an unknown level, then 400 or 422 naming the field', async () => {
@@ -464,7 +612,9 @@ describe('excluding a lab’s data', () => {
       reason: '  ',
     });
     expect(noReason.status).toBe(400);
-    expect(noReason.body.error.details).toEqual([{ path: 'reason', message: 'say why; the reason is kept in the audit log' }]);
+    expect(noReason.body.error.details).toEqual([
+      { path: 'reason', message: 'say why; the reason is kept in the audit log' },
+    ]);
 
     const noData = await asCoordinator().post('/peer-groups/exclusions/preview', {
       procedureId: labs.B.procedureId,
@@ -472,7 +622,10 @@ describe('excluding a lab’s data', () => {
       period: '2026-04',
     });
     expect(noData.status).toBe(422);
-    expect(noData.body.error.details[0]).toMatchObject({ path: 'period', message: expect.stringContaining('has no data') });
+    expect(noData.body.error.details[0]).toMatchObject({
+      path: 'period',
+      message: expect.stringContaining('has no data'),
+    });
 
     const level = await asCoordinator().post('/peer-groups/exclusions/preview', {
       procedureId: labs.B.procedureId,
@@ -495,8 +648,20 @@ describe('the participation board’s flags', () => {
     expect(sdi).toBeGreaterThan(3);
     expect(f.flags).toEqual(
       expect.arrayContaining([
-        { kind: 'sdi', procedureId: labs.F.procedureId, controlLotId: catalogue.lot.id, level: 1, value: expect.closeTo(sdi, 10) },
-        { kind: 'excluded-outlier', procedureId: labs.F.procedureId, controlLotId: catalogue.lot.id, level: 1, value: null },
+        {
+          kind: 'sdi',
+          procedureId: labs.F.procedureId,
+          controlLotId: catalogue.lot.id,
+          level: 1,
+          value: expect.closeTo(sdi, 10),
+        },
+        {
+          kind: 'excluded-outlier',
+          procedureId: labs.F.procedureId,
+          controlLotId: catalogue.lot.id,
+          level: 1,
+          value: null,
+        },
       ]),
     );
     const a = res.body.labs.find((l: { lab: { id: string } }) => l.lab.id === labs.A.id);

@@ -11,7 +11,11 @@ import {
 } from '@plumbline/db';
 
 export async function findLab(db: Executor, labId: string) {
-  const [lab] = await db.select({ id: labs.id, code: labs.code, name: labs.name }).from(labs).where(eq(labs.id, labId)).limit(1);
+  const [lab] = await db
+    .select({ id: labs.id, code: labs.code, name: labs.name, preferredUnits: labs.preferredUnits })
+    .from(labs)
+    .where(eq(labs.id, labId))
+    .limit(1);
   return lab ?? null;
 }
 
@@ -41,6 +45,8 @@ export async function labSummaries(db: Executor, labId: string, period: string) 
         teaPct: analytes.teaPct,
         teaSource: analytes.teaSource,
       },
+      conventionalUnit: analytes.conventionalUnit,
+      molarMass: analytes.molarMass,
       controlLotId: controlLots.id,
       lotNumber: controlLots.lotNumber,
       level: qcSummaries.level,

@@ -7,16 +7,21 @@ import {
   type Database,
   type PeerMembership,
 } from '@plumbline/db';
-import type { LabFigures, PeerFigures, PeerReport, PeerReportRow, ReportFlag } from '@plumbline/contracts';
+import type { LabFigures, PeerFigures, PeerReport, PeerReportRow, ReportFlag, UnitSystem } from '@plumbline/contracts';
 import type { Principal } from '../../auth/principal.ts';
 import { assertLabAccess } from '../../auth/authenticate.ts';
 import { notFound } from '../../errors/app-error.ts';
 import { cvrFlag, exclusionFlag, peerNote, sdiFlag, type TierCandidate } from './flags.ts';
 import * as repo from './peer-report.repository.ts';
+import { convertSpread, convertValue, displayUnitFor, type DisplayUnit } from '../../units/convert.ts';
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
-export type PeerReportSettings = { minLabs?: number };
+export type PeerReportSettings = {
+  minLabs?: number;
+  /** Unit system of means and SDs; default the lab's preferred units. */
+  units?: UnitSystem;
+};
 
 /**
  * A lab's report for one period: per procedure, control lot and level its own figures beside the peer
@@ -35,19 +40,18 @@ export async function buildPeerReport(
   const lab = UUID.test(labId) ? await repo.findLab(db, labId) : null;
   if (!lab) throw notFound('Lab');
   const minLabs = settings.minLabs ?? DEFAULT_MIN_LABS;
+  const units: UnitSystem = settings.units ?? (lab.preferredUnits === 'conventional' ? 'conventional' : 'si');
 
   const publication = await repo.latestPublication(db, period);
   const version = publication?.version ?? 0;
   const summaries = await repo.labSummaries(db, labId, period);
 
-  // Peer group of each procedure at each tier, per control lot and analyte.
+  // Peer group of each procedure at each tier, per control lot.
   const memberships = new Map<string, PeerMembership>();
-  for (const s of summaries) {
-    const key = `${s.controlLotId}|${s.analyteId}`;
-    if (memberships.has(key)) continue;
-    const procedureIds = [...new Set(summaries.filter((x) => x.controlLotId === s.controlLotId && x.analyteId === s.analyteId).map((x) => x.procedureId))];
+  for (const lotId of new Set(summaries.map((s) => s.controlLotId))) {
+    const procedureIds = [...new Set(summaries.filter((x) => x.controlLotId === lotId).map((x) => x.procedureId))];
     const parts = await loadPeerKeyParts(db, procedureIds);
-    memberships.set(key, await resolvePeerMembership(db, s.controlLotId, s.analyteId, parts, { create: false }));
+    memberships.set(lotId, await resolvePeerMembership(db, lotId, parts, { create: false }));
   }
   const groupIds = new Set<string>();
   for (const membership of memberships.values()) {
@@ -64,7 +68,7 @@ export async function buildPeerReport(
   const toDate = await repo.summariesToDate(db, [...new Set(summaries.map((s) => s.procedureId))], period);
 
   const rows: PeerReportRow[] = summaries.map((s) => {
-    const groups = memberships.get(`${s.controlLotId}|${s.analyteId}`)?.get(s.procedureId) ?? {};
+    const groups = memberships.get(s.controlLotId)?.get(s.procedureId) ?? {};
     const choose = (scope: 'period' | 'cumulative') => {
       const candidates: (TierCandidate & { row: repo.PeerStatisticsRow | undefined })[] = PEER_TIERS.map((tier) => {
         const group = groups[tier];
@@ -99,22 +103,31 @@ export async function buildPeerReport(
     if (position) flags.push(sdiFlag(position.sdi), cvrFlag(position.cvr));
     if (excluded) flags.push(exclusionFlag(excluded));
 
+    // Everything is computed in the canonical unit; only the means and SDs shown are converted.
+    const shown = displayUnitFor({ ...s.analyte, conventionalUnit: s.conventionalUnit, molarMass: s.molarMass }, units);
     return {
       procedure: { id: s.procedureId, code: s.procedureCode },
       analyte: s.analyte,
       controlLot: { id: s.controlLotId, lotNumber: s.lotNumber },
       level: s.level,
-      unit: s.analyte.unit,
+      unit: shown.unit,
+      canonicalUnit: s.analyte.unit,
+      decimals: shown.decimals,
       source: s.source === 'values' ? 'values' : 'summary',
       late: s.late,
-      lab: labFigures,
-      peer,
+      lab: labFiguresIn(labFigures, shown),
+      peer: peer && peerFiguresIn(peer, shown),
       peerNote: peerNote(current.candidates, minLabs),
       sdi: position?.sdi ?? null,
       cvr: position?.cvr ?? null,
       biasPct: position?.biasPct ?? null,
       sigma: sigma !== null && Number.isFinite(sigma) ? sigma : null,
-      cumulative: { lab: labToDate, peer: peerToDate, sdi: positionToDate?.sdi ?? null, cvr: positionToDate?.cvr ?? null },
+      cumulative: {
+        lab: labToDate && labFiguresIn(labToDate, shown),
+        peer: peerToDate && peerFiguresIn(peerToDate, shown),
+        sdi: positionToDate?.sdi ?? null,
+        cvr: positionToDate?.cvr ?? null,
+      },
       excluded,
       flags,
     };
@@ -122,7 +135,8 @@ export async function buildPeerReport(
 
   return {
     period,
-    lab,
+    lab: { id: lab.id, code: lab.code, name: lab.name },
+    units,
     published: publication ? { version: publication.version, publishedAt: publication.publishedAt.toISOString() } : null,
     statisticsPending: await hasPendingPeerStatistics(db, period),
     rows,
@@ -131,6 +145,14 @@ export async function buildPeerReport(
 
 function figuresOf(s: { n: number; mean: number; sd: number }): LabFigures {
   return { n: s.n, mean: s.mean, sd: s.sd, cv: s.mean !== 0 ? (100 * s.sd) / Math.abs(s.mean) : null };
+}
+
+function labFiguresIn(figures: LabFigures, unit: DisplayUnit): LabFigures {
+  return { ...figures, mean: convertValue(figures.mean, unit), sd: convertSpread(figures.sd, unit) };
+}
+
+function peerFiguresIn(figures: PeerFigures, unit: DisplayUnit): PeerFigures {
+  return { ...figures, mean: convertValue(figures.mean, unit), sd: convertSpread(figures.sd, unit) };
 }
 
 function peerFiguresOf(tier: PeerFigures['tier'], row: repo.PeerStatisticsRow): PeerFigures {

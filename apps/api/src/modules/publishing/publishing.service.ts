@@ -78,12 +78,18 @@ async function publish(
     if (!(error instanceof PublishRefusedError)) throw error;
     if (error.state === null) throw notFound(`Period ${period}`);
     if (mode === 'publish' && error.state === 'open') {
-      throw conflict(`The period ${period} is still open: close it before publishing, so late data is marked as such.`);
+      throw conflict(
+        `The period ${period} is still open: close it before publishing, so late data is marked as such.`,
+      );
     }
     if (mode === 'publish') {
-      throw conflict(`The period ${period} is already published (version ${error.latestVersion}); republish it with a reason.`);
+      throw conflict(
+        `The period ${period} is already published (version ${error.latestVersion}); republish it with a reason.`,
+      );
     }
-    throw conflict(`The period ${period} has not been published yet (it is ${error.state}); publish it first.`);
+    throw conflict(
+      `The period ${period} has not been published yet (it is ${error.state}); publish it first.`,
+    );
   }
 }
 

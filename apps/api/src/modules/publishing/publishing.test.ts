@@ -28,7 +28,8 @@ const march: Record<string, { n: number; mean: number; sd: number }> = {
 const inputsOf = (names: string[]) => names.map((n) => ({ id: labs[n].procedureId, ...march[n] }));
 
 const asCoordinator = {
-  post: (path: string, body?: object) => request(t.app).post(`/api${path}`).set('Authorization', coordinator.auth).send(body),
+  post: (path: string, body?: object) =>
+    request(t.app).post(`/api${path}`).set('Authorization', coordinator.auth).send(body),
   get: (path: string) => request(t.app).get(`/api${path}`).set('Authorization', coordinator.auth),
 };
 
@@ -41,9 +42,12 @@ async function statisticsOf(version: number) {
 
 async function reportRow(lab: Lab): Promise<{ published: { version: number } | null; row: PeerReportRow }> {
   for (let i = 0; i < 400; i++) {
-    const res = await request(t.app).get(`/api/labs/${lab.id}/peer-report?period=${PERIOD}`).set('Authorization', lab.auth);
+    const res = await request(t.app)
+      .get(`/api/labs/${lab.id}/peer-report?period=${PERIOD}`)
+      .set('Authorization', lab.auth);
     expect(res.status).toBe(200);
-    if (res.body.statisticsPending === false) return { published: res.body.published, row: res.body.rows.find((r: PeerReportRow) => r.level === 1) };
+    if (res.body.statisticsPending === false)
+      return { published: res.body.published, row: res.body.rows.find((r: PeerReportRow) => r.level === 1) };
     await new Promise((r) => setTimeout(r, 50));
   }
   throw new Error('peer statistics stayed pending');
@@ -90,7 +94,11 @@ describe('publishing a period', () => {
 
     const res = await asCoordinator.post(`/periods/${PERIOD}/publish`, { reason: 'monthly release' });
     expect(res.status).toBe(201);
-    expect(res.body.period).toMatchObject({ period: PERIOD, state: 'published', publishedAt: expect.any(String) });
+    expect(res.body.period).toMatchObject({
+      period: PERIOD,
+      state: 'published',
+      publishedAt: expect.any(String),
+    });
     expect(res.body.publication).toMatchObject({
       period: PERIOD,
       version: 1,
@@ -109,7 +117,11 @@ describe('publishing a period', () => {
     expect(period.state).toBe('published');
     const audit = await t.db.select().from(auditEvents).where(eq(auditEvents.kind, 'period.publish'));
     expect(audit).toHaveLength(1);
-    expect(audit[0]).toMatchObject({ actorId: coordinator.id, entityId: PERIOD, details: expect.objectContaining({ version: 1 }) });
+    expect(audit[0]).toMatchObject({
+      actorId: coordinator.id,
+      entityId: PERIOD,
+      details: expect.objectContaining({ version: 1 }),
+    });
 
     const again = await asCoordinator.post(`/periods/${PERIOD}/publish`, {});
     expect(again.status).toBe(409);
@@ -118,7 +130,10 @@ describe('publishing a period', () => {
 
   it('when a lab uploads after publication, then the provisional figures change and the published version does not', async () => {
     const before = await statisticsOf(1);
-    const lines = ['period,procedure,control_lot,level,n,mean,sd,unit', `${PERIOD},GLU1,${catalogue.lot.lotNumber},1,20,5.9,0.12,mmol/L`];
+    const lines = [
+      'period,procedure,control_lot,level,n,mean,sd,unit',
+      `${PERIOD},GLU1,${catalogue.lot.lotNumber},1,20,5.9,0.12,mmol/L`,
+    ];
     const upload = await request(t.app)
       .post('/api/uploads')
       .set('Authorization', labs.E.auth)
@@ -126,7 +141,9 @@ describe('publishing a period', () => {
       .attach('file', Buffer.from(lines.join('\n')), 'march.csv');
     expect(upload.status).toBe(202);
     for (let i = 0; ; i++) {
-      const status = await request(t.app).get(`/api/uploads/${upload.body.id}`).set('Authorization', labs.E.auth);
+      const status = await request(t.app)
+        .get(`/api/uploads/${upload.body.id}`)
+        .set('Authorization', labs.E.auth);
       if (status.body.status === 'stored') break;
       if (i === 300) throw new Error(`upload not stored: ${JSON.stringify(status.body)}\n${worker.output()}`);
       await new Promise((r) => setTimeout(r, 50));
@@ -143,17 +160,23 @@ describe('publishing a period', () => {
     // … while the provisional figures hold E as well.
     const five = computePeerStatistics(inputsOf(['A', 'B', 'C', 'D', 'E']), { minLabs: 3 });
     const provisional = (await statisticsOf(0)).filter((r) => r.scope === 'period' && r.level === 1);
-    const instrument = provisional.find((r) => r.members.includes(labs.E.procedureId) && r.labs === 5 && r.members.length === 5)!;
+    const instrument = provisional.find(
+      (r) => r.members.includes(labs.E.procedureId) && r.labs === 5 && r.members.length === 5,
+    )!;
     expect(instrument.mean).toBeCloseTo(five.mean, 12);
   });
 
   it('when the period is republished with a reason, then version 2 holds the new figures and version 1 stays readable', async () => {
     const noReason = await asCoordinator.post(`/periods/${PERIOD}/republish`, {});
     expect(noReason.status).toBe(400);
-    expect(noReason.body.error.details).toEqual([{ path: 'reason', message: 'say why the period is published again' }]);
+    expect(noReason.body.error.details).toEqual([
+      { path: 'reason', message: 'say why the period is published again' },
+    ]);
 
     const version1 = await statisticsOf(1);
-    const res = await asCoordinator.post(`/periods/${PERIOD}/republish`, { reason: 'late data from one lab' });
+    const res = await asCoordinator.post(`/periods/${PERIOD}/republish`, {
+      reason: 'late data from one lab',
+    });
     expect(res.status).toBe(201);
     expect(res.body.publication).toMatchObject({ version: 2, reason: 'late data from one lab' });
     expect(await statisticsOf(1)).toEqual(version1);
@@ -189,9 +212,21 @@ describe('publishing a period', () => {
   it('when an analyst or a supervisor publishes, republishes or lists publications, then 403', async () => {
     const supervisor = await t.makeUser('supervisor', labs.A.id);
     for (const auth of [labs.A.auth, supervisor.auth]) {
-      expect((await request(t.app).post(`/api/periods/${PERIOD}/publish`).set('Authorization', auth).send({})).status).toBe(403);
-      expect((await request(t.app).post(`/api/periods/${PERIOD}/republish`).set('Authorization', auth).send({ reason: 'x' })).status).toBe(403);
-      expect((await request(t.app).get(`/api/periods/${PERIOD}/publications`).set('Authorization', auth)).status).toBe(403);
+      expect(
+        (await request(t.app).post(`/api/periods/${PERIOD}/publish`).set('Authorization', auth).send({}))
+          .status,
+      ).toBe(403);
+      expect(
+        (
+          await request(t.app)
+            .post(`/api/periods/${PERIOD}/republish`)
+            .set('Authorization', auth)
+            .send({ reason: 'x' })
+        ).status,
+      ).toBe(403);
+      expect(
+        (await request(t.app).get(`/api/periods/${PERIOD}/publications`).set('Authorization', auth)).status,
+      ).toBe(403);
     }
   });
 });

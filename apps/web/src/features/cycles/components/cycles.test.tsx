@@ -27,7 +27,14 @@ describe('cycles page', () => {
     expect(within(open).getByRole('button', { name: /^Close / })).toBeTruthy();
     expect(within(open).queryByRole('button', { name: /^Reopen / })).toBeNull();
     expect(within(closed).getByRole('button', { name: /^Reopen / })).toBeTruthy();
-    expect(within(published).queryByRole('button')).toBeNull();
+    expect(within(closed).getByRole('button', { name: /^Publish / })).toBeTruthy();
+    expect(within(open).queryByRole('button', { name: /^Publish / })).toBeNull();
+    // A published period can only be republished (with a reason).
+    expect(
+      within(published)
+        .getAllByRole('button')
+        .map((b) => b.textContent),
+    ).toEqual(['Republish']);
     expect(within(published).getByText('Published')).toBeTruthy();
   });
 

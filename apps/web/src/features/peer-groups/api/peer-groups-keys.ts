@@ -26,7 +26,11 @@ export function getControlLots(signal?: AbortSignal) {
 }
 
 export function getLotAnalytes(controlLotId: string, signal?: AbortSignal) {
-  return apiRequest('/peer-groups/analytes', { query: { controlLotId }, schema: peerGroupAnalyteListSchema, signal });
+  return apiRequest('/peer-groups/analytes', {
+    query: { controlLotId },
+    schema: peerGroupAnalyteListSchema,
+    signal,
+  });
 }
 
 export function getPeerGroups(query: PeerGroupsQuery, signal?: AbortSignal) {
@@ -34,12 +38,21 @@ export function getPeerGroups(query: PeerGroupsQuery, signal?: AbortSignal) {
 }
 
 export function getAdjustments(filter: { controlLotId: string; analyteId: string }, signal?: AbortSignal) {
-  return apiRequest('/peer-groups/adjustments', { query: filter, schema: peerGroupAdjustmentListSchema, signal });
+  return apiRequest('/peer-groups/adjustments', {
+    query: filter,
+    schema: peerGroupAdjustmentListSchema,
+    signal,
+  });
 }
 
 /** A preview writes nothing, so it is read like any other query (and refetched when its input changes). */
 export function previewAdjustment(kind: AdjustmentKind, body: object, signal?: AbortSignal) {
-  return apiRequest(`${adjustmentPaths[kind]}/preview`, { method: 'POST', body, schema: adjustmentPreviewSchema, signal });
+  return apiRequest(`${adjustmentPaths[kind]}/preview`, {
+    method: 'POST',
+    body,
+    schema: adjustmentPreviewSchema,
+    signal,
+  });
 }
 
 export const peerGroupsKeys = {

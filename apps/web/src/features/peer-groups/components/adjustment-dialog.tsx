@@ -67,18 +67,33 @@ export function AdjustmentDialog({
       description="Check the statistics before and after the change, say why, then confirm. Every adjustment can be undone."
       size="xl"
     >
-      {request?.kind === 'merge' ? <MergeForm groups={request.groups} context={context} onDone={onClose} /> : null}
-      {request?.kind === 'split' ? <SplitForm group={request.group} context={context} onDone={onClose} /> : null}
-      {request?.kind === 'move' ? (
-        <MoveForm member={request.member} from={request.from} candidates={request.candidates} context={context} onDone={onClose} />
+      {request?.kind === 'merge' ? (
+        <MergeForm groups={request.groups} context={context} onDone={onClose} />
       ) : null}
-      {request?.kind === 'exclude' ? <ExcludeForm member={request.member} context={context} onDone={onClose} /> : null}
+      {request?.kind === 'split' ? (
+        <SplitForm group={request.group} context={context} onDone={onClose} />
+      ) : null}
+      {request?.kind === 'move' ? (
+        <MoveForm
+          member={request.member}
+          from={request.from}
+          candidates={request.candidates}
+          context={context}
+          onDone={onClose}
+        />
+      ) : null}
+      {request?.kind === 'exclude' ? (
+        <ExcludeForm member={request.member} context={context} onDone={onClose} />
+      ) : null}
     </Dialog>
   );
 }
 
 /** Reads a form's values with its contract schema (the zod resolver's input and output types differ). */
-function useContractForm<Values extends FieldValues, Schema extends z.ZodType>(schema: Schema, defaultValues: Values) {
+function useContractForm<Values extends FieldValues, Schema extends z.ZodType>(
+  schema: Schema,
+  defaultValues: Values,
+) {
   return useForm<Values, unknown, z.output<Schema>>({
     resolver: zodResolver(schema as unknown as z.ZodType<z.output<Schema>, Values>),
     defaultValues: defaultValues as never,
@@ -170,7 +185,15 @@ function AdjustmentShell<Values extends FieldValues & { reason: string }, Output
 
 const mergeFormSchema = mergeRequestSchema.pick({ targetGroupId: true, reason: true });
 
-function MergeForm({ groups, context, onDone }: { groups: [PeerGroup, PeerGroup]; context: AdjustmentContext; onDone: () => void }) {
+function MergeForm({
+  groups,
+  context,
+  onDone,
+}: {
+  groups: [PeerGroup, PeerGroup];
+  context: AdjustmentContext;
+  onDone: () => void;
+}) {
   // The larger group keeps its name by default.
   const larger = groups[1].labsWithData > groups[0].labsWithData ? groups[1] : groups[0];
   const form = useContractForm(mergeFormSchema, { targetGroupId: larger.id, reason: '' });
@@ -183,7 +206,11 @@ function MergeForm({ groups, context, onDone }: { groups: [PeerGroup, PeerGroup]
       context={context}
       previewBody={{ sourceGroupId, targetGroupId, period: context.period, level: context.level }}
       fields={
-        <SelectField label="Group that stays" hint="The other group's members join it; it keeps its name." {...form.register('targetGroupId')}>
+        <SelectField
+          label="Group that stays"
+          hint="The other group's members join it; it keeps its name."
+          {...form.register('targetGroupId')}
+        >
           {groups.map((g) => (
             <option key={g.id} value={g.id}>
               {g.label}
@@ -193,7 +220,10 @@ function MergeForm({ groups, context, onDone }: { groups: [PeerGroup, PeerGroup]
       }
       confirmLabel="Confirm merge"
       reasonLabel="Why do these groups belong together?"
-      toApplyBody={(values) => ({ sourceGroupId: groups.find((g) => g.id !== values.targetGroupId)!.id, ...values })}
+      toApplyBody={(values) => ({
+        sourceGroupId: groups.find((g) => g.id !== values.targetGroupId)!.id,
+        ...values,
+      })}
       onDone={onDone}
     />
   );
@@ -203,7 +233,15 @@ function MergeForm({ groups, context, onDone }: { groups: [PeerGroup, PeerGroup]
 
 const splitFormSchema = splitRequestSchema.pick({ by: true, reason: true });
 
-function SplitForm({ group, context, onDone }: { group: PeerGroup; context: AdjustmentContext; onDone: () => void }) {
+function SplitForm({
+  group,
+  context,
+  onDone,
+}: {
+  group: PeerGroup;
+  context: AdjustmentContext;
+  onDone: () => void;
+}) {
   const form = useContractForm(splitFormSchema, { by: 'reagent', reason: '' });
   const by = form.watch('by');
   return (
@@ -215,7 +253,8 @@ function SplitForm({ group, context, onDone }: { group: PeerGroup; context: Adju
       fields={
         <>
           <p className="text-sm text-slate-700 md:col-span-2">
-            “{group.label}” becomes one group per {by === 'reagent' ? 'reagent' : 'instrument model'} of its members.
+            “{group.label}” becomes one group per {by === 'reagent' ? 'reagent' : 'instrument model'} of its
+            members.
           </p>
           <SelectField label="Split by" {...form.register('by')}>
             <option value="reagent">Reagent</option>
@@ -255,7 +294,12 @@ function MoveForm({
       kind="move"
       form={form}
       context={context}
-      previewBody={{ procedureId: member.procedureId, targetGroupId, period: context.period, level: context.level }}
+      previewBody={{
+        procedureId: member.procedureId,
+        targetGroupId,
+        period: context.period,
+        level: context.level,
+      }}
       fields={
         <>
           <p className="text-sm text-slate-700 md:col-span-2">
@@ -280,12 +324,26 @@ function MoveForm({
 
 // ---------- exclude ----------
 
-const excludeFormSchema = exclusionRequestSchema.pick({ reason: true }).extend({ scope: z.enum(['level', 'all']) });
+const excludeFormSchema = exclusionRequestSchema
+  .pick({ reason: true })
+  .extend({ scope: z.enum(['level', 'all']) });
 
-function ExcludeForm({ member, context, onDone }: { member: PeerGroupMember; context: AdjustmentContext; onDone: () => void }) {
+function ExcludeForm({
+  member,
+  context,
+  onDone,
+}: {
+  member: PeerGroupMember;
+  context: AdjustmentContext;
+  onDone: () => void;
+}) {
   const form = useContractForm(excludeFormSchema, { scope: 'level', reason: '' });
   const scope = form.watch('scope');
-  const target = { procedureId: member.procedureId, controlLotId: context.controlLotId, period: context.period };
+  const target = {
+    procedureId: member.procedureId,
+    controlLotId: context.controlLotId,
+    period: context.period,
+  };
   return (
     <AdjustmentShell
       kind="exclude"
@@ -295,8 +353,9 @@ function ExcludeForm({ member, context, onDone }: { member: PeerGroupMember; con
       fields={
         <>
           <p className="text-sm text-slate-700 md:col-span-2">
-            {member.lab.code} {member.procedureCode} ({member.lab.name}) is left out of every peer group’s figures for{' '}
-            {formatPeriod(context.period)}. Its report shows that its data was excluded, with your reason.
+            {member.lab.code} {member.procedureCode} ({member.lab.name}) is left out of every peer group’s
+            figures for {formatPeriod(context.period)}. Its report shows that its data was excluded, with your
+            reason.
           </p>
           <SelectField label="Levels" {...form.register('scope')}>
             <option value="level">Level {context.level} only</option>
@@ -306,7 +365,11 @@ function ExcludeForm({ member, context, onDone }: { member: PeerGroupMember; con
       }
       confirmLabel="Confirm exclusion"
       reasonLabel="Why is this lab’s data left out? (the lab sees this reason)"
-      toApplyBody={(values) => ({ ...target, level: values.scope === 'level' ? context.level : null, reason: values.reason })}
+      toApplyBody={(values) => ({
+        ...target,
+        level: values.scope === 'level' ? context.level : null,
+        reason: values.reason,
+      })}
       onDone={onDone}
     />
   );

@@ -15,7 +15,8 @@ export function FiguresList({
   decimals: number;
   unit: string;
 }) {
-  if (!figures) return <p className="text-sm text-slate-500">No member has data for this level and period.</p>;
+  if (!figures)
+    return <p className="text-sm text-slate-500">No member has data for this level and period.</p>;
   const d = meanDecimals(decimals);
   const items = [
     { term: 'Labs in the figures', value: String(figures.labs) },
@@ -56,10 +57,13 @@ function GroupCard({ group, decimals, unit }: { group: PreviewGroup; decimals: n
       </header>
       <FiguresList figures={group.figures} decimals={decimals} unit={unit} />
       <div className="mt-2 flex flex-wrap gap-1">
-        {group.figures && !group.figures.sufficient ? <Badge tone="brass">Too few labs to publish</Badge> : null}
+        {group.figures && !group.figures.sufficient ? (
+          <Badge tone="brass">Too few labs to publish</Badge>
+        ) : null}
         {excluded.map((x) => (
           <Badge key={x.procedureId} tone={x.reason === 'outlier' ? 'alarm' : 'neutral'}>
-            {codeOf.get(x.procedureId) ?? 'A member'} {x.reason === 'outlier' ? 'left out as outlier' : 'excluded by you'}
+            {codeOf.get(x.procedureId) ?? 'A member'}{' '}
+            {x.reason === 'outlier' ? 'left out as outlier' : 'excluded by you'}
           </Badge>
         ))}
       </div>
@@ -67,7 +71,15 @@ function GroupCard({ group, decimals, unit }: { group: PreviewGroup; decimals: n
   );
 }
 
-export function PreviewPanel({ preview, decimals, unit }: { preview: AdjustmentPreview; decimals: number; unit: string }) {
+export function PreviewPanel({
+  preview,
+  decimals,
+  unit,
+}: {
+  preview: AdjustmentPreview;
+  decimals: number;
+  unit: string;
+}) {
   return (
     <section aria-label="Preview of the change" className="space-y-4">
       <p className="text-sm text-slate-700">
@@ -76,15 +88,23 @@ export function PreviewPanel({ preview, decimals, unit }: { preview: AdjustmentP
       </p>
       {preview.levels.map((level) => (
         <div key={level.level}>
-          {preview.levels.length > 1 ? <h4 className="mb-2 text-sm font-semibold text-slate-800">Level {level.level}</h4> : null}
+          {preview.levels.length > 1 ? (
+            <h4 className="mb-2 text-sm font-semibold text-slate-800">Level {level.level}</h4>
+          ) : null}
           <div className="grid gap-3 md:grid-cols-2">
-            <section aria-label={`Before, level ${level.level}`} className="space-y-2 rounded-lg bg-slate-50 p-3">
+            <section
+              aria-label={`Before, level ${level.level}`}
+              className="space-y-2 rounded-lg bg-slate-50 p-3"
+            >
               <h4 className="text-xs font-semibold tracking-wider text-slate-600 uppercase">Before</h4>
               {level.before.map((group, index) => (
                 <GroupCard key={group.id ?? index} group={group} decimals={decimals} unit={unit} />
               ))}
             </section>
-            <section aria-label={`After, level ${level.level}`} className="space-y-2 rounded-lg bg-plumb-50 p-3">
+            <section
+              aria-label={`After, level ${level.level}`}
+              className="space-y-2 rounded-lg bg-plumb-50 p-3"
+            >
               <h4 className="text-xs font-semibold tracking-wider text-plumb-800 uppercase">After</h4>
               {level.after.map((group, index) => (
                 <GroupCard key={group.id ?? index} group={group} decimals={decimals} unit={unit} />

@@ -1,15 +1,20 @@
 // Query factory of the peer-report feature: the monthly periods and a lab's report for one period.
 // Every query and every invalidation of peer reports goes through these keys.
 import { queryOptions } from '@tanstack/react-query';
-import { peerReportSchema, periodListSchema } from '@plumbline/contracts';
+import { peerReportSchema, periodListSchema, type UnitSystem } from '@plumbline/contracts';
 import { apiRequest } from '../../../lib/api-client.ts';
 
-export type PeerReportParams = { labId: string; period: string };
+export type PeerReportParams = {
+  labId: string;
+  period: string;
+  /** Left out: the lab's preferred units. */
+  units?: UnitSystem;
+};
 
-export function getPeerReport({ labId, period }: PeerReportParams, signal?: AbortSignal) {
+export function getPeerReport({ labId, period, units }: PeerReportParams, signal?: AbortSignal) {
   return apiRequest(`/labs/${encodeURIComponent(labId)}/peer-report`, {
     schema: peerReportSchema,
-    query: { period },
+    query: { period, units },
     signal,
   });
 }

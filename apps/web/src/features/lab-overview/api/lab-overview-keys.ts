@@ -1,0 +1,17 @@
+// Query factory of the lab-overview feature: what a lab sees first (GET /api/labs/:labId/overview).
+import { queryOptions } from '@tanstack/react-query';
+import { labOverviewSchema } from '@plumbline/contracts';
+import { apiRequest } from '../../../lib/api-client.ts';
+
+export function getLabOverview(labId: string, signal?: AbortSignal) {
+  return apiRequest(`/labs/${encodeURIComponent(labId)}/overview`, { schema: labOverviewSchema, signal });
+}
+
+export const labOverviewKeys = {
+  all: ['lab-overview'] as const,
+  overview: (labId: string) =>
+    queryOptions({
+      queryKey: [...labOverviewKeys.all, labId] as const,
+      queryFn: ({ signal }) => getLabOverview(labId, signal),
+    }),
+};

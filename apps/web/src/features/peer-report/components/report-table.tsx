@@ -1,0 +1,342 @@
+// The peer report as a table: per procedure, control lot and level, the lab's figures beside the peer
+// group's, where the lab stands (SDI, CVR, bias, sigma, cumulative SDI), its flags and comments.
+// Sorting with TanStack Table; the filtering happens before (filterRows), so counts stay honest.
+import { Fragment, useMemo, useState } from 'react';
+import { Link } from 'react-router-dom';
+import {
+  createColumnHelper,
+  flexRender,
+  getCoreRowModel,
+  getSortedRowModel,
+  useReactTable,
+  type Header,
+  type SortingState,
+} from '@tanstack/react-table';
+import type { PeerReportRow } from '@plumbline/contracts';
+import { formatDate } from '../../../utils/format.ts';
+import { fixed, keyOfRow, peerTierShort, peerTierWords, signed, worstFlag } from '../utils/report-rows.ts';
+import { FlagChips } from './flag-chips.tsx';
+
+/** A summary of a row's corrective-action comments, handed in by the page. */
+export type RowNote = { count: number; latest: { body: string; author: string; createdAt: string } | null };
+
+const severityRank = { fine: 0, acceptable: 1, warning: 2, action: 3 } as const;
+
+const column = createColumnHelper<PeerReportRow>();
+
+function sigmaTitle(row: PeerReportRow): string {
+  const { teaPct, teaSource } = row.analyte;
+  if (teaPct === null) return 'No total allowable error (TEa) is set for this analyte, so no sigma metric.';
+  return `Sigma = (TEa − |bias %|) / CV %, with TEa ${teaPct} %${teaSource ? ` from ${teaSource}` : ''}.`;
+}
+
+function buildColumns(detailHref: (row: PeerReportRow) => string, notes: ReadonlyMap<string, RowNote> | undefined) {
+  return [
+    column.group({
+      id: 'what',
+      header: () => <span className="sr-only">Procedure</span>,
+      columns: [
+        column.accessor((row) => `${row.analyte.name} ${row.procedure.code}`, {
+          id: 'procedure',
+          header: 'Procedure',
+          cell: ({ row: { original: row } }) => (
+            <span className="block min-w-[9rem]">
+              <Link
+                to={detailHref(row)}
+                className="font-semibold text-plumb-800 underline decoration-plumb-300 underline-offset-2 hover:text-plumb-950"
+                aria-label={`${row.analyte.name}, ${row.procedure.code}, lot ${row.controlLot.lotNumber}, level ${row.level}: open the charts`}
+              >
+                {row.analyte.name}
+              </Link>
+              <span className="block text-xs text-slate-600">
+                {row.procedure.code} · lot {row.controlLot.lotNumber}
+              </span>
+              {row.late ? <span className="mt-0.5 inline-block rounded bg-brass-100 px-1 text-[0.7rem] font-medium text-brass-700">arrived late</span> : null}
+            </span>
+          ),
+        }),
+        column.accessor('level', { header: 'Level', meta: { align: 'right' } }),
+      ],
+    }),
+    column.group({
+      id: 'lab',
+      header: 'Your lab',
+      columns: [
+        column.accessor((row) => row.lab.n, { id: 'labN', header: 'n', meta: { align: 'right' } }),
+        column.accessor((row) => row.lab.mean, {
+          id: 'labMean',
+          header: 'Mean',
+          meta: { align: 'right' },
+          cell: ({ row: { original: row } }) => (
+            <span className="whitespace-nowrap">
+              {fixed(row.lab.mean, row.decimals + 1)} <span className="text-xs text-slate-500">{row.unit}</span>
+            </span>
+          ),
+        }),
+        column.accessor((row) => row.lab.sd, {
+          id: 'labSd',
+          header: 'SD',
+          meta: { align: 'right' },
+          cell: ({ row: { original: row } }) => fixed(row.lab.sd, row.decimals + 1),
+        }),
+        column.accessor((row) => row.lab.cv, {
+          id: 'labCv',
+          header: 'CV %',
+          meta: { align: 'right' },
+          sortUndefined: 'last',
+          cell: ({ row: { original: row } }) => fixed(row.lab.cv, 2),
+        }),
+      ],
+    }),
+    column.group({
+      id: 'peer',
+      header: 'Peer group',
+      columns: [
+        column.accessor((row) => row.peer?.labs, {
+          id: 'peerTier',
+          header: 'Compared with',
+          sortUndefined: 'last',
+          cell: ({ row: { original: row } }) =>
+            row.peer ? (
+              <span className="block min-w-[8rem] text-xs" title={row.peerNote}>
+                <span className="font-medium text-slate-800">{peerTierShort[row.peer.tier]}</span>
+                <span className="text-slate-600">: {peerTierWords[row.peer.tier]}</span>
+                <span className="block text-slate-600">{row.peer.labs} labs</span>
+              </span>
+            ) : (
+              <span className="block max-w-[12rem] text-xs text-slate-600">No peer group: {row.peerNote}</span>
+            ),
+        }),
+        column.accessor((row) => row.peer?.mean, {
+          id: 'peerMean',
+          header: 'Mean',
+          meta: { align: 'right' },
+          sortUndefined: 'last',
+          cell: ({ row: { original: row } }) => fixed(row.peer?.mean, row.decimals + 1),
+        }),
+        column.accessor((row) => row.peer?.sd, {
+          id: 'peerSd',
+          header: 'SD',
+          meta: { align: 'right' },
+          sortUndefined: 'last',
+          cell: ({ row: { original: row } }) => fixed(row.peer?.sd, row.decimals + 1),
+        }),
+        column.accessor((row) => row.peer?.cv ?? undefined, {
+          id: 'peerCv',
+          header: 'CV %',
+          meta: { align: 'right' },
+          sortUndefined: 'last',
+          cell: ({ row: { original: row } }) => fixed(row.peer?.cv, 2),
+        }),
+      ],
+    }),
+    column.group({
+      id: 'standing',
+      header: 'Where you stand',
+      columns: [
+        column.accessor((row) => row.sdi ?? undefined, {
+          id: 'sdi',
+          header: 'SDI',
+          meta: { align: 'right' },
+          sortUndefined: 'last',
+          cell: ({ row: { original: row } }) => <span className="font-semibold">{signed(row.sdi)}</span>,
+        }),
+        column.accessor((row) => row.cvr ?? undefined, {
+          id: 'cvr',
+          header: 'CVR',
+          meta: { align: 'right' },
+          sortUndefined: 'last',
+          cell: ({ row: { original: row } }) => fixed(row.cvr, 2),
+        }),
+        column.accessor((row) => row.biasPct ?? undefined, {
+          id: 'bias',
+          header: 'Bias %',
+          meta: { align: 'right' },
+          sortUndefined: 'last',
+          cell: ({ row: { original: row } }) => signed(row.biasPct, 1),
+        }),
+        column.accessor((row) => row.sigma ?? undefined, {
+          id: 'sigma',
+          header: 'Sigma',
+          meta: { align: 'right' },
+          sortUndefined: 'last',
+          cell: ({ row: { original: row } }) => (
+            <span title={sigmaTitle(row)} className="cursor-help border-b border-dotted border-slate-400">
+              {fixed(row.sigma, 1)}
+              <span className="sr-only"> ({sigmaTitle(row)})</span>
+            </span>
+          ),
+        }),
+        column.accessor((row) => row.cumulative.sdi ?? undefined, {
+          id: 'cumulativeSdi',
+          header: () => <abbr title="SDI of the lot to date: all periods of this control lot pooled">Cum. SDI</abbr>,
+          meta: { align: 'right' },
+          sortUndefined: 'last',
+          cell: ({ row: { original: row } }) => signed(row.cumulative.sdi),
+        }),
+      ],
+    }),
+    column.group({
+      id: 'review',
+      header: () => <span className="sr-only">Review</span>,
+      columns: [
+        column.accessor((row) => severityRank[worstFlag(row) ?? 'fine'], {
+          id: 'flags',
+          header: 'Flags',
+          sortDescFirst: true,
+          cell: ({ row: { original: row } }) => (
+            <span className="block min-w-[8rem]">
+              <FlagChips flags={row.flags} />
+              {row.excluded ? (
+                <span className="mt-1 block text-xs text-slate-600">
+                  Left out of the peer figures ({row.excluded.reason === 'outlier' ? 'an outlier' : 'by the coordinator'}
+                  {row.excluded.note ? `: ${row.excluded.note}` : ''})
+                </span>
+              ) : null}
+            </span>
+          ),
+        }),
+        column.accessor((row) => notes?.get(keyOfRow(row))?.count ?? 0, {
+          id: 'comments',
+          header: 'Comments',
+          meta: { align: 'right' },
+          sortDescFirst: true,
+          cell: ({ row: { original: row } }) => {
+            const count = notes?.get(keyOfRow(row))?.count ?? 0;
+            return (
+              <Link to={detailHref(row)} className="text-xs font-medium whitespace-nowrap text-plumb-700 hover:text-plumb-900">
+                {count === 0 ? 'Add' : `${count} comment${count === 1 ? '' : 's'}`}
+                <span className="sr-only"> on {row.analyte.name} level {row.level}</span>
+              </Link>
+            );
+          },
+        }),
+      ],
+    }),
+  ];
+}
+
+function HeaderCell({ header }: { header: Header<PeerReportRow, unknown> }) {
+  const meta = header.column.columnDef.meta;
+  const right = meta?.align === 'right';
+  const sorted = header.column.getIsSorted();
+  const content = header.isPlaceholder ? null : flexRender(header.column.columnDef.header, header.getContext());
+  const isGroup = header.subHeaders.length > 0;
+  return (
+    <th
+      scope={isGroup ? 'colgroup' : 'col'}
+      colSpan={header.colSpan}
+      aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}
+      className={`border-b border-slate-200 px-2 py-1.5 text-xs font-semibold whitespace-nowrap ${
+        isGroup ? 'border-x border-x-white bg-plumb-50 text-center text-plumb-900' : `bg-slate-50 text-slate-600 ${right ? 'text-right' : 'text-left'}`
+      }`}
+    >
+      {!isGroup && header.column.getCanSort() ? (
+        <button
+          type="button"
+          onClick={header.column.getToggleSortingHandler()}
+          className={`inline-flex items-center gap-1 rounded-sm hover:text-plumb-900 ${right ? 'flex-row-reverse' : ''}`}
+        >
+          {content}
+          <span aria-hidden="true" className={`text-[0.65rem] ${sorted ? 'text-plumb-700' : 'text-slate-300'}`}>
+            {sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '▲▼'}
+          </span>
+        </button>
+      ) : (
+        content
+      )}
+    </th>
+  );
+}
+
+const rowTint = { fine: '', acceptable: '', warning: 'bg-brass-100/40', action: 'bg-alarm-50/70' } as const;
+const rowEdge = { fine: 'border-l-transparent', acceptable: 'border-l-transparent', warning: 'border-l-brass-400', action: 'border-l-alarm-700' } as const;
+
+export function ReportTable({
+  rows,
+  caption,
+  detailHref,
+  notes,
+  emptyMessage,
+}: {
+  rows: readonly PeerReportRow[];
+  caption: string;
+  detailHref: (row: PeerReportRow) => string;
+  notes?: ReadonlyMap<string, RowNote>;
+  emptyMessage: string;
+}) {
+  const [sorting, setSorting] = useState<SortingState>([]);
+  const columns = useMemo(() => buildColumns(detailHref, notes), [detailHref, notes]);
+  const data = useMemo(() => [...rows], [rows]);
+  const table = useReactTable({
+    data,
+    columns,
+    state: { sorting },
+    onSortingChange: setSorting,
+    getCoreRowModel: getCoreRowModel(),
+    getSortedRowModel: getSortedRowModel(),
+    getRowId: keyOfRow,
+  });
+  const leafCount = table.getVisibleLeafColumns().length;
+  return (
+    <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white shadow-xs">
+      <table className="w-full border-collapse text-sm">
+        <caption className="sr-only">{caption}</caption>
+        <thead>
+          {table.getHeaderGroups().map((group) => (
+            <tr key={group.id}>
+              {group.headers.map((header) => (
+                <HeaderCell key={header.id} header={header} />
+              ))}
+            </tr>
+          ))}
+        </thead>
+        <tbody>
+          {table.getRowModel().rows.length === 0 ? (
+            <tr>
+              <td colSpan={leafCount} className="px-3 py-8 text-center text-sm text-slate-600">
+                {emptyMessage}
+              </td>
+            </tr>
+          ) : (
+            table.getRowModel().rows.map((row) => {
+              const worst = worstFlag(row.original) ?? 'fine';
+              const note = notes?.get(row.id);
+              return (
+                <Fragment key={row.id}>
+                  <tr
+                    data-row-key={row.id}
+                    data-severity={worst}
+                    className={`border-b border-slate-100 border-l-4 ${rowEdge[worst]} ${rowTint[worst]}`}
+                  >
+                    {row.getVisibleCells().map((cell) => (
+                      <td
+                        key={cell.id}
+                        className={`px-2 py-2 align-top ${cell.column.columnDef.meta?.align === 'right' ? 'text-right' : ''}`}
+                      >
+                        {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                      </td>
+                    ))}
+                  </tr>
+                  {note?.latest ? (
+                    <tr className={`border-b border-slate-100 border-l-4 ${rowEdge[worst]} ${rowTint[worst]}`}>
+                      <td />
+                      <td colSpan={leafCount - 1} className="px-2 pb-2 text-xs text-slate-700">
+                        <span className="font-semibold text-plumb-900">Corrective action</span>{' '}
+                        <span className="text-slate-500">
+                          ({note.latest.author}, {formatDate(note.latest.createdAt)}
+                          {note.count > 1 ? `; ${note.count - 1} earlier` : ''}):
+                        </span>{' '}
+                        <span className="line-clamp-2 inline">{note.latest.body}</span>
+                      </td>
+                    </tr>
+                  ) : null}
+                </Fragment>
+              );
+            })
+          )}
+        </tbody>
+      </table>
+    </div>
+  );
+}
