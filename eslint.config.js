@@ -4,7 +4,7 @@ import reactHooks from 'eslint-plugin-react-hooks';
 import globals from 'globals';
 
 export default tseslint.config(
-  { ignores: ['**/node_modules/**', '**/dist/**', '.data/**', 'packages/db/migrations/**'] },
+  { ignores: ['**/node_modules/**', '**/dist/**', '.data/**', 'packages/db/migrations/**', 'tmp/**'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

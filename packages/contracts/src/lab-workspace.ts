@@ -190,7 +190,13 @@ export const drilldownSchema = z.object({
       .nullable(),
     /** Daily values of the period (empty when the lab sent only a summary), in chronological run order. */
     points: z.array(leveyJenningsPointSchema),
-    runs: z.array(z.object({ run: z.string(), verdict: z.enum(['accept', 'warn', 'reject']), rules: z.array(z.string()) })),
+    runs: z.array(
+      z.object({
+        run: z.string(),
+        verdict: z.enum(['accept', 'warn', 'reject']),
+        rules: z.array(z.string()),
+      }),
+    ),
   }),
   /**
    * Measurement uncertainty (METHODS.md §3, Nordtest TR 537), all in %: u(Rw) = the lab's CV over the trend
@@ -207,7 +213,13 @@ export const drilldownSchema = z.object({
       U: z.number(),
       k: z.number(),
       /** The pooled figures behind u(Rw). */
-      longTerm: z.object({ periods: z.number().int(), n: z.number().int(), mean: z.number(), sd: z.number(), cv: z.number() }),
+      longTerm: z.object({
+        periods: z.number().int(),
+        n: z.number().int(),
+        mean: z.number(),
+        sd: z.number(),
+        cv: z.number(),
+      }),
       comparisons: z.array(z.object({ period: periodKeySchema, biasPct: z.number(), uRefPct: z.number() })),
     })
     .nullable(),
@@ -278,7 +290,10 @@ export const procedureCodeSchema = z
   .trim()
   .min(1, 'give a code')
   .max(32)
-  .regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'use letters, digits, ".", "_" or "-" (starting with a letter or digit)');
+  .regex(
+    /^[A-Za-z0-9][A-Za-z0-9._-]*$/,
+    'use letters, digits, ".", "_" or "-" (starting with a letter or digit)',
+  );
 
 export const procedureCreateSchema = z.object({
   code: procedureCodeSchema,
@@ -308,7 +323,11 @@ const catalogueRefSchema = z.object({ id: uuidSchema, code: z.string(), name: z.
 export const testMenuItemSchema = z.object({
   id: uuidSchema,
   code: z.string(),
-  analyte: catalogueRefSchema.extend({ loinc: z.string().nullable(), unit: z.string(), conventionalUnit: z.string().nullable() }),
+  analyte: catalogueRefSchema.extend({
+    loinc: z.string().nullable(),
+    unit: z.string(),
+    conventionalUnit: z.string().nullable(),
+  }),
   instrumentModel: catalogueRefSchema,
   method: catalogueRefSchema,
   reagent: catalogueRefSchema,

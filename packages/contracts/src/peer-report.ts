@@ -15,7 +15,12 @@ export const flagSchema = z.object({
 });
 export type ReportFlag = z.infer<typeof flagSchema>;
 
-export const labFiguresSchema = z.object({ n: z.number().int(), mean: z.number(), sd: z.number(), cv: z.number().nullable() });
+export const labFiguresSchema = z.object({
+  n: z.number().int(),
+  mean: z.number(),
+  sd: z.number(),
+  cv: z.number().nullable(),
+});
 export type LabFigures = z.infer<typeof labFiguresSchema>;
 
 export const peerFiguresSchema = z.object({

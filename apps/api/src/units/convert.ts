@@ -64,8 +64,14 @@ export function displayUnitFor(
   analyte: { unit: string; conventionalUnit: string | null; molarMass: number | null; decimals: number },
   system: UnitSystem,
 ): DisplayUnit {
-  const canonical: DisplayUnit = { unit: analyte.unit, conversion: { factor: 1, offset: 0 }, decimals: analyte.decimals, converted: false };
-  if (system === 'si' || !analyte.conventionalUnit || analyte.conventionalUnit === analyte.unit) return canonical;
+  const canonical: DisplayUnit = {
+    unit: analyte.unit,
+    conversion: { factor: 1, offset: 0 },
+    decimals: analyte.decimals,
+    converted: false,
+  };
+  if (system === 'si' || !analyte.conventionalUnit || analyte.conventionalUnit === analyte.unit)
+    return canonical;
   const conversion = ucumConversion(analyte.unit, analyte.conventionalUnit, analyte.molarMass);
   if (!conversion || !(conversion.factor > 0)) return canonical;
   const shift = Math.round(Math.log10(conversion.factor));

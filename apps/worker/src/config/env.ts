@@ -20,7 +20,7 @@ const envSchema = z.object({
   /** Peer statistics are recomputed this long (ms) after an upload is stored, so uploads arriving together share one pass… */
   PEER_RECOMPUTE_DELAY_MS: z.coerce.number().int().min(0).default(500),
   /** …and while the worker keeps ingesting, after at most this long (ms). */
-  PEER_RECOMPUTE_MAX_WAIT_MS: z.coerce.number().int().min(0).default(15_000),
+  PEER_RECOMPUTE_MAX_WAIT_MS: z.coerce.number().int().min(0).default(30_000),
   /** How often uploads stuck in queued/processing are handed to the queue again, in ms. */
   RECOVERY_INTERVAL_MS: z.coerce.number().int().min(1000).default(60_000),
   /** A job whose worker died is taken up again once its lock (this long, in ms) has expired. */

@@ -76,12 +76,8 @@ export async function storeValues(
     if (list) list.push(i);
     else indicesBySeries.set(buffer.seriesOf[i], [i]);
   }
-  const T = (label: string) => process.env.PLUMBLINE_PROFILE && console.log(`  ${label} ${Math.round(performance.now() - t0)} ms`);
-  const t0 = performance.now();
   const figures = seriesFigures(buffer, indicesBySeries);
-  T('figures');
   const targets = await multiruleTargets(ctx.tx, buffer, figures);
-  T('targets');
 
   // One multirule evaluation per procedure, lot and period (levels together).
   const groups = new Map<string, number[]>();
@@ -108,7 +104,6 @@ export async function storeValues(
     'values',
   );
 
-  T('replace');
   const copy = ctx.client.query(
     copyStreams.from(
       'COPY qc_values (lab_id, procedure_id, control_lot_id, level, period, measured_at, value, run, comment, z, rules, upload_id) FROM STDIN',
@@ -144,7 +139,6 @@ export async function storeValues(
     if (chunk) yield chunk;
   }
   await pipeline(Readable.from(lines()), copy);
-  T('copy');
   return { replaced };
 }
 

@@ -117,6 +117,8 @@ describe('summary files', () => {
     expect(review.errors).toEqual([
       { row: 3, column: 'N', code: 'n_too_small', message: expect.stringMatching(/at least 2/) },
       { row: 4, column: 'Test', code: 'unknown_procedure', message: expect.stringMatching(/GLU9/) },
+      // Every problem of a row is reported, not just the first.
+      { row: 4, column: 'SD', code: 'sd_not_positive', message: 'sd must be greater than 0, got -0.1' },
     ]);
     expect(await summariesOf(lab.id)).toEqual([]);
 

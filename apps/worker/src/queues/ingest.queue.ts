@@ -49,7 +49,7 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
     {
       minLabs: deps.minLabs,
       delayMs: options.recomputeDelayMs ?? 500,
-      maxWaitMs: options.recomputeMaxWaitMs ?? 15_000,
+      maxWaitMs: options.recomputeMaxWaitMs ?? 30_000,
       busy: () => activeJobs > 0,
     },
     log,

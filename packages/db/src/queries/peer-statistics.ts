@@ -69,9 +69,7 @@ export async function drainPeerStatisticsRequestsIfFree(
  */
 export async function drainPeerStatisticsUntilIdle(db: Database, settings: PeerStatisticsSettings = {}): Promise<void> {
   while (true) {
-    const t = performance.now();
     const drained = await drainPeerStatisticsRequestsIfFree(db, settings);
-    if (process.env.PLUMBLINE_PROFILE) console.log(`  drain pass: ${drained} targets, ${Math.round(performance.now() - t)} ms`);
     if (drained === null) return;
     if (!(await hasPendingPeerStatistics(db))) return;
   }

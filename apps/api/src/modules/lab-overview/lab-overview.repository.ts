@@ -15,7 +15,10 @@ export async function labPeriodsWithData(db: Executor, labId: string) {
       signedAt: sql<Date | null>`max(${periodSignoffs.signedAt})`,
     })
     .from(qcSummaries)
-    .leftJoin(periodSignoffs, and(eq(periodSignoffs.labId, qcSummaries.labId), eq(periodSignoffs.period, qcSummaries.period)))
+    .leftJoin(
+      periodSignoffs,
+      and(eq(periodSignoffs.labId, qcSummaries.labId), eq(periodSignoffs.period, qcSummaries.period)),
+    )
     .where(eq(qcSummaries.labId, labId))
     .groupBy(qcSummaries.period)
     .orderBy(desc(qcSummaries.period));
@@ -23,13 +26,15 @@ export async function labPeriodsWithData(db: Executor, labId: string) {
 
 /** The lab's active procedures and whether each has data in the period. */
 export async function activeProceduresWithData(db: Executor, labId: string, period: string) {
-  return db
-    .select({
-      id: procedures.id,
-      code: procedures.code,
-      hasData: sql<boolean>`exists (select 1 from ${qcSummaries} where ${qcSummaries.procedureId} = ${procedures.id} and ${qcSummaries.period} = ${period})`,
-    })
+  const active = await db
+    .select({ id: procedures.id, code: procedures.code })
     .from(procedures)
     .where(and(eq(procedures.labId, labId), isNull(procedures.retiredAt)))
     .orderBy(asc(procedures.code));
+  const withData = await db
+    .selectDistinct({ procedureId: qcSummaries.procedureId })
+    .from(qcSummaries)
+    .where(and(eq(qcSummaries.labId, labId), eq(qcSummaries.period, period)));
+  const ids = new Set(withData.map((r) => r.procedureId));
+  return active.map((p) => ({ ...p, hasData: ids.has(p.id) }));
 }

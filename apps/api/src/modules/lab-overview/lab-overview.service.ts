@@ -13,14 +13,21 @@ const DAY_MS = 24 * 60 * 60 * 1000;
 /** Deadline this close (or past) turns a reminder into a warning (common practice, a choice of ours). */
 const DEADLINE_WARNING_DAYS = 7;
 
-const severityRank: Record<ReportFlag['severity'], number> = { fine: 0, acceptable: 1, warning: 2, action: 3 };
+const severityRank: Record<ReportFlag['severity'], number> = {
+  fine: 0,
+  acceptable: 1,
+  warning: 2,
+  action: 3,
+};
 const attentionRank: Record<AttentionItem['severity'], number> = { action: 0, warning: 1, info: 2 };
 
 const emptyCounts = (): SeverityCounts => ({ fine: 0, acceptable: 0, warning: 0, action: 0 });
 
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 
-function item(partial: Pick<AttentionItem, 'kind' | 'severity' | 'message'> & Partial<AttentionItem>): AttentionItem {
+function item(
+  partial: Pick<AttentionItem, 'kind' | 'severity' | 'message'> & Partial<AttentionItem>,
+): AttentionItem {
   return { period: null, uploadId: null, count: null, ...partial };
 }
 
@@ -28,7 +35,12 @@ function item(partial: Pick<AttentionItem, 'kind' | 'severity' | 'message'> & Pa
  * What a lab sees first: the period it is submitting for, the flags of its latest report, its latest
  * uploads and what needs doing next.
  */
-export async function labOverview(deps: Pick<AppDeps, 'db' | 'storage' | 'ingestQueue'>, principal: Principal, labId: string, now = new Date()): Promise<LabOverview> {
+export async function labOverview(
+  deps: Pick<AppDeps, 'db' | 'storage' | 'ingestQueue'>,
+  principal: Principal,
+  labId: string,
+  now = new Date(),
+): Promise<LabOverview> {
   const db: Database = deps.db;
   const lab = await visibleLab(db, principal, labId);
   const periods = await repo.listPeriods(db);
@@ -60,12 +72,17 @@ export async function labOverview(deps: Pick<AppDeps, 'db' | 'storage' | 'ingest
         item({
           kind: 'no-procedures',
           severity: 'action',
-          message: 'The lab has no active measurement procedure: register its test menu before uploading QC data.',
+          message:
+            'The lab has no active measurement procedure: register its test menu before uploading QC data.',
           count: 0,
         }),
       );
     } else if (current.state === 'open') {
-      const urgency: AttentionItem['severity'] = pastDeadline ? 'action' : daysToDeadline < DEADLINE_WARNING_DAYS ? 'warning' : 'info';
+      const urgency: AttentionItem['severity'] = pastDeadline
+        ? 'action'
+        : daysToDeadline < DEADLINE_WARNING_DAYS
+          ? 'warning'
+          : 'info';
       const missing = procedures.filter((p) => !p.hasData);
       if (!submitted) {
         attention.push(
@@ -152,7 +169,13 @@ export async function labOverview(deps: Pick<AppDeps, 'db' | 'storage' | 'ingest
       }
       rowsBySeverity[worst] += 1;
     }
-    flags = { period: latest, published: report.published !== null, rows: report.rows.length, rowsBySeverity, bySeverity };
+    flags = {
+      period: latest,
+      published: report.published !== null,
+      rows: report.rows.length,
+      rowsBySeverity,
+      bySeverity,
+    };
     const signed = Boolean(await findSignoff(db, labId, latest));
     if (rowsBySeverity.action > 0) {
       attention.push(

@@ -69,7 +69,11 @@ export async function findAnalyte(db: Executor, id: string) {
   return row ?? null;
 }
 
-export async function findCatalogueEntry(db: Executor, list: 'instrumentModel' | 'method' | 'reagent', id: string) {
+export async function findCatalogueEntry(
+  db: Executor,
+  list: 'instrumentModel' | 'method' | 'reagent',
+  id: string,
+) {
   const table = list === 'instrumentModel' ? instrumentModels : list === 'method' ? methods : reagents;
   const [row] = await db
     .select({ id: table.id, code: table.code, name: table.name, retiredAt: table.retiredAt })

@@ -1,5 +1,9 @@
 import { Router, type RequestHandler } from 'express';
-import { procedureCreateSchema, procedureStateChangeSchema, procedureUpdateSchema } from '@plumbline/contracts';
+import {
+  procedureCreateSchema,
+  procedureStateChangeSchema,
+  procedureUpdateSchema,
+} from '@plumbline/contracts';
 import type { AppDeps } from '../../deps.ts';
 import { principalOf } from '../../auth/authenticate.ts';
 import { parseInput } from '../../http/validate.ts';
@@ -24,7 +28,15 @@ export function labProceduresRouter(deps: AppDeps, requireUser: RequestHandler):
 
   router.patch('/labs/:labId/procedures/:procedureId', requireUser, async (req, res) => {
     const input = parseInput(procedureUpdateSchema, req.body);
-    res.json(await editProcedure(deps.db, principalOf(req), String(req.params.labId), String(req.params.procedureId), input));
+    res.json(
+      await editProcedure(
+        deps.db,
+        principalOf(req),
+        String(req.params.labId),
+        String(req.params.procedureId),
+        input,
+      ),
+    );
   });
 
   for (const action of ['retire', 'restore'] as const) {

@@ -37,15 +37,23 @@ async function managedLab(db: Database, principal: Principal, labId: string) {
 
 async function codeIsFree(db: Executor, labId: string, code: string, exceptId?: string) {
   const taken = await repo.findCodeTaken(db, labId, code, exceptId);
-  if (taken) throw conflict(`The lab already has a procedure with the code "${taken.code}" (codes are compared without regard to case).`);
+  if (taken)
+    throw conflict(
+      `The lab already has a procedure with the code "${taken.code}" (codes are compared without regard to case).`,
+    );
 }
 
 /** Why the unit cannot be used for the analyte, or null (UCUM; mass ↔ substance needs the molar mass). */
-function unitProblem(unit: string, analyte: { unit: string; molarMass: number | null; name: string }): string | null {
+function unitProblem(
+  unit: string,
+  analyte: { unit: string; molarMass: number | null; name: string },
+): string | null {
   if (ucumConversion(unit, analyte.unit, analyte.molarMass)) return null;
   return (
     `"${unit}" cannot be converted to ${analyte.name}'s unit ${analyte.unit} with UCUM` +
-    (analyte.molarMass ? '' : ' (the catalogue holds no molar mass for it, so mass ↔ substance units cannot be converted)')
+    (analyte.molarMass
+      ? ''
+      : ' (the catalogue holds no molar mass for it, so mass ↔ substance units cannot be converted)')
   );
 }
 
@@ -63,12 +71,18 @@ export async function testMenu(db: Database, principal: Principal, labId: string
   return (await repo.listMenu(db, labId)).map(toMenuItem);
 }
 
-export async function registerProcedure(db: Database, principal: Principal, labId: string, input: ProcedureCreate): Promise<TestMenuItem> {
+export async function registerProcedure(
+  db: Database,
+  principal: Principal,
+  labId: string,
+  input: ProcedureCreate,
+): Promise<TestMenuItem> {
   await managedLab(db, principal, labId);
   const errors: FieldError[] = [];
   const analyte = await repo.findAnalyte(db, input.analyteId);
   if (!analyte) errors.push({ path: 'analyteId', message: 'no such analyte in the catalogue' });
-  else if (analyte.retiredAt) errors.push({ path: 'analyteId', message: `${analyte.name} is retired from the catalogue` });
+  else if (analyte.retiredAt)
+    errors.push({ path: 'analyteId', message: `${analyte.name} is retired from the catalogue` });
   for (const [field, list] of [
     ['instrumentModelId', 'instrumentModel'],
     ['methodId', 'method'],
@@ -76,7 +90,8 @@ export async function registerProcedure(db: Database, principal: Principal, labI
   ] as const) {
     const entry = await repo.findCatalogueEntry(db, list, input[field]);
     if (!entry) errors.push({ path: field, message: 'no such entry in the catalogue' });
-    else if (entry.retiredAt) errors.push({ path: field, message: `${entry.name} is retired from the catalogue` });
+    else if (entry.retiredAt)
+      errors.push({ path: field, message: `${entry.name} is retired from the catalogue` });
   }
   if (analyte) {
     const problem = unitProblem(input.unit, analyte);

@@ -1,5 +1,13 @@
 import { and, asc, desc, eq } from 'drizzle-orm';
-import { analytes, controlLots, periodSignoffs, procedures, reviewComments, users, type Executor } from '@plumbline/db';
+import {
+  analytes,
+  controlLots,
+  periodSignoffs,
+  procedures,
+  reviewComments,
+  users,
+  type Executor,
+} from '@plumbline/db';
 
 const commentColumns = {
   id: reviewComments.id,
@@ -107,7 +115,14 @@ export async function findSignoffWithSigner(db: Executor, labId: string, period:
 }
 
 /** Inserts the sign-off unless one exists (the unique (lab, period) constraint settles a race); false when it existed. */
-export async function insertSignoff(db: Executor, values: typeof periodSignoffs.$inferInsert): Promise<boolean> {
-  const rows = await db.insert(periodSignoffs).values(values).onConflictDoNothing().returning({ id: periodSignoffs.id });
+export async function insertSignoff(
+  db: Executor,
+  values: typeof periodSignoffs.$inferInsert,
+): Promise<boolean> {
+  const rows = await db
+    .insert(periodSignoffs)
+    .values(values)
+    .onConflictDoNothing()
+    .returning({ id: periodSignoffs.id });
   return rows.length === 1;
 }

@@ -1,9 +1,23 @@
 import { Router, type RequestHandler } from 'express';
-import { commentCreateSchema, commentListQuerySchema, commentUpdateSchema, periodKeySchema, signoffCreateSchema } from '@plumbline/contracts';
+import {
+  commentCreateSchema,
+  commentListQuerySchema,
+  commentUpdateSchema,
+  periodKeySchema,
+  signoffCreateSchema,
+} from '@plumbline/contracts';
 import type { AppDeps } from '../../deps.ts';
 import { principalOf } from '../../auth/authenticate.ts';
 import { parseInput } from '../../http/validate.ts';
-import { addComment, editComment, getPeriodSignoff, listComments, listSignoffs, removeComment, signPeriod } from './lab-review.service.ts';
+import {
+  addComment,
+  editComment,
+  getPeriodSignoff,
+  listComments,
+  listSignoffs,
+  removeComment,
+  signPeriod,
+} from './lab-review.service.ts';
 
 /** Corrective-action comments on report rows and the supervisor's sign-off of a period. */
 export function labReviewRouter(deps: AppDeps, requireUser: RequestHandler): Router {
@@ -21,7 +35,15 @@ export function labReviewRouter(deps: AppDeps, requireUser: RequestHandler): Rou
 
   router.patch('/labs/:labId/comments/:commentId', requireUser, async (req, res) => {
     const input = parseInput(commentUpdateSchema, req.body);
-    res.json(await editComment(deps.db, principalOf(req), String(req.params.labId), String(req.params.commentId), input.body));
+    res.json(
+      await editComment(
+        deps.db,
+        principalOf(req),
+        String(req.params.labId),
+        String(req.params.commentId),
+        input.body,
+      ),
+    );
   });
 
   router.delete('/labs/:labId/comments/:commentId', requireUser, async (req, res) => {

@@ -40,13 +40,23 @@ async function lockLabPeriod(tx: Executor, labId: string, period: string) {
   await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${`signoff:${labId}:${period}`}))`);
 }
 
-export async function listComments(db: Database, principal: Principal, labId: string, period?: string): Promise<Comment[]> {
+export async function listComments(
+  db: Database,
+  principal: Principal,
+  labId: string,
+  period?: string,
+): Promise<Comment[]> {
   await visibleLab(db, principal, labId);
   return (await repo.listComments(db, labId, period)).map(toComment);
 }
 
 /** A corrective-action comment on a report row; allowed after sign-off too (new comments only). */
-export async function addComment(db: Database, principal: Principal, labId: string, input: CommentCreate): Promise<Comment> {
+export async function addComment(
+  db: Database,
+  principal: Principal,
+  labId: string,
+  input: CommentCreate,
+): Promise<Comment> {
   const member = labMember(principal, labId);
   await visibleLab(db, principal, labId);
   await existingPeriod(db, input.period);
@@ -55,9 +65,10 @@ export async function addComment(db: Database, principal: Principal, labId: stri
   const lot = await repo.findControlLot(db, input.controlLotId);
   if (!lot) throw notFound('Control lot');
   if (!lot.levels.includes(input.level)) {
-    throw validationFailed(`Control lot ${lot.lotNumber} has no level ${input.level} (its levels: ${lot.levels.join(', ')}).`, [
-      { path: 'level', message: `not a level of lot ${lot.lotNumber}` },
-    ]);
+    throw validationFailed(
+      `Control lot ${lot.lotNumber} has no level ${input.level} (its levels: ${lot.levels.join(', ')}).`,
+      [{ path: 'level', message: `not a level of lot ${lot.lotNumber}` }],
+    );
   }
   const id = await db.transaction(async (tx) => {
     const created = await repo.insertComment(tx, {
@@ -75,7 +86,13 @@ export async function addComment(db: Database, principal: Principal, labId: stri
       labId,
       entity: 'review-comment',
       entityId: created,
-      details: { period: input.period, procedure: procedure.code, lot: lot.lotNumber, level: input.level, body: input.body },
+      details: {
+        period: input.period,
+        procedure: procedure.code,
+        lot: lot.lotNumber,
+        level: input.level,
+        body: input.body,
+      },
     });
     return created;
   });
@@ -95,7 +112,9 @@ async function changeableComment(db: Database, principal: Principal, labId: stri
 }
 
 function signedConflict(period: string) {
-  return conflict(`Period ${period} is signed off: its comments can no longer be edited or deleted (new comments are still welcome).`);
+  return conflict(
+    `Period ${period} is signed off: its comments can no longer be edited or deleted (new comments are still welcome).`,
+  );
 }
 
 export async function editComment(
@@ -122,7 +141,12 @@ export async function editComment(
   return toComment((await repo.findComment(db, labId, commentId))!);
 }
 
-export async function removeComment(db: Database, principal: Principal, labId: string, commentId: string): Promise<void> {
+export async function removeComment(
+  db: Database,
+  principal: Principal,
+  labId: string,
+  commentId: string,
+): Promise<void> {
   const comment = await changeableComment(db, principal, labId, commentId);
   await db.transaction(async (tx) => {
     await lockLabPeriod(tx, labId, comment.period);
@@ -134,7 +158,12 @@ export async function removeComment(db: Database, principal: Principal, labId: s
       labId,
       entity: 'review-comment',
       entityId: commentId,
-      details: { period: comment.period, procedure: comment.procedureCode, level: comment.level, body: comment.body },
+      details: {
+        period: comment.period,
+        procedure: comment.procedureCode,
+        level: comment.level,
+        body: comment.body,
+      },
     });
   });
 }
@@ -144,7 +173,12 @@ export async function listSignoffs(db: Database, principal: Principal, labId: st
   return (await repo.listSignoffs(db, labId)).map(toSignoff);
 }
 
-export async function getPeriodSignoff(db: Database, principal: Principal, labId: string, period: string): Promise<PeriodSignoff> {
+export async function getPeriodSignoff(
+  db: Database,
+  principal: Principal,
+  labId: string,
+  period: string,
+): Promise<PeriodSignoff> {
   await visibleLab(db, principal, labId);
   await existingPeriod(db, period);
   const row = await repo.findSignoffWithSigner(db, labId, period);
@@ -152,7 +186,12 @@ export async function getPeriodSignoff(db: Database, principal: Principal, labId
 }
 
 /** The supervisor signs the lab's review of a period (who, when, a statement); once only. */
-export async function signPeriod(db: Database, principal: Principal, labId: string, input: SignoffCreate): Promise<Signoff> {
+export async function signPeriod(
+  db: Database,
+  principal: Principal,
+  labId: string,
+  input: SignoffCreate,
+): Promise<Signoff> {
   const member = labMember(principal, labId);
   if (member.role !== 'supervisor') throw forbidden('Only the lab’s supervisor can sign a period off.');
   await visibleLab(db, principal, labId);

@@ -6,7 +6,13 @@ import { forbidden, notFound } from '../../errors/app-error.ts';
 
 export const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
-export type LabRecord = { id: string; code: string; name: string; active: boolean; preferredUnits: 'si' | 'conventional' };
+export type LabRecord = {
+  id: string;
+  code: string;
+  name: string;
+  active: boolean;
+  preferredUnits: 'si' | 'conventional';
+};
 
 /**
  * The lab a lab-workspace request is about, after the scoping rule: the coordinator reaches every lab,
@@ -16,7 +22,13 @@ export async function visibleLab(db: Executor, principal: Principal, labId: stri
   assertLabAccess(principal, labId);
   const [lab] = UUID.test(labId)
     ? await db
-        .select({ id: labs.id, code: labs.code, name: labs.name, active: labs.active, preferredUnits: labs.preferredUnits })
+        .select({
+          id: labs.id,
+          code: labs.code,
+          name: labs.name,
+          active: labs.active,
+          preferredUnits: labs.preferredUnits,
+        })
         .from(labs)
         .where(eq(labs.id, labId))
         .limit(1)
@@ -26,7 +38,10 @@ export async function visibleLab(db: Executor, principal: Principal, labId: stri
 }
 
 /** A signed-in member (analyst or supervisor) of the lab; the coordinator and machine tokens are refused. */
-export function labMember(principal: Principal, labId: string): { userId: string; role: 'analyst' | 'supervisor' } {
+export function labMember(
+  principal: Principal,
+  labId: string,
+): { userId: string; role: 'analyst' | 'supervisor' } {
   assertLabAccess(principal, labId);
   if (principal.kind !== 'user' || principal.role === 'coordinator') {
     throw forbidden('Only a member of the lab (analyst or supervisor) can do this.');

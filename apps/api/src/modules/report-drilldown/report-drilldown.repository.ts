@@ -42,10 +42,22 @@ export async function findControlLot(db: Executor, controlLotId: string) {
   return row ?? null;
 }
 
-export type SummaryRow = { procedureId: string; level: number; period: string; n: number; mean: number; sd: number };
+export type SummaryRow = {
+  procedureId: string;
+  level: number;
+  period: string;
+  n: number;
+  mean: number;
+  sd: number;
+};
 
 /** Monthly summaries of some procedures for a lot, up to and including a period, oldest first. */
-export async function summariesOf(db: Executor, procedureIds: string[], controlLotId: string, upTo: string): Promise<SummaryRow[]> {
+export async function summariesOf(
+  db: Executor,
+  procedureIds: string[],
+  controlLotId: string,
+  upTo: string,
+): Promise<SummaryRow[]> {
   if (procedureIds.length === 0) return [];
   return db
     .select({
@@ -57,7 +69,13 @@ export async function summariesOf(db: Executor, procedureIds: string[], controlL
       sd: qcSummaries.sd,
     })
     .from(qcSummaries)
-    .where(and(inArray(qcSummaries.procedureId, procedureIds), eq(qcSummaries.controlLotId, controlLotId), lte(qcSummaries.period, upTo)))
+    .where(
+      and(
+        inArray(qcSummaries.procedureId, procedureIds),
+        eq(qcSummaries.controlLotId, controlLotId),
+        lte(qcSummaries.period, upTo),
+      ),
+    )
     .orderBy(asc(qcSummaries.period));
 }
 
@@ -74,7 +92,12 @@ export async function publishedVersions(db: Executor, periods: string[]): Promis
 
 export type PeerStatisticsRow = typeof peerStatistics.$inferSelect;
 
-export async function peerStatisticsOf(db: Executor, groupIds: string[], periods: string[], versions: number[]) {
+export async function peerStatisticsOf(
+  db: Executor,
+  groupIds: string[],
+  periods: string[],
+  versions: number[],
+) {
   if (groupIds.length === 0 || periods.length === 0) return [];
   return db
     .select()
@@ -99,12 +122,23 @@ export async function dailyValues(db: Executor, procedureId: string, controlLotI
       run: qcValues.run,
     })
     .from(qcValues)
-    .where(and(eq(qcValues.procedureId, procedureId), eq(qcValues.controlLotId, controlLotId), eq(qcValues.period, period)))
+    .where(
+      and(
+        eq(qcValues.procedureId, procedureId),
+        eq(qcValues.controlLotId, controlLotId),
+        eq(qcValues.period, period),
+      ),
+    )
     .orderBy(asc(qcValues.measuredAt), asc(qcValues.level), asc(qcValues.id));
 }
 
 /** Monthly summaries of some procedures for a lot in one period (every level). */
-export async function summariesInPeriod(db: Executor, procedureIds: string[], controlLotId: string, period: string): Promise<SummaryRow[]> {
+export async function summariesInPeriod(
+  db: Executor,
+  procedureIds: string[],
+  controlLotId: string,
+  period: string,
+): Promise<SummaryRow[]> {
   if (procedureIds.length === 0) return [];
   return db
     .select({
@@ -116,5 +150,11 @@ export async function summariesInPeriod(db: Executor, procedureIds: string[], co
       sd: qcSummaries.sd,
     })
     .from(qcSummaries)
-    .where(and(inArray(qcSummaries.procedureId, procedureIds), eq(qcSummaries.controlLotId, controlLotId), eq(qcSummaries.period, period)));
+    .where(
+      and(
+        inArray(qcSummaries.procedureId, procedureIds),
+        eq(qcSummaries.controlLotId, controlLotId),
+        eq(qcSummaries.period, period),
+      ),
+    );
 }

@@ -33,7 +33,22 @@ export function reportDrilldownRouter(deps: AppDeps, requireUser: RequestHandler
   router.get(`${base}/trend.csv`, requireUser, async (req, res) => {
     const d = await drilldownOf(req);
     const csv = toCsv(
-      ['period', 'procedure', 'control_lot', 'level', 'unit', 'lab_mean', 'lab_sd', 'peer_tier', 'peer_mean', 'peer_sd', 'sdi', 'cvr', 'bias_pct', 'published'],
+      [
+        'period',
+        'procedure',
+        'control_lot',
+        'level',
+        'unit',
+        'lab_mean',
+        'lab_sd',
+        'peer_tier',
+        'peer_mean',
+        'peer_sd',
+        'sdi',
+        'cvr',
+        'bias_pct',
+        'published',
+      ],
       d.trend.map((t) => [
         t.period,
         d.procedure.code,
@@ -58,7 +73,20 @@ export function reportDrilldownRouter(deps: AppDeps, requireUser: RequestHandler
     const d = await drilldownOf(req);
     const target = d.leveyJennings.target;
     const csv = toCsv(
-      ['measured_at', 'run', 'procedure', 'control_lot', 'level', 'unit', 'value', 'target', 'target_mean', 'target_sd', 'z', 'rules'],
+      [
+        'measured_at',
+        'run',
+        'procedure',
+        'control_lot',
+        'level',
+        'unit',
+        'value',
+        'target',
+        'target_mean',
+        'target_sd',
+        'z',
+        'rules',
+      ],
       d.leveyJennings.points.map((p) => [
         p.measuredAt,
         p.run,
@@ -74,7 +102,11 @@ export function reportDrilldownRouter(deps: AppDeps, requireUser: RequestHandler
         p.rules.join(' '),
       ]),
     );
-    sendCsv(res, `levey-jennings-${d.procedure.code}-${d.controlLot.lotNumber}-L${d.level}-${d.period}.csv`, csv);
+    sendCsv(
+      res,
+      `levey-jennings-${d.procedure.code}-${d.controlLot.lotNumber}-L${d.level}-${d.period}.csv`,
+      csv,
+    );
   });
 
   return router;

@@ -7,7 +7,13 @@ import {
   type ControlPoint,
   type Standing,
 } from '@plumbline/stats';
-import { PEER_TIERS, loadPeerKeyParts, resolvePeerMembership, type Database, type PeerTierName } from '@plumbline/db';
+import {
+  PEER_TIERS,
+  loadPeerKeyParts,
+  resolvePeerMembership,
+  type Database,
+  type PeerTierName,
+} from '@plumbline/db';
 import type { Drilldown, DrilldownQuery, TrendPoint } from '@plumbline/contracts';
 import type { Principal } from '../../auth/principal.ts';
 import { notFound } from '../../errors/app-error.ts';
@@ -25,8 +31,17 @@ type Chosen = { tier: PeerTierName; row: repo.PeerStatisticsRow; published: bool
  * SDI, CVR and bias when the figures allow them — the same conditions as the peer report (a peer SD,
  * peer mean or within-lab CV of 0, or a lab mean of 0, gives none).
  */
-export function safeStanding(lab: Figures, peer: { mean: number; sd: number; withinCv: number | null }): Standing | null {
-  if (!(peer.sd > 0) || !(peer.mean > 0) || !(peer.withinCv !== null && peer.withinCv > 0) || lab.mean === 0 || lab.n < 2) {
+export function safeStanding(
+  lab: Figures,
+  peer: { mean: number; sd: number; withinCv: number | null },
+): Standing | null {
+  if (
+    !(peer.sd > 0) ||
+    !(peer.mean > 0) ||
+    !(peer.withinCv !== null && peer.withinCv > 0) ||
+    lab.mean === 0 ||
+    lab.n < 2
+  ) {
     return null;
   }
   return standing(lab, { mean: peer.mean, sd: peer.sd, withinCv: peer.withinCv });
@@ -79,7 +94,14 @@ export async function buildDrilldown(
     if (!group) return undefined;
     const version = versions.get(p) ?? 0;
     const at = (v: number) =>
-      statistics.find((r) => r.peerGroupId === group.id && r.level === lvl && r.period === p && r.scope === scope && r.version === v);
+      statistics.find(
+        (r) =>
+          r.peerGroupId === group.id &&
+          r.level === lvl &&
+          r.period === p &&
+          r.scope === scope &&
+          r.version === v,
+      );
     // Lot-to-date figures fall back to the provisional ones when a snapshot holds none (as the report does).
     return scope === 'period' ? at(version) : (at(version) ?? at(0));
   };
@@ -96,7 +118,9 @@ export async function buildDrilldown(
   // 1. Trend of SDI, CVR and bias.
   const trend: TrendPoint[] = trendRows.map((s) => {
     const chosen = choosePeer(level, s.period, 'period');
-    const position = chosen ? safeStanding(s, { mean: chosen.row.mean!, sd: chosen.row.sd!, withinCv: chosen.row.withinCv }) : null;
+    const position = chosen
+      ? safeStanding(s, { mean: chosen.row.mean!, sd: chosen.row.sd!, withinCv: chosen.row.withinCv })
+      : null;
     return {
       period: s.period,
       sdi: position?.sdi ?? null,
@@ -123,7 +147,11 @@ export async function buildDrilldown(
     distribution = {
       labMeans: memberData
         .filter((s) => s.level === level)
-        .map((s) => ({ mean: value(s.mean), own: s.procedureId === procedure.id, excluded: excludedIds.has(s.procedureId) }))
+        .map((s) => ({
+          mean: value(s.mean),
+          own: s.procedureId === procedure.id,
+          excluded: excludedIds.has(s.procedureId),
+        }))
         .sort((a, b) => a.mean - b.mean),
       peerMean: value(current.row.mean!),
       peerSd: spread(current.row.sd!),
@@ -132,18 +160,27 @@ export async function buildDrilldown(
     // 3. Two-level SDI plot at the row's tier: every lab of the group with data at both levels.
     const levels = [...lot.levels].sort((a, b) => a - b);
     if (levels.length >= 2) {
-      const pair: [number, number] = levels.slice(0, 2).includes(level) ? [levels[0], levels[1]] : [levels[0], level];
+      const pair: [number, number] = levels.slice(0, 2).includes(level)
+        ? [levels[0], levels[1]]
+        : [levels[0], level];
       const peerAt = pair.map((l) => statisticsAt(current.tier, l, period, 'period'));
       if (peerAt.every((r) => usable(r) && r.sd! > 0)) {
         const [p1, p2] = peerAt as repo.PeerStatisticsRow[];
         const ids = [...new Set([...p1.members, ...p2.members])];
-        const data = ids.length === members.length && ids.every((id) => members.includes(id)) ? memberData : await repo.summariesInPeriod(db, ids, lot.id, period);
+        const data =
+          ids.length === members.length && ids.every((id) => members.includes(id))
+            ? memberData
+            : await repo.summariesInPeriod(db, ids, lot.id, period);
         const points: NonNullable<Drilldown['twoLevel']>['points'] = [];
         for (const id of ids) {
           const a = data.find((s) => s.procedureId === id && s.level === pair[0]);
           const b = data.find((s) => s.procedureId === id && s.level === pair[1]);
           if (!a || !b) continue;
-          points.push({ sdi1: (a.mean - p1.mean!) / p1.sd!, sdi2: (b.mean - p2.mean!) / p2.sd!, own: id === procedure.id });
+          points.push({
+            sdi1: (a.mean - p1.mean!) / p1.sd!,
+            sdi2: (b.mean - p2.mean!) / p2.sd!,
+            own: id === procedure.id,
+          });
         }
         points.sort((x, y) => x.sdi1 - y.sdi1 || x.sdi2 - y.sdi2);
         twoLevel = { levels: pair, points };
@@ -158,12 +195,18 @@ export async function buildDrilldown(
     period,
     level,
     kind: query.target,
-    labTarget: (lvl) => labTarget(own.filter((s) => s.level === lvl), period),
+    labTarget: (lvl) =>
+      labTarget(
+        own.filter((s) => s.level === lvl),
+        period,
+      ),
     peerTarget: (lvl) => {
       const toDate = choosePeer(lvl, period, 'cumulative');
-      if (toDate && toDate.row.sd! > 0) return { basis: 'peer-to-date', mean: toDate.row.mean!, sd: toDate.row.sd! };
+      if (toDate && toDate.row.sd! > 0)
+        return { basis: 'peer-to-date', mean: toDate.row.mean!, sd: toDate.row.sd! };
       const inPeriod = choosePeer(lvl, period, 'period');
-      if (inPeriod && inPeriod.row.sd! > 0) return { basis: 'peer-period', mean: inPeriod.row.mean!, sd: inPeriod.row.sd! };
+      if (inPeriod && inPeriod.row.sd! > 0)
+        return { basis: 'peer-period', mean: inPeriod.row.mean!, sd: inPeriod.row.sd! };
       return null;
     },
   });
@@ -174,7 +217,13 @@ export async function buildDrilldown(
     trend.flatMap((t) => {
       const chosen = t.biasPct !== null ? choosePeer(level, t.period, 'period') : null;
       return chosen && t.biasPct !== null && chosen.row.cv !== null && chosen.row.cv >= 0
-        ? [{ period: t.period, biasPct: t.biasPct, uRefPct: peerMeanUncertaintyPct(chosen.row.cv, chosen.row.labs) }]
+        ? [
+            {
+              period: t.period,
+              biasPct: t.biasPct,
+              uRefPct: peerMeanUncertaintyPct(chosen.row.cv, chosen.row.labs),
+            },
+          ]
         : [];
     }),
   );
@@ -193,19 +242,31 @@ export async function buildDrilldown(
     distribution,
     twoLevel,
     leveyJennings: {
-      target: leveyJennings.target && { ...leveyJennings.target, mean: value(leveyJennings.target.mean), sd: spread(leveyJennings.target.sd) },
+      target: leveyJennings.target && {
+        ...leveyJennings.target,
+        mean: value(leveyJennings.target.mean),
+        sd: spread(leveyJennings.target.sd),
+      },
       points: leveyJennings.points.map((p) => ({ ...p, value: value(p.value) })),
       runs: leveyJennings.runs,
     },
     uncertainty: uncertainty && {
       ...uncertainty,
-      longTerm: { ...uncertainty.longTerm, mean: value(uncertainty.longTerm.mean), sd: spread(uncertainty.longTerm.sd) },
+      longTerm: {
+        ...uncertainty.longTerm,
+        mean: value(uncertainty.longTerm.mean),
+        sd: spread(uncertainty.longTerm.sd),
+      },
     },
     uncertaintyNote,
   };
 }
 
-type Target = { basis: 'established' | 'this-period' | 'peer-to-date' | 'peer-period'; mean: number; sd: number };
+type Target = {
+  basis: 'established' | 'this-period' | 'peer-to-date' | 'peer-period';
+  mean: number;
+  sd: number;
+};
 
 /**
  * The lab's own target for a level: its figures from the periods before this one pooled (METHODS.md §1),
@@ -245,7 +306,9 @@ async function leveyJenningsOf(
     const target = input.kind === 'lab' ? input.labTarget(lvl) : input.peerTarget(lvl);
     if (target) targets.set(lvl, target);
   }
-  const target = targets.get(input.level) ?? (input.kind === 'lab' ? input.labTarget(input.level) : input.peerTarget(input.level));
+  const target =
+    targets.get(input.level) ??
+    (input.kind === 'lab' ? input.labTarget(input.level) : input.peerTarget(input.level));
   const empty = { target: target ? { kind: input.kind, ...target } : null, points: [], runs: [] };
   if (!target || !values.some((v) => v.level === input.level)) return empty;
 
@@ -275,14 +338,24 @@ async function leveyJenningsOf(
 
   const mine = result.points.flatMap((p, i) =>
     p.level === input.level
-      ? [{ measuredAt: ordered[i].measuredAt.toISOString(), run: p.run, value: p.value, z: p.z, rules: [...p.rules] }]
+      ? [
+          {
+            measuredAt: ordered[i].measuredAt.toISOString(),
+            run: p.run,
+            value: p.value,
+            z: p.z,
+            rules: [...p.rules],
+          },
+        ]
       : [],
   );
   const myRuns = new Set(result.points.filter((p) => p.level === input.level).map((p) => p.run));
   return {
     target: { kind: input.kind, ...target },
     points: mine,
-    runs: result.runs.filter((r) => myRuns.has(r.run)).map((r) => ({ run: r.run, verdict: r.verdict, rules: [...r.rules] })),
+    runs: result.runs
+      .filter((r) => myRuns.has(r.run))
+      .map((r) => ({ run: r.run, verdict: r.verdict, rules: [...r.rules] })),
   };
 }
 
@@ -293,11 +366,16 @@ function uncertaintyOf(
 ): { uncertainty: Drilldown['uncertainty']; uncertaintyNote: string | null } {
   const longTerm = pool(trendRows);
   const cv = longTerm.mean !== 0 ? (100 * longTerm.sd) / Math.abs(longTerm.mean) : NaN;
-  if (!(cv > 0)) return { uncertainty: null, uncertaintyNote: 'The lab’s figures show no spread, so u(Rw) cannot be estimated.' };
+  if (!(cv > 0))
+    return {
+      uncertainty: null,
+      uncertaintyNote: 'The lab’s figures show no spread, so u(Rw) cannot be estimated.',
+    };
   if (comparisons.length === 0) {
     return {
       uncertainty: null,
-      uncertaintyNote: 'No period has a peer comparison yet, so the bias component (and the uncertainty) cannot be estimated.',
+      uncertaintyNote:
+        'No period has a peer comparison yet, so the bias component (and the uncertainty) cannot be estimated.',
     };
   }
   const k = 2;

@@ -1,7 +1,14 @@
 import PDFDocument from 'pdfkit';
 import { existsSync, readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import type { Comment, Drilldown, PeerReport, PeerReportRow, ReportFlag, Signoff } from '@plumbline/contracts';
+import type {
+  Comment,
+  Drilldown,
+  PeerReport,
+  PeerReportRow,
+  ReportFlag,
+  Signoff,
+} from '@plumbline/contracts';
 import { worstFlag } from './report-csv.ts';
 
 /** What the monthly PDF shows; gathered by the export service. */
@@ -46,12 +53,13 @@ function registerFonts(doc: PDFKit.PDFDocument): Fonts {
   return { regular: 'Helvetica', bold: 'Helvetica-Bold', unicode: false };
 }
 
-const winAnsiReplacements: Record<string, string> = {
+/** Stand-ins for characters a font lacks. */
+const replacements: Record<string, string> = {
   '−': '-',
   '≤': '<=',
   '≥': '>=',
   '√': 'sqrt',
-  'σ': 'sigma',
+  σ: 'sigma',
   '’': "'",
   '‘': "'",
   '“': '"',
@@ -60,6 +68,29 @@ const winAnsiReplacements: Record<string, string> = {
   '—': '-',
   '…': '...',
 };
+
+/** Code points in the Latin subset of Fira Sans that @fontsource ships (its unicode-range). */
+function inFiraLatin(cp: number): boolean {
+  return (
+    cp <= 0xff ||
+    (cp >= 0x2000 && cp <= 0x206f) ||
+    [
+      0x131, 0x152, 0x153, 0x2bb, 0x2bc, 0x2c6, 0x2da, 0x2dc, 0x304, 0x308, 0x329, 0x20ac, 0x2122, 0x2191,
+      0x2193, 0x2212, 0x2215, 0xfeff, 0xfffd,
+    ].includes(cp)
+  );
+}
+
+/** Text reduced to what the font can draw: Fira's Latin subset, or WinAnsi (Latin-1 here) for Helvetica. */
+function drawable(text: string, unicode: boolean): string {
+  return [...text]
+    .map((c) => {
+      const cp = c.codePointAt(0)!;
+      if (unicode ? inFiraLatin(cp) : cp <= 0xff) return c;
+      return replacements[c] ?? '?';
+    })
+    .join('');
+}
 
 // ---- number formats ----------------------------------------------------------------------------------
 
@@ -80,6 +111,10 @@ const INK = '#1f2937';
 const MUTED = '#6b7280';
 const RULE = '#d1d5db';
 const ACCENT = '#27496d';
+
+const CHART_HEIGHT = 150;
+/** A row's title, its charts and the gap after them. */
+const CHART_BLOCK_HEIGHT = CHART_HEIGHT + 32;
 
 const tierLabel = { instrument: 'instrument', method: 'method', analyte: 'analyte' } as const;
 
@@ -107,8 +142,7 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
   });
 
   const fonts = registerFonts(doc);
-  const clean = (text: string) =>
-    fonts.unicode ? text : [...text].map((c) => winAnsiReplacements[c] ?? (c.charCodeAt(0) < 256 ? c : '?')).join('');
+  const clean = (text: string) => drawable(text, fonts.unicode);
   const left = doc.page.margins.left;
   const width = doc.page.width - doc.page.margins.left - doc.page.margins.right;
   const bottom = () => doc.page.height - doc.page.margins.bottom - 18;
@@ -121,7 +155,10 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
     options: PDFKit.Mixins.TextOptions & { size?: number; bold?: boolean; colour?: string } = {},
   ) => {
     const { size = 9, bold = false, colour = INK, ...rest } = options;
-    doc.font(bold ? fonts.bold : fonts.regular).fontSize(size).fillColor(colour);
+    doc
+      .font(bold ? fonts.bold : fonts.regular)
+      .fontSize(size)
+      .fillColor(colour);
     doc.text(clean(text), x, at, { lineBreak: false, ...rest });
   };
   const heightOf = (text: string, w: number, size = 9, bold = false) => {
@@ -135,18 +172,25 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
   const ensure = (height: number) => {
     if (y + height > bottom()) newPage();
   };
-  const heading = (text: string) => {
-    ensure(40);
+  /** A section heading kept on the same page as the first `keepWith` points of its content. */
+  const heading = (text: string, keepWith = 22) => {
+    ensure(18 + keepWith);
     y += 8;
     write(text, left, y, { size: 12, bold: true, colour: ACCENT });
     y += 18;
   };
-  const paragraph = (text: string, options: { size?: number; bold?: boolean; colour?: string; indent?: number } = {}) => {
+  const paragraph = (
+    text: string,
+    options: { size?: number; bold?: boolean; colour?: string; indent?: number } = {},
+  ) => {
     const indent = options.indent ?? 0;
     const size = options.size ?? 9;
     const h = heightOf(text, width - indent, size, options.bold);
     ensure(h + 4);
-    doc.font(options.bold ? fonts.bold : fonts.regular).fontSize(size).fillColor(options.colour ?? INK);
+    doc
+      .font(options.bold ? fonts.bold : fonts.regular)
+      .fontSize(size)
+      .fillColor(options.colour ?? INK);
     doc.text(clean(text), left + indent, y, { width: width - indent });
     y += h + 4;
   };
@@ -161,7 +205,11 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
   const figures = report.published
     ? `Peer figures: published version ${report.published.version} of ${report.published.publishedAt.slice(0, 10)}.`
     : 'Peer figures: provisional — the period is not published yet, so the figures may still change.';
-  write(figures, left, y, { size: 9, colour: report.published ? INK : severityColour.warning, bold: !report.published });
+  write(figures, left, y, {
+    size: 9,
+    colour: report.published ? INK : severityColour.warning,
+    bold: !report.published,
+  });
   y += 13;
   write(
     `Means and SDs in ${report.units === 'conventional' ? 'conventional' : 'SI'} units. Generated ${isoMinute(data.generatedAt)} UTC.`,
@@ -184,16 +232,22 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
     heading('Flags');
     for (const row of flaggedRows) {
       const relevant = row.flags.filter((f) => f.severity === 'warning' || f.severity === 'action');
-      paragraph(`${rowLabel(row)}: ${relevant.map((f) => `${f.severity.toUpperCase()} — ${f.message}`).join(' ')}`, { size: 8.5 });
+      paragraph(
+        `${rowLabel(row)}: ${relevant.map((f) => `${f.severity.toUpperCase()} — ${f.message}`).join(' ')}`,
+        { size: 8.5 },
+      );
     }
   }
 
   // Charts of the flagged rows.
   if (data.flagged.length > 0) {
-    heading('Charts of the flagged rows');
+    heading('Charts of the flagged rows', CHART_BLOCK_HEIGHT);
     for (const { row, drilldown } of data.flagged) drawRowCharts(row, drilldown);
     if (data.flaggedNotCharted > 0) {
-      paragraph(`${data.flaggedNotCharted} further flagged row(s) are not charted here; open them in Plumbline.`, { colour: MUTED });
+      paragraph(
+        `${data.flaggedNotCharted} further flagged row(s) are not charted here; open them in Plumbline.`,
+        { colour: MUTED },
+      );
     }
   }
 
@@ -212,10 +266,16 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
   // Sign-off.
   heading('Sign-off');
   if (data.signoff) {
-    paragraph(`Signed off by ${data.signoff.signedBy.name} on ${isoMinute(new Date(data.signoff.signedAt))} UTC.`, { bold: true });
+    paragraph(
+      `Signed off by ${data.signoff.signedBy.name} on ${isoMinute(new Date(data.signoff.signedAt))} UTC.`,
+      { bold: true },
+    );
     paragraph(`Statement: ${data.signoff.statement}`);
   } else {
-    paragraph('Not signed off: the supervisor has not signed this period yet.', { bold: true, colour: severityColour.warning });
+    paragraph('Not signed off: the supervisor has not signed this period yet.', {
+      bold: true,
+      colour: severityColour.warning,
+    });
   }
 
   // Caution.
@@ -252,7 +312,12 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
   }
 
   function drawReportTable() {
-    type Column = { title: string; width: number; align?: 'left' | 'right'; cell: (r: PeerReportRow) => string };
+    type Column = {
+      title: string;
+      width: number;
+      align?: 'left' | 'right';
+      cell: (r: PeerReportRow) => string;
+    };
     const columns: Column[] = [
       { title: 'Procedure', width: 58, cell: (r) => r.procedure.code },
       { title: 'Analyte', width: 78, cell: (r) => r.analyte.name },
@@ -263,7 +328,11 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
       { title: 'Mean', width: 48, align: 'right', cell: (r) => formatNumber(r.lab.mean, r.decimals) },
       { title: 'SD', width: 44, align: 'right', cell: (r) => formatNumber(r.lab.sd, r.decimals + 1) },
       { title: 'CV %', width: 34, align: 'right', cell: (r) => formatNumber(r.lab.cv, 1) },
-      { title: 'Peer', width: 58, cell: (r) => (r.peer ? `${tierLabel[r.peer.tier]}, ${r.peer.labs}` : 'none') },
+      {
+        title: 'Peer',
+        width: 58,
+        cell: (r) => (r.peer ? `${tierLabel[r.peer.tier]}, ${r.peer.labs}` : 'none'),
+      },
       { title: 'Peer mean', width: 50, align: 'right', cell: (r) => formatNumber(r.peer?.mean, r.decimals) },
       { title: 'Peer SD', width: 44, align: 'right', cell: (r) => formatNumber(r.peer?.sd, r.decimals + 1) },
       { title: 'SDI', width: 36, align: 'right', cell: (r) => formatNumber(r.sdi, 2) },
@@ -281,7 +350,13 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
       let x = left;
       doc.rect(left, y, width, rowHeight).fill('#eef2f6');
       for (const c of columns) {
-        write(c.title, x + 2, y + 3.5, { size: 7.5, bold: true, width: c.width - 4, align: c.align ?? 'left', ellipsis: true });
+        write(c.title, x + 2, y + 3.5, {
+          size: 7.5,
+          bold: true,
+          width: c.width - 4,
+          align: c.align ?? 'left',
+          ellipsis: true,
+        });
         x += c.width;
       }
       y += rowHeight;
@@ -314,29 +389,45 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
         x += c.width;
       }
       y += rowHeight;
-      doc.moveTo(left, y).lineTo(left + width, y).lineWidth(0.3).strokeColor(RULE).stroke();
+      doc
+        .moveTo(left, y)
+        .lineTo(left + width, y)
+        .lineWidth(0.3)
+        .strokeColor(RULE)
+        .stroke();
     });
     y += 6;
     if (report.rows.some((r) => r.sigma !== null)) {
-      const sources = [...new Set(report.rows.filter((r) => r.analyte.teaSource).map((r) => `${r.analyte.name}: TEa ${r.analyte.teaPct} % (${r.analyte.teaSource})`))];
+      const sources = [
+        ...new Set(
+          report.rows
+            .filter((r) => r.analyte.teaSource)
+            .map((r) => `${r.analyte.name}: TEa ${r.analyte.teaPct} % (${r.analyte.teaSource})`),
+        ),
+      ];
       paragraph(`Sigma = (TEa % − |bias %|) / CV %. ${sources.join('; ')}.`, { size: 7.5, colour: MUTED });
     }
     paragraph(
-      'SDI = (lab mean − peer mean) / peer SD; CVR = lab CV / peer within-lab CV; flags: |SDI| ≤ 1 fine, ≤ 2 acceptable, ≤ 3 warning, above action; CVR ≤ 1 fine, ≤ 1.5 acceptable, ≤ 2 warning, above action.',
+      'SDI = (lab mean − peer mean) / peer SD; CVR = lab CV / peer within-lab CV. Flags: |SDI| up to 1 fine, up to 2 acceptable, ' +
+        'up to 3 warning, above 3 action; CVR up to 1 fine, up to 1.5 acceptable, up to 2 warning, above 2 action (thresholds are settings).',
       { size: 7.5, colour: MUTED },
     );
   }
 
   function drawRowCharts(row: PeerReportRow, d: Drilldown) {
-    const chartHeight = 150;
+    const chartHeight = CHART_HEIGHT;
     const hasChart = d.leveyJennings.points.length > 0;
-    ensure(chartHeight + 40);
+    ensure(CHART_BLOCK_HEIGHT);
     write(rowLabel(row), left, y, { size: 9, bold: true });
     y += 14;
     const chartWidth = hasChart ? (width - 20) / 2 : width / 2;
     drawSdiTrend(d, left, y, chartWidth, chartHeight);
     if (hasChart) drawLeveyJennings(d, left + chartWidth + 20, y, chartWidth, chartHeight);
-    else write('No daily values this period: no control chart.', left + chartWidth + 20, y + 20, { size: 8, colour: MUTED });
+    else
+      write('No daily values this period: no control chart.', left + chartWidth + 20, y + 20, {
+        size: 8,
+        colour: MUTED,
+      });
     y += chartHeight + 18;
   }
 
@@ -344,10 +435,22 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
   function guides(x: number, plotWidth: number, yOf: (v: number) => number, label: (k: number) => string) {
     for (const k of [-3, -2, -1, 0, 1, 2, 3]) {
       const gy = yOf(k);
-      const colour = Math.abs(k) === 3 ? severityColour.action : Math.abs(k) === 2 ? severityColour.warning : k === 0 ? INK : RULE;
+      const colour =
+        Math.abs(k) === 3
+          ? severityColour.action
+          : Math.abs(k) === 2
+            ? severityColour.warning
+            : k === 0
+              ? INK
+              : RULE;
       doc.save();
       if (k !== 0) doc.dash(Math.abs(k) === 1 ? 1 : 3, { space: 2 });
-      doc.moveTo(x, gy).lineTo(x + plotWidth, gy).lineWidth(k === 0 ? 0.8 : 0.5).strokeColor(colour).stroke();
+      doc
+        .moveTo(x, gy)
+        .lineTo(x + plotWidth, gy)
+        .lineWidth(k === 0 ? 0.8 : 0.5)
+        .strokeColor(colour)
+        .stroke();
       doc.restore();
       write(label(k), x - 44, gy - 3, { size: 6, colour: MUTED, width: 40, align: 'right' });
     }
@@ -375,18 +478,30 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
         return;
       }
       const point: [number, number] = [xOf(i), yOf(t.sdi)];
-      if (previous) doc.moveTo(previous[0], previous[1]).lineTo(point[0], point[1]).lineWidth(1).strokeColor(ACCENT).stroke();
+      if (previous)
+        doc
+          .moveTo(previous[0], previous[1])
+          .lineTo(point[0], point[1])
+          .lineWidth(1)
+          .strokeColor(ACCENT)
+          .stroke();
       previous = point;
     });
     d.trend.forEach((t, i) => {
       const px = xOf(i);
       if (t.sdi !== null) {
         const py = yOf(t.sdi);
-        const colour = Math.abs(t.sdi) > 3 ? severityColour.action : Math.abs(t.sdi) > 2 ? severityColour.warning : ACCENT;
+        const colour =
+          Math.abs(t.sdi) > 3 ? severityColour.action : Math.abs(t.sdi) > 2 ? severityColour.warning : ACCENT;
         doc.circle(px, py, t.period === d.period ? 3 : 2).fill(colour);
         write(formatNumber(t.sdi, 2), px - 15, py - 10, { size: 6, width: 30, align: 'center', colour });
       }
-      write(t.period, px - 16, plotTop + plotHeight + 4, { size: 5.5, width: 32, align: 'center', colour: MUTED });
+      write(t.period, px - 16, plotTop + plotHeight + 4, {
+        size: 5.5,
+        width: 32,
+        align: 'center',
+        colour: MUTED,
+      });
     });
   }
 
@@ -415,10 +530,17 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
     const xOf = (i: number) => (n > 1 ? plotLeft + (i * plotWidth) / (n - 1) : plotLeft + plotWidth / 2);
     doc.rect(plotLeft, plotTop, plotWidth, plotHeight).lineWidth(0.4).strokeColor(RULE).stroke();
     guides(plotLeft, plotWidth, yOf, (k) =>
-      k === 0 ? formatNumber(target.mean, d.decimals) : `${k > 0 ? '+' : '−'}${Math.abs(k)}s ${formatNumber(target.mean + k * target.sd, d.decimals)}`,
+      k === 0
+        ? formatNumber(target.mean, d.decimals)
+        : `${k > 0 ? '+' : '−'}${Math.abs(k)}s ${formatNumber(target.mean + k * target.sd, d.decimals)}`,
     );
     for (let i = 1; i < n; i++) {
-      doc.moveTo(xOf(i - 1), yOf(lj.points[i - 1].z)).lineTo(xOf(i), yOf(lj.points[i].z)).lineWidth(0.7).strokeColor(ACCENT).stroke();
+      doc
+        .moveTo(xOf(i - 1), yOf(lj.points[i - 1].z))
+        .lineTo(xOf(i), yOf(lj.points[i].z))
+        .lineWidth(0.7)
+        .strokeColor(ACCENT)
+        .stroke();
     }
     lj.points.forEach((p, i) => {
       const px = xOf(i);
@@ -431,19 +553,31 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
       const colour = rejected ? severityColour.action : severityColour.warning;
       doc.circle(px, py, 3).lineWidth(1).strokeColor(colour).stroke();
       doc.circle(px, py, 1.5).fill(colour);
-      write(p.rules.join(' '), px - 25, py + (p.z >= 0 ? -11 : 5), { size: 5.5, width: 50, align: 'center', colour });
+      // Label the rejection rules (1-2s is only a warning and would crowd the chart when a rule rejects).
+      const label = rejected ? p.rules.filter((r) => r !== '1-2s').join(' ') : '1-2s';
+      write(label, px - 25, py + (p.z >= 0 ? -11 : 5), { size: 5.5, width: 50, align: 'center', colour });
     });
     const first = lj.points[0]?.measuredAt.slice(0, 10) ?? '';
     const last = lj.points.at(-1)?.measuredAt.slice(0, 10) ?? '';
     write(first, plotLeft, plotTop + plotHeight + 4, { size: 5.5, colour: MUTED });
-    write(last, plotLeft + plotWidth - 40, plotTop + plotHeight + 4, { size: 5.5, colour: MUTED, width: 40, align: 'right' });
-    const rejectedRuns = lj.runs.filter((r) => r.verdict === 'reject').length;
-    write(`${n} values, ${lj.runs.length} runs, ${rejectedRuns} rejected`, plotLeft + plotWidth / 2 - 60, plotTop + plotHeight + 4, {
+    write(last, plotLeft + plotWidth - 40, plotTop + plotHeight + 4, {
       size: 5.5,
       colour: MUTED,
-      width: 120,
-      align: 'center',
+      width: 40,
+      align: 'right',
     });
+    const rejectedRuns = lj.runs.filter((r) => r.verdict === 'reject').length;
+    write(
+      `${n} values, ${lj.runs.length} runs, ${rejectedRuns} rejected`,
+      plotLeft + plotWidth / 2 - 60,
+      plotTop + plotHeight + 12,
+      {
+        size: 5.5,
+        colour: MUTED,
+        width: 120,
+        align: 'center',
+      },
+    );
   }
 }
 

@@ -1,12 +1,18 @@
 import type { Comment, PeerReport, ReportFlag, TestMenuItem, UploadSummary } from '@plumbline/contracts';
 import { toCsv } from '../../http/csv.ts';
 
-const severityRank: Record<ReportFlag['severity'], number> = { fine: 0, acceptable: 1, warning: 2, action: 3 };
+const severityRank: Record<ReportFlag['severity'], number> = {
+  fine: 0,
+  acceptable: 1,
+  warning: 2,
+  action: 3,
+};
 
 /** The worst flag of a row, or null when it has none (no peer comparison). */
 export function worstFlag(flags: readonly ReportFlag[]): ReportFlag['severity'] | null {
   let worst: ReportFlag['severity'] | null = null;
-  for (const f of flags) if (worst === null || severityRank[f.severity] > severityRank[worst]) worst = f.severity;
+  for (const f of flags)
+    if (worst === null || severityRank[f.severity] > severityRank[worst]) worst = f.severity;
   return worst;
 }
 
@@ -15,11 +21,38 @@ export function peerReportCsv(report: PeerReport): string {
   const figures = report.published ? `published v${report.published.version}` : 'provisional';
   return toCsv(
     [
-      'period', 'lab', 'figures', 'procedure', 'analyte', 'control_lot', 'level', 'unit',
-      'lab_n', 'lab_mean', 'lab_sd', 'lab_cv_pct',
-      'peer_tier', 'peer_labs', 'peer_n', 'peer_mean', 'peer_sd', 'peer_cv_pct', 'peer_within_cv_pct',
-      'sdi', 'cvr', 'bias_pct', 'sigma', 'tea_pct', 'tea_source',
-      'cumulative_sdi', 'cumulative_cvr', 'worst_flag', 'flags', 'excluded', 'peer_note', 'late',
+      'period',
+      'lab',
+      'figures',
+      'procedure',
+      'analyte',
+      'control_lot',
+      'level',
+      'unit',
+      'lab_n',
+      'lab_mean',
+      'lab_sd',
+      'lab_cv_pct',
+      'peer_tier',
+      'peer_labs',
+      'peer_n',
+      'peer_mean',
+      'peer_sd',
+      'peer_cv_pct',
+      'peer_within_cv_pct',
+      'sdi',
+      'cvr',
+      'bias_pct',
+      'sigma',
+      'tea_pct',
+      'tea_source',
+      'cumulative_sdi',
+      'cumulative_cvr',
+      'worst_flag',
+      'flags',
+      'excluded',
+      'peer_note',
+      'late',
     ],
     report.rows.map((r) => [
       report.period,
@@ -61,13 +94,34 @@ export function peerReportCsv(report: PeerReport): string {
 export function commentsCsv(comments: readonly Comment[]): string {
   return toCsv(
     ['period', 'procedure', 'analyte', 'control_lot', 'level', 'author', 'created_at', 'comment'],
-    comments.map((c) => [c.period, c.procedure.code, c.analyte.name, c.controlLot.lotNumber, c.level, c.author.name, c.createdAt, c.body]),
+    comments.map((c) => [
+      c.period,
+      c.procedure.code,
+      c.analyte.name,
+      c.controlLot.lotNumber,
+      c.level,
+      c.author.name,
+      c.createdAt,
+      c.body,
+    ]),
   );
 }
 
 export function testMenuCsv(items: readonly TestMenuItem[]): string {
   return toCsv(
-    ['code', 'analyte_code', 'analyte', 'loinc', 'instrument_model', 'method', 'reagent', 'unit', 'analyte_unit', 'created_at', 'retired_at'],
+    [
+      'code',
+      'analyte_code',
+      'analyte',
+      'loinc',
+      'instrument_model',
+      'method',
+      'reagent',
+      'unit',
+      'analyte_unit',
+      'created_at',
+      'retired_at',
+    ],
     items.map((p) => [
       p.code,
       p.analyte.code,
@@ -86,7 +140,22 @@ export function testMenuCsv(items: readonly TestMenuItem[]): string {
 
 export function uploadsCsv(uploads: readonly UploadSummary[]): string {
   return toCsv(
-    ['created_at', 'filename', 'kind', 'status', 'rows_total', 'rows_accepted', 'rows_rejected', 'size_bytes', 'sha256', 'via', 'uploaded_by', 'stored_at', 'confirmed_at', 'failure'],
+    [
+      'created_at',
+      'filename',
+      'kind',
+      'status',
+      'rows_total',
+      'rows_accepted',
+      'rows_rejected',
+      'size_bytes',
+      'sha256',
+      'via',
+      'uploaded_by',
+      'stored_at',
+      'confirmed_at',
+      'failure',
+    ],
     uploads.map((u) => [
       u.createdAt,
       u.filename,

@@ -14,7 +14,10 @@ import {
 
 function sendFile(res: Response, file: FileExport) {
   res.setHeader('Content-Type', file.contentType);
-  res.setHeader('Content-Disposition', `attachment; filename="${file.filename.replace(/[^A-Za-z0-9._-]/g, '_')}"`);
+  res.setHeader(
+    'Content-Disposition',
+    `attachment; filename="${file.filename.replace(/[^A-Za-z0-9._-]/g, '_')}"`,
+  );
   res.setHeader('Cache-Control', 'no-store');
   res.send(file.body);
 }

@@ -17,14 +17,29 @@ export const MAX_CHARTED_ROWS = 24;
 
 export type FileExport = { filename: string; contentType: string; body: string | Buffer };
 
-const csvFile = (filename: string, body: string): FileExport => ({ filename, contentType: 'text/csv; charset=utf-8', body });
+const csvFile = (filename: string, body: string): FileExport => ({
+  filename,
+  contentType: 'text/csv; charset=utf-8',
+  body,
+});
 
-export async function peerReportCsvExport(deps: ExportDeps, principal: Principal, labId: string, period: string, units?: UnitSystem) {
+export async function peerReportCsvExport(
+  deps: ExportDeps,
+  principal: Principal,
+  labId: string,
+  period: string,
+  units?: UnitSystem,
+) {
   const report = await buildPeerReport(deps.db, principal, labId, period, { units });
   return csvFile(`peer-report-${report.lab.code}-${period}.csv`, peerReportCsv(report));
 }
 
-export async function commentsCsvExport(deps: ExportDeps, principal: Principal, labId: string, period?: string) {
+export async function commentsCsvExport(
+  deps: ExportDeps,
+  principal: Principal,
+  labId: string,
+  period?: string,
+) {
   const lab = await visibleLab(deps.db, principal, labId);
   const comments = await listComments(deps.db, principal, labId, period);
   return csvFile(`comments-${lab.code}${period ? `-${period}` : ''}.csv`, commentsCsv(comments));

@@ -167,7 +167,8 @@ export async function getUploadDetail(deps: UploadDeps, principal: Principal, id
   return {
     ...toSummary(row),
     errors: row.errors as UploadDetail['errors'],
-    errorsTruncated: row.rowsRejected > row.errors.length && row.errors.length >= MAX_STORED_ROW_ERRORS,
+    // The worker keeps at most MAX_STORED_ROW_ERRORS errors; reaching the cap means some were left out.
+    errorsTruncated: row.errors.length >= MAX_STORED_ROW_ERRORS,
     columnMapping: row.columnMapping ?? null,
   };
 }

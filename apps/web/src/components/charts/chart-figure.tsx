@@ -2,7 +2,9 @@
 // described for assistive technology, focusable), a legend, a line that reads out the point in focus,
 // and the same values as a table (the chart's text alternative).
 import { useId, type ReactNode } from 'react';
+import { saveFile } from '../../lib/api-client.ts';
 import type { ChartSize } from './chart-layout.ts';
+import { tableCsv } from './table-csv.ts';
 
 export type LegendItem = { key: string; symbol: ReactNode; label: string };
 
@@ -110,46 +112,63 @@ export function ChartFigure({
   );
 }
 
-/** A compact table for a chart's values. `caption` names it for assistive technology. */
+/** A compact table for a chart's values, with its CSV. `caption` names it for assistive technology. */
 export function ChartTable({
   caption,
   headers,
   rows,
+  filename,
 }: {
   caption: string;
   headers: string[];
   /** Cells as text; the first cell of a row is its header. */
-  rows: { key: string; cells: ReactNode[]; emphasis?: boolean }[];
+  rows: { key: string; cells: (string | number)[]; emphasis?: boolean }[];
+  /** Name of the CSV file the values download as. */
+  filename?: string;
 }) {
   return (
-    <table className="w-full border-collapse text-xs">
-      <caption className="sr-only">{caption}</caption>
-      <thead>
-        <tr className="border-b border-slate-200 text-slate-500">
-          {headers.map((header, index) => (
-            <th key={header} scope="col" className={`px-2 py-1 font-medium ${index === 0 ? 'text-left' : 'text-right'}`}>
-              {header}
-            </th>
-          ))}
-        </tr>
-      </thead>
-      <tbody>
-        {rows.map((row) => (
-          <tr key={row.key} className={`border-b border-slate-100 ${row.emphasis ? 'bg-plumb-50 font-semibold' : ''}`}>
-            {row.cells.map((cell, index) =>
-              index === 0 ? (
-                <th key={index} scope="row" className="px-2 py-1 text-left font-medium whitespace-nowrap text-slate-800">
-                  {cell}
-                </th>
-              ) : (
-                <td key={index} className="px-2 py-1 text-right whitespace-nowrap">
-                  {cell}
-                </td>
-              ),
-            )}
+    <>
+      <table className="w-full border-collapse text-xs">
+        <caption className="sr-only">{caption}</caption>
+        <thead>
+          <tr className="border-b border-slate-200 text-slate-500">
+            {headers.map((header, index) => (
+              <th key={header} scope="col" className={`px-2 py-1 font-medium ${index === 0 ? 'text-left' : 'text-right'}`}>
+                {header}
+              </th>
+            ))}
           </tr>
-        ))}
-      </tbody>
-    </table>
+        </thead>
+        <tbody>
+          {rows.map((row) => (
+            <tr key={row.key} className={`border-b border-slate-100 ${row.emphasis ? 'bg-plumb-50 font-semibold' : ''}`}>
+              {row.cells.map((cell, index) =>
+                index === 0 ? (
+                  <th key={index} scope="row" className="px-2 py-1 text-left font-medium whitespace-nowrap text-slate-800">
+                    {cell}
+                  </th>
+                ) : (
+                  <td key={index} className="px-2 py-1 text-right whitespace-nowrap">
+                    {cell}
+                  </td>
+                ),
+              )}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <button
+        type="button"
+        onClick={() =>
+          saveFile(
+            new Blob([tableCsv(headers, rows.map((row) => row.cells))], { type: 'text/csv;charset=utf-8' }),
+            filename ?? `${caption.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').toLowerCase()}.csv`,
+          )
+        }
+        className="mt-2 text-xs font-medium text-plumb-700 underline decoration-plumb-300 underline-offset-2 hover:text-plumb-900"
+      >
+        Download these values as CSV
+      </button>
+    </>
   );
 }

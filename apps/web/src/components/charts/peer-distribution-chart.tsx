@@ -123,7 +123,7 @@ export function PeerDistributionChart({
           rows={ordered.map((p) => ({
             key: p.key,
             emphasis: p.isOwnLab,
-            cells: [names.get(p.key), fmt(p.mean), formatSigned(sdiOf(p.mean)), p.excluded ? 'no, left out' : 'yes'],
+            cells: [names.get(p.key) ?? '', fmt(p.mean), formatSigned(sdiOf(p.mean)), p.excluded ? 'no, left out' : 'yes'],
           }))}
         />
       }

@@ -106,7 +106,7 @@ export function TwoLevelSdiPlot({
           rows={ordered.map((p) => ({
             key: p.key,
             emphasis: p.isOwnLab,
-            cells: [names.get(p.key), formatSigned(p.x), formatSigned(p.y)],
+            cells: [names.get(p.key) ?? '', formatSigned(p.x), formatSigned(p.y)],
           }))}
         />
       }

@@ -1,18 +1,25 @@
+// The lab's test menu: its measurement procedures and the short codes its files use (supervisors).
 import { ContentLayout } from '../../../components/layouts/content-layout.tsx';
 import { EmptyState } from '../../../components/ui/empty-state.tsx';
+import { TestMenu } from '../../../features/lab-procedures/components/test-menu.tsx';
+import { useSession } from '../../../lib/auth.tsx';
+import { canAccess } from '../../../lib/authorization.ts';
 
-// Shell page: the feature that fills this area replaces the empty state.
 export default function ProceduresRoute() {
+  const session = useSession();
+  const labId = session?.user.labId ?? null;
   return (
     <ContentLayout
       title="Procedures"
       area="Lab management"
-      description="The measurement procedures your lab reports and the short codes used in its files."
+      width="wide"
+      description="The measurement procedures your lab reports: analyte, instrument model, method, reagent and unit, with the short code your QC files use for each."
     >
-      <EmptyState
-        title="Your lab's measurement procedures will be listed here"
-        description="Each measurement procedure of your lab will be listed here: analyte, instrument model, method, reagent and unit, with the short code your files use for it."
-      />
+      {session && labId ? (
+        <TestMenu labId={labId} canManage={canAccess(session.user.role, 'labManagement')} />
+      ) : (
+        <EmptyState title="Your account belongs to no lab" description="Ask your network coordinator to add your account to your lab." />
+      )}
     </ContentLayout>
   );
 }

@@ -249,13 +249,13 @@ export function LabOverviewDashboard({ labId, links }: { labId: string; links: O
   }
   const data = overview.data;
   return (
-    <div className="grid gap-5 lg:grid-cols-3">
+    <div className="grid gap-5 md:grid-cols-2">
       <CurrentPeriod overview={data} links={links} />
       <FlagSummary overview={data} links={links} />
-      <div className="lg:row-span-2">
+      <div className="md:col-span-2">
         <Attention overview={data} links={links} />
       </div>
-      <div className="lg:col-span-2">
+      <div className="md:col-span-2">
         <RecentUploads uploads={data.recentUploads} links={links} />
       </div>
     </div>

@@ -189,7 +189,7 @@ function GroupActions({ group }: { group: PeerGroup }) {
   const { open, toggleOpen, actions } = useContext(TierContext)!;
   const isOpen = open.has(group.id);
   return (
-    <span className="flex justify-end gap-1">
+    <span className="flex flex-col items-end gap-0.5">
       <Button
         variant="ghost"
         size="xs"
