@@ -161,7 +161,8 @@ async function main() {
   await once(server, 'listening');
   const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 
-  const nodeArgs = process.env.BENCH_WORKER_NODE_ARGS ? process.env.BENCH_WORKER_NODE_ARGS.split(' ') : [];
+  // The worker's heap budget, as `npm start -w @plumbline/worker` sets it (docs/operations.md).
+  const nodeArgs = (process.env.BENCH_WORKER_NODE_ARGS ?? '--max-old-space-size=384').split(' ').filter(Boolean);
   const workers = Array.from({ length: WORKERS }, () => {
     const child = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', join(repoRoot, 'apps/worker/src/main.ts')], {
       cwd: repoRoot,

@@ -42,14 +42,17 @@ export function evaluateGroup(
   targets: ReadonlyMap<number, Target>,
 ): Map<number, PointResult> {
   const results = new Map<number, PointResult>();
-  const runOf = (i: number) => buffer.runs[i] ?? `at:${buffer.measuredAt[i]}`;
+  // Each row's run key, computed once (the sort below compares them many times).
+  const runKey = new Map<number, string>();
   const runStart = new Map<string, number>();
   for (const i of indices) {
-    const run = runOf(i);
+    const run = buffer.run(i) ?? `at:${buffer.measuredAt(i)}`;
+    runKey.set(i, run);
     const start = runStart.get(run);
-    if (start === undefined || buffer.measuredAt[i] < start) runStart.set(run, buffer.measuredAt[i]);
+    if (start === undefined || buffer.measuredAt(i) < start) runStart.set(run, buffer.measuredAt(i));
   }
-  const levelOf = (i: number) => buffer.series[buffer.seriesOf[i]].level;
+  const runOf = (i: number) => runKey.get(i)!;
+  const levelOf = (i: number) => buffer.series[buffer.seriesOf(i)].level;
   const evaluated = indices.filter((i) => targets.has(levelOf(i)));
   for (const i of indices) if (!targets.has(levelOf(i))) results.set(i, { z: null, rules: [] });
   if (evaluated.length === 0) return results;
@@ -62,12 +65,12 @@ export function evaluateGroup(
       const sb = runStart.get(rb)!;
       return sa !== sb ? sa - sb : ra < rb ? -1 : 1;
     }
-    return buffer.measuredAt[a] - buffer.measuredAt[b] || levelOf(a) - levelOf(b) || a - b;
+    return buffer.measuredAt(a) - buffer.measuredAt(b) || levelOf(a) - levelOf(b) || a - b;
   });
   const targetRecord: Record<number, { mean: number; sd: number }> = {};
   for (const [level, t] of targets) targetRecord[level] = { mean: t.mean, sd: t.sd };
   const outcome = evaluateMultirule(
-    ordered.map((i) => ({ run: runOf(i), level: levelOf(i), value: buffer.values[i] })),
+    ordered.map((i) => ({ run: runOf(i), level: levelOf(i), value: buffer.value(i) })),
     targetRecord,
   );
   outcome.points.forEach((point, k) => results.set(ordered[k], { z: point.z, rules: [...point.rules] }));
@@ -79,7 +82,7 @@ export function seriesFigures(buffer: ValuesBuffer, indicesBySeries: ReadonlyMap
   const figures = new Map<number, MonthFigures>();
   for (const [seriesIndex, indices] of indicesBySeries) {
     if (indices.length < 2) continue;
-    const s = summarize(indices.map((i) => buffer.values[i]));
+    const s = summarize(indices.map((i) => buffer.value(i)));
     figures.set(seriesIndex, { period: buffer.series[seriesIndex].period.period, n: s.n, mean: s.mean, sd: s.sd });
   }
   return figures;

@@ -72,9 +72,9 @@ export async function storeValues(
 ): Promise<{ replaced: number }> {
   const indicesBySeries = new Map<number, number[]>();
   for (let i = 0; i < buffer.length; i++) {
-    const list = indicesBySeries.get(buffer.seriesOf[i]);
+    const list = indicesBySeries.get(buffer.seriesOf(i));
     if (list) list.push(i);
-    else indicesBySeries.set(buffer.seriesOf[i], [i]);
+    else indicesBySeries.set(buffer.seriesOf(i), [i]);
   }
   const figures = seriesFigures(buffer, indicesBySeries);
   const targets = await multiruleTargets(ctx.tx, buffer, figures);
@@ -118,13 +118,13 @@ export async function storeValues(
     for (const [key, indices] of groups) {
       const results = evaluateGroup(buffer, indices, targets.get(key) ?? new Map());
       for (const i of indices) {
-        const s = buffer.series[buffer.seriesOf[i]];
+        const s = buffer.series[buffer.seriesOf(i)];
         const result = results.get(i);
-        const run = buffer.runs[i];
+        const run = buffer.run(i);
         const comment = buffer.comments.get(i);
         chunk +=
           `${labId}\t${s.procedure.id}\t${s.lot.id}\t${s.level}\t${s.period.period}\t` +
-          `${new Date(buffer.measuredAt[i]).toISOString()}\t${buffer.values[i]}\t` +
+          `${new Date(buffer.measuredAt(i)).toISOString()}\t${buffer.value(i)}\t` +
           `${run === null ? '\\N' : copyText(run)}\t${comment === undefined ? '\\N' : copyText(comment)}\t` +
           `${result?.z === null || result?.z === undefined || !Number.isFinite(result.z) ? '\\N' : result.z}\t` +
           `{${(result?.rules ?? []).join(',')}}\t${uploadId}\n`;

@@ -3,7 +3,7 @@ import request from 'supertest';
 import { inArray } from 'drizzle-orm';
 import { classifyCvr, classifySdi, standing, type Flag } from '@plumbline/stats';
 import { periods, procedures, uploads } from '@plumbline/db';
-import type { LabOverview } from '@plumbline/contracts';
+import { labOverviewSchema, type LabOverview } from '@plumbline/contracts';
 import { createTestApp, type TestApp } from '../../testing/test-app.ts';
 import {
   expectedPeer,
@@ -34,7 +34,7 @@ describe('the lab overview', () => {
   it('when lab A opens it, then it shows March as the current period, submitted, with its flags counted as @plumbline/stats classifies them', async () => {
     const res = await overview();
     expect(res.status).toBe(200);
-    const body = res.body as LabOverview;
+    const body = labOverviewSchema.parse(res.body) as LabOverview;
     expect(body.lab).toEqual({
       id: net.labs.A.id,
       code: net.labs.A.code,

@@ -3,6 +3,7 @@ import request from 'supertest';
 import { eq } from 'drizzle-orm';
 import { auditEvents } from '@plumbline/db';
 import { createQcCatalogue, type QcCatalogue } from '@plumbline/db/testing';
+import { testMenuSchema } from '@plumbline/contracts';
 import { createTestApp, type TestApp } from '../../testing/test-app.ts';
 
 let t: TestApp;
@@ -58,6 +59,7 @@ describe('the test menu', () => {
     const menu = await request(t.app)
       .get(`/api/labs/${labA.id}/test-menu`)
       .set('Authorization', labA.analyst.auth);
+    testMenuSchema.parse(menu.body);
     expect(menu.body.map((p: { code: string }) => p.code)).toEqual(['CREA1', 'GLU1']);
     // The lookups list used for uploads sees it too.
     const lookups = await request(t.app)

@@ -3,6 +3,7 @@ import request from 'supertest';
 import { eq } from 'drizzle-orm';
 import { auditEvents } from '@plumbline/db';
 import { createQcCatalogue, type QcCatalogue } from '@plumbline/db/testing';
+import { commentSchema, signoffSchema } from '@plumbline/contracts';
 import { createTestApp, type TestApp } from '../../testing/test-app.ts';
 
 let t: TestApp;
@@ -59,6 +60,7 @@ describe('comments', () => {
       body: 'Recalibrated after the reagent lot change.',
       author: { id: lab.analyst.id, name: lab.analyst.name },
     });
+    commentSchema.parse(res.body);
     expect(await auditKindsOf(res.body.id)).toEqual(['review-comment.created']);
     const list = await request(t.app)
       .get(`/api/labs/${lab.id}/comments?period=2026-01`)
@@ -176,6 +178,7 @@ describe('sign-off', () => {
       statement: 'All flagged rows reviewed; corrective actions documented.',
       signedBy: { id: lab.supervisor.id, name: lab.supervisor.name },
     });
+    signoffSchema.parse(signed.body);
     expect(await auditKindsOf('2026-02')).toContain('period.signed-off');
 
     const again = await request(t.app)

@@ -10,7 +10,7 @@ import {
   standing,
 } from '@plumbline/stats';
 import { labs as labsTable } from '@plumbline/db';
-import type { Drilldown, PeerReport } from '@plumbline/contracts';
+import { drilldownSchema, peerReportSchema, type Drilldown, type PeerReport } from '@plumbline/contracts';
 import { createTestApp, type TestApp } from '../../testing/test-app.ts';
 import {
   LAB_NAMES,
@@ -44,6 +44,8 @@ async function getReport(query: string, auth = net.labs.A.analyst.auth) {
     .get(`/api/labs/${net.labs.A.id}/peer-report?${query}`)
     .set('Authorization', auth);
   expect(res.status).toBe(200);
+  // The response keeps its contract (packages/contracts/src/peer-report.ts).
+  peerReportSchema.parse(res.body);
   return res.body as PeerReport;
 }
 
@@ -54,6 +56,8 @@ async function getDrilldown(level: number, query: string, analyte: Analyte = 'gl
     )
     .set('Authorization', net.labs.A.analyst.auth);
   expect(res.status).toBe(200);
+  // The response keeps its contract (packages/contracts/src/lab-workspace.ts).
+  drilldownSchema.parse(res.body);
   return res.body as Drilldown;
 }
 

@@ -71,7 +71,7 @@ describe('peer report page', () => {
     await screen.findByRole('table', { name: 'Peer report of November 2026' });
     expect(screen.getByTestId('report-status').textContent).toMatch(/^Published, version 2/);
     expect(within(reportTable()).getByText(/Recalibrated the potassium electrode/)).toBeTruthy();
-    expect(within(reportTable()).getByText('1 comment')).toBeTruthy();
+    expect(within(reportTable()).getByText('1 comment, charts')).toBeTruthy();
   });
 
   it('when the supervisor signs the period, then the statement is sent and the period shows as signed', async () => {

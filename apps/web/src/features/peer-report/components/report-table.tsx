@@ -14,7 +14,7 @@ import {
 } from '@tanstack/react-table';
 import type { PeerReportRow } from '@plumbline/contracts';
 import { formatDate } from '../../../utils/format.ts';
-import { fixed, keyOfRow, peerTierShort, peerTierWords, signed, worstFlag } from '../utils/report-rows.ts';
+import { fixed, keyOfRow, peerTierWords, signed, worstFlag } from '../utils/report-rows.ts';
 import { FlagChips } from './flag-chips.tsx';
 
 /** A summary of a row's corrective-action comments, handed in by the page. */
@@ -40,7 +40,7 @@ function buildColumns(detailHref: (row: PeerReportRow) => string, notes: Readonl
           id: 'procedure',
           header: 'Procedure',
           cell: ({ row: { original: row } }) => (
-            <span className="block min-w-[9rem]">
+            <span className="block w-[10.5rem]">
               <Link
                 to={detailHref(row)}
                 className="font-semibold text-plumb-800 underline decoration-plumb-300 underline-offset-2 hover:text-plumb-950"
@@ -51,6 +51,7 @@ function buildColumns(detailHref: (row: PeerReportRow) => string, notes: Readonl
               <span className="block text-xs text-slate-600">
                 {row.procedure.code} · lot {row.controlLot.lotNumber}
               </span>
+              <span className="block text-xs text-slate-500">in {row.unit}</span>
               {row.late ? <span className="mt-0.5 inline-block rounded bg-brass-100 px-1 text-[0.7rem] font-medium text-brass-700">arrived late</span> : null}
             </span>
           ),
@@ -67,11 +68,7 @@ function buildColumns(detailHref: (row: PeerReportRow) => string, notes: Readonl
           id: 'labMean',
           header: 'Mean',
           meta: { align: 'right' },
-          cell: ({ row: { original: row } }) => (
-            <span className="whitespace-nowrap">
-              {fixed(row.lab.mean, row.decimals + 1)} <span className="text-xs text-slate-500">{row.unit}</span>
-            </span>
-          ),
+          cell: ({ row: { original: row } }) => fixed(row.lab.mean, row.decimals + 1),
         }),
         column.accessor((row) => row.lab.sd, {
           id: 'labSd',
@@ -98,13 +95,12 @@ function buildColumns(detailHref: (row: PeerReportRow) => string, notes: Readonl
           sortUndefined: 'last',
           cell: ({ row: { original: row } }) =>
             row.peer ? (
-              <span className="block min-w-[8rem] text-xs" title={row.peerNote}>
-                <span className="font-medium text-slate-800">{peerTierShort[row.peer.tier]}</span>
-                <span className="text-slate-600">: {peerTierWords[row.peer.tier]}</span>
-                <span className="block text-slate-600">{row.peer.labs} labs</span>
+              <span className="block w-[8.5rem] text-xs leading-snug" title={row.peerNote}>
+                <span className="font-medium text-slate-800">{row.peer.labs} labs</span>
+                <span className="text-slate-600">, {peerTierWords[row.peer.tier]}</span>
               </span>
             ) : (
-              <span className="block max-w-[12rem] text-xs text-slate-600">No peer group: {row.peerNote}</span>
+              <span className="block w-[8.5rem] text-xs leading-snug text-slate-600">No peer group: {row.peerNote}</span>
             ),
         }),
         column.accessor((row) => row.peer?.mean, {
@@ -182,32 +178,24 @@ function buildColumns(detailHref: (row: PeerReportRow) => string, notes: Readonl
       columns: [
         column.accessor((row) => severityRank[worstFlag(row) ?? 'fine'], {
           id: 'flags',
-          header: 'Flags',
-          sortDescFirst: true,
-          cell: ({ row: { original: row } }) => (
-            <span className="block min-w-[8rem]">
-              <FlagChips flags={row.flags} />
-              {row.excluded ? (
-                <span className="mt-1 block text-xs text-slate-600">
-                  Left out of the peer figures ({row.excluded.reason === 'outlier' ? 'an outlier' : 'by the coordinator'}
-                  {row.excluded.note ? `: ${row.excluded.note}` : ''})
-                </span>
-              ) : null}
-            </span>
-          ),
-        }),
-        column.accessor((row) => notes?.get(keyOfRow(row))?.count ?? 0, {
-          id: 'comments',
-          header: 'Comments',
-          meta: { align: 'right' },
+          header: 'Flags and comments',
           sortDescFirst: true,
           cell: ({ row: { original: row } }) => {
             const count = notes?.get(keyOfRow(row))?.count ?? 0;
             return (
-              <Link to={detailHref(row)} className="text-xs font-medium whitespace-nowrap text-plumb-700 hover:text-plumb-900">
-                {count === 0 ? 'Add' : `${count} comment${count === 1 ? '' : 's'}`}
-                <span className="sr-only"> on {row.analyte.name} level {row.level}</span>
-              </Link>
+              <span className="block w-[9rem]">
+                <FlagChips flags={row.flags} />
+                {row.excluded ? (
+                  <span className="mt-1 block text-xs text-slate-600">
+                    Left out of the peer figures ({row.excluded.reason === 'outlier' ? 'an outlier' : 'by the coordinator'}
+                    {row.excluded.note ? `: ${row.excluded.note}` : ''})
+                  </span>
+                ) : null}
+                <Link to={detailHref(row)} className="mt-1 block text-xs font-medium text-plumb-700 underline decoration-plumb-300 underline-offset-2 hover:text-plumb-900">
+                  {count === 0 ? 'Charts and comment' : `${count} comment${count === 1 ? '' : 's'}, charts`}
+                  <span className="sr-only"> for {row.analyte.name} level {row.level}</span>
+                </Link>
+              </span>
             );
           },
         }),
@@ -227,7 +215,7 @@ function HeaderCell({ header }: { header: Header<PeerReportRow, unknown> }) {
       scope={isGroup ? 'colgroup' : 'col'}
       colSpan={header.colSpan}
       aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}
-      className={`border-b border-slate-200 px-2 py-1.5 text-xs font-semibold whitespace-nowrap ${
+      className={`border-b border-slate-200 px-1.5 py-1.5 text-xs font-semibold whitespace-nowrap ${
         isGroup ? 'border-x border-x-white bg-plumb-50 text-center text-plumb-900' : `bg-slate-50 text-slate-600 ${right ? 'text-right' : 'text-left'}`
       }`}
     >
@@ -235,11 +223,14 @@ function HeaderCell({ header }: { header: Header<PeerReportRow, unknown> }) {
         <button
           type="button"
           onClick={header.column.getToggleSortingHandler()}
-          className={`inline-flex items-center gap-1 rounded-sm hover:text-plumb-900 ${right ? 'flex-row-reverse' : ''}`}
+          className={`group inline-flex items-center gap-0.5 rounded-sm hover:text-plumb-900 ${right ? 'flex-row-reverse' : ''}`}
         >
           {content}
-          <span aria-hidden="true" className={`text-[0.65rem] ${sorted ? 'text-plumb-700' : 'text-slate-300'}`}>
-            {sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '▲▼'}
+          <span
+            aria-hidden="true"
+            className={`w-2 text-[0.6rem] ${sorted ? 'text-plumb-700' : 'text-transparent group-hover:text-slate-400 group-focus-visible:text-slate-400'}`}
+          >
+            {sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '▲'}
           </span>
         </button>
       ) : (
@@ -279,7 +270,9 @@ export function ReportTable({
   });
   const leafCount = table.getVisibleLeafColumns().length;
   return (
-    <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white shadow-xs">
+    // The table scrolls inside its box instead of widening the page (contain), and the screen-reader
+    // texts, positioned absolutely, stay inside it too (relative).
+    <div className="relative overflow-x-auto rounded-lg border border-slate-200 bg-white shadow-xs [contain:inline-size]">
       <table className="w-full border-collapse text-sm">
         <caption className="sr-only">{caption}</caption>
         <thead>
@@ -312,7 +305,7 @@ export function ReportTable({
                     {row.getVisibleCells().map((cell) => (
                       <td
                         key={cell.id}
-                        className={`px-2 py-2 align-top ${cell.column.columnDef.meta?.align === 'right' ? 'text-right' : ''}`}
+                        className={`px-1.5 py-2 align-top ${cell.column.columnDef.meta?.align === 'right' ? 'text-right whitespace-nowrap' : ''}`}
                       >
                         {flexRender(cell.column.columnDef.cell, cell.getContext())}
                       </td>

@@ -9,13 +9,6 @@ export const peerTierWords: Record<PeerTier, string> = {
   analyte: 'every procedure for the analyte',
 };
 
-/** A short label for narrow cells; the words above go in its title. */
-export const peerTierShort: Record<PeerTier, string> = {
-  instrument: 'Instrument',
-  method: 'Method',
-  analyte: 'Analyte',
-};
-
 export type Severity = ReportFlag['severity'];
 const order: readonly Severity[] = ['fine', 'acceptable', 'warning', 'action'];
 
