@@ -77,7 +77,9 @@ function random(seed: number) {
 /** One lab's qc-values file: its 25 procedures, two levels, two runs a day for 20 days. */
 function labFile(labIndex: number, lotNumber: string, withHeader: boolean): string {
   const next = random(labIndex + 1);
-  const lines: string[] = withHeader ? ['measured_at,procedure,control_lot,level,value,unit,run,comment'] : [];
+  const lines: string[] = withHeader
+    ? ['measured_at,procedure,control_lot,level,value,unit,run,comment']
+    : [];
   const bias = (next() - 0.5) * 0.04;
   for (let day = 1; day <= DAYS; day++) {
     for (let run = 0; run < RUNS_PER_DAY; run++) {
@@ -106,19 +108,49 @@ async function main() {
   scratch.pool.on('error', () => {}); // dropping the database at the end ends its connections
 
   // Catalogue: invented names; one control lot with two levels.
-  const [material] = await db.insert(controlMaterials).values({ code: 'BENCH-CM', name: 'Bench control material' }).returning();
-  const [lot] = await db.insert(controlLots).values({ materialId: material.id, lotNumber: 'BENCH-LOT-1', levels: LEVELS, expiresOn: '2027-12-31' }).returning();
-  await db.insert(periods).values({ period: PERIOD, state: 'open', deadline: new Date('2026-04-10T23:59:00Z') }).onConflictDoNothing();
+  const [material] = await db
+    .insert(controlMaterials)
+    .values({ code: 'BENCH-CM', name: 'Bench control material' })
+    .returning();
+  const [lot] = await db
+    .insert(controlLots)
+    .values({ materialId: material.id, lotNumber: 'BENCH-LOT-1', levels: LEVELS, expiresOn: '2027-12-31' })
+    .returning();
+  await db
+    .insert(periods)
+    .values({ period: PERIOD, state: 'open', deadline: new Date('2026-04-10T23:59:00Z') })
+    .onConflictDoNothing();
   const analyteRows = await db
     .insert(analytes)
-    .values(Array.from({ length: ANALYTES }, (_, i) => ({ code: `BA${i + 1}`, name: `Bench analyte ${i + 1}`, unit: 'mmol/L', molarMass: 100 + i })))
+    .values(
+      Array.from({ length: ANALYTES }, (_, i) => ({
+        code: `BA${i + 1}`,
+        name: `Bench analyte ${i + 1}`,
+        unit: 'mmol/L',
+        molarMass: 100 + i,
+      })),
+    )
     .returning();
-  const methodRows = await db.insert(methods).values([1, 2, 3].map((i) => ({ code: `BM${i}`, name: `Bench method ${i}` }))).returning();
-  const modelRows = await db.insert(instrumentModels).values([1, 2, 3, 4].map((i) => ({ code: `BI${i}`, name: `Bench analyser ${i}` }))).returning();
-  const reagentRows = await db.insert(reagents).values([1, 2].map((i) => ({ code: `BR${i}`, name: `Bench reagent ${i}` }))).returning();
+  const methodRows = await db
+    .insert(methods)
+    .values([1, 2, 3].map((i) => ({ code: `BM${i}`, name: `Bench method ${i}` })))
+    .returning();
+  const modelRows = await db
+    .insert(instrumentModels)
+    .values([1, 2, 3, 4].map((i) => ({ code: `BI${i}`, name: `Bench analyser ${i}` })))
+    .returning();
+  const reagentRows = await db
+    .insert(reagents)
+    .values([1, 2].map((i) => ({ code: `BR${i}`, name: `Bench reagent ${i}` })))
+    .returning();
   const labRows = await db
     .insert(labs)
-    .values(Array.from({ length: LAB_COUNT }, (_, i) => ({ code: `B${String(i + 1).padStart(4, '0')}`, name: `Bench lab ${i + 1}` })))
+    .values(
+      Array.from({ length: LAB_COUNT }, (_, i) => ({
+        code: `B${String(i + 1).padStart(4, '0')}`,
+        name: `Bench lab ${i + 1}`,
+      })),
+    )
     .returning();
   const procedureValues = labRows.flatMap((lab, l) =>
     analyteRows.map((analyte, a) => ({
@@ -131,9 +163,19 @@ async function main() {
       unit: 'mmol/L',
     })),
   );
-  for (let i = 0; i < procedureValues.length; i += 2000) await db.insert(procedures).values(procedureValues.slice(i, i + 2000));
+  for (let i = 0; i < procedureValues.length; i += 2000)
+    await db.insert(procedures).values(procedureValues.slice(i, i + 2000));
   const tokens = labRows.map(() => newLabToken());
-  await db.insert(labApiTokens).values(labRows.map((lab, i) => ({ labId: lab.id, name: 'bench', prefix: tokens[i].prefix, tokenHash: tokens[i].tokenHash })));
+  await db
+    .insert(labApiTokens)
+    .values(
+      labRows.map((lab, i) => ({
+        labId: lab.id,
+        name: 'bench',
+        prefix: tokens[i].prefix,
+        tokenHash: tokens[i].tokenHash,
+      })),
+    );
 
   // The same rows as one file, for the COPY baseline.
   const combinedPath = join(storageDir, 'combined.csv');
@@ -144,7 +186,9 @@ async function main() {
   combined.end();
   await once(combined, 'finish');
   const totalRows = LAB_COUNT * ROWS_PER_LAB;
-  log(`generated ${totalRows.toLocaleString('en')} rows (${(statSync(combinedPath).size / 1e6).toFixed(1)} MB as one file)`);
+  log(
+    `generated ${totalRows.toLocaleString('en')} rows (${(statSync(combinedPath).size / 1e6).toFixed(1)} MB as one file)`,
+  );
 
   // The API in this process, the worker as its own process (its memory is measured alone).
   const env = loadEnv({
@@ -162,22 +206,28 @@ async function main() {
   const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 
   // The worker's heap budget, as `npm start -w @plumbline/worker` sets it (docs/operations.md).
-  const nodeArgs = (process.env.BENCH_WORKER_NODE_ARGS ?? '--max-old-space-size=384').split(' ').filter(Boolean);
+  const nodeArgs = (process.env.BENCH_WORKER_NODE_ARGS ?? '--max-old-space-size=384')
+    .split(' ')
+    .filter(Boolean);
   const workers = Array.from({ length: WORKERS }, () => {
-    const child = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', join(repoRoot, 'apps/worker/src/main.ts')], {
-      cwd: repoRoot,
-      env: {
-        ...process.env,
-        NODE_ENV: 'production',
-        DATABASE_URL: scratch.url,
-        REDIS_URL,
-        QUEUE_PREFIX: queuePrefix,
-        STORAGE_DIR: env.STORAGE_DIR,
-        S3_BUCKET: '',
-        INGEST_CONCURRENCY: String(CONCURRENCY),
+    const child = spawn(
+      process.execPath,
+      [...nodeArgs, '--import', 'tsx', join(repoRoot, 'apps/worker/src/main.ts')],
+      {
+        cwd: repoRoot,
+        env: {
+          ...process.env,
+          NODE_ENV: 'production',
+          DATABASE_URL: scratch.url,
+          REDIS_URL,
+          QUEUE_PREFIX: queuePrefix,
+          STORAGE_DIR: env.STORAGE_DIR,
+          S3_BUCKET: '',
+          INGEST_CONCURRENCY: String(CONCURRENCY),
+        },
+        stdio: ['ignore', 'pipe', 'inherit'],
       },
-      stdio: ['ignore', 'pipe', 'inherit'],
-    });
+    );
     const state = { child, output: '' };
     child.stdout!.on('data', (d: Buffer) => {
       state.output += d.toString();
@@ -206,7 +256,11 @@ async function main() {
       const form = new FormData();
       form.set('kind', 'qc-values');
       form.set('file', new Blob([labFile(l, lot.lotNumber, true)], { type: 'text/csv' }), `lab-${l + 1}.csv`);
-      const res = await fetch(`${baseUrl}/api/uploads`, { method: 'POST', headers: { Authorization: `Bearer ${tokens[l].token}` }, body: form });
+      const res = await fetch(`${baseUrl}/api/uploads`, {
+        method: 'POST',
+        headers: { Authorization: `Bearer ${tokens[l].token}` },
+        body: form,
+      });
       if (res.status !== 202) throw new Error(`upload ${l} answered ${res.status}: ${await res.text()}`);
       await res.arrayBuffer();
     }
@@ -216,7 +270,11 @@ async function main() {
     const form = new FormData();
     form.set('kind', 'qc-values');
     form.set('file', new Blob([readFileSync(combinedPath)], { type: 'text/csv' }), 'one-lab.csv');
-    const res = await fetch(`${baseUrl}/api/uploads`, { method: 'POST', headers: { Authorization: `Bearer ${tokens[0].token}` }, body: form });
+    const res = await fetch(`${baseUrl}/api/uploads`, {
+      method: 'POST',
+      headers: { Authorization: `Bearer ${tokens[0].token}` },
+      body: form,
+    });
     if (res.status !== 202) throw new Error(`upload answered ${res.status}: ${await res.text()}`);
   } else {
     await Promise.all(Array.from({ length: UPLOADS_IN_FLIGHT }, uploader));
@@ -239,28 +297,41 @@ async function main() {
   }
   const finished = performance.now();
   const cpuSeconds = workers.map((w) => {
-    const [utime, stime] = readFileSync(`/proc/${w.child.pid}/stat`, 'utf8').split(') ')[1].split(' ').slice(11, 13).map(Number);
+    const [utime, stime] = readFileSync(`/proc/${w.child.pid}/stat`, 'utf8')
+      .split(') ')[1]
+      .split(' ')
+      .slice(11, 13)
+      .map(Number);
     return (utime + stime) / 100;
   });
   const peakRssKb = Math.max(
-    ...workers.map((w) => Number(/VmHWM:\s+(\d+)/.exec(readFileSync(`/proc/${w.child.pid}/status`, 'utf8'))?.[1] ?? NaN)),
+    ...workers.map((w) =>
+      Number(/VmHWM:\s+(\d+)/.exec(readFileSync(`/proc/${w.child.pid}/status`, 'utf8'))?.[1] ?? NaN),
+    ),
   );
 
   const check = await db.execute<{ values: number; summaries: number; statistics: number }>(sql`
     select (select count(*)::int from qc_values) as "values", (select count(*)::int from qc_summaries) as summaries,
            (select count(*)::int from peer_statistics) as statistics`);
   const counts = check.rows[0];
-  if (counts.values !== totalRows) throw new Error(`expected ${totalRows} stored values, found ${counts.values}`);
+  if (counts.values !== totalRows)
+    throw new Error(`expected ${totalRows} stored values, found ${counts.values}`);
 
   // Baseline: COPY of the same rows into a plain table, in the same run.
-  await scratch.pool.query(`create table bench_copy (measured_at timestamptz, procedure text, control_lot text, level int,
+  await scratch.pool
+    .query(`create table bench_copy (measured_at timestamptz, procedure text, control_lot text, level int,
     value double precision, unit text, run text, comment text)`);
   const client = await scratch.pool.connect();
   const copyStarted = performance.now();
-  await pipeline(createReadStream(combinedPath), client.query(copyStreams.from('COPY bench_copy FROM STDIN WITH (FORMAT csv, HEADER true)')));
+  await pipeline(
+    createReadStream(combinedPath),
+    client.query(copyStreams.from('COPY bench_copy FROM STDIN WITH (FORMAT csv, HEADER true)')),
+  );
   const copyMs = performance.now() - copyStarted;
   client.release();
-  const [{ n: copied }] = (await scratch.pool.query<{ n: number }>('select count(*)::int as n from bench_copy')).rows;
+  const [{ n: copied }] = (
+    await scratch.pool.query<{ n: number }>('select count(*)::int as n from bench_copy')
+  ).rows;
   if (copied !== totalRows) throw new Error(`COPY loaded ${copied} rows, expected ${totalRows}`);
 
   const pipelineMs = finished - started;
@@ -270,11 +341,17 @@ async function main() {
   );
   console.log(`  uploads accepted (HTTP 202)        ${seconds(uploadedAt - started)}`);
   console.log(`  every upload stored                ${seconds(storedAt - started)}`);
-  console.log(`  peer statistics recomputed         ${seconds(pipelineMs)}  (${counts.summaries.toLocaleString('en')} monthly summaries, ${counts.statistics.toLocaleString('en')} peer statistic rows)`);
+  console.log(
+    `  peer statistics recomputed         ${seconds(pipelineMs)}  (${counts.summaries.toLocaleString('en')} monthly summaries, ${counts.statistics.toLocaleString('en')} peer statistic rows)`,
+  );
   console.log(`  PostgreSQL COPY, same rows         ${seconds(copyMs)}`);
   console.log(`  ratio pipeline / COPY              ${(pipelineMs / copyMs).toFixed(2)}  (target ≤ 2.0)`);
-  console.log(`  worker peak RSS                    ${(peakRssKb / 1024).toFixed(0)} MB  (target ≤ 512 MB; the largest of ${WORKERS} process(es))`);
-  console.log(`  worker CPU time                    ${cpuSeconds.map((c) => `${c.toFixed(1)} s`).join(' + ')}`);
+  console.log(
+    `  worker peak RSS                    ${(peakRssKb / 1024).toFixed(0)} MB  (target ≤ 512 MB; the largest of ${WORKERS} process(es))`,
+  );
+  console.log(
+    `  worker CPU time                    ${cpuSeconds.map((c) => `${c.toFixed(1)} s`).join(' + ')}`,
+  );
   console.log('');
 
   for (const w of workers) {
@@ -283,6 +360,12 @@ async function main() {
   }
   server.close();
   await ingestQueue.close();
+  let cursor = '0';
+  do {
+    const [next, keys] = await redis.scan(cursor, 'MATCH', `${queuePrefix}:*`, 'COUNT', 500);
+    if (keys.length) await redis.del(...keys);
+    cursor = next;
+  } while (cursor !== '0');
   redis.disconnect();
   rmSync(storageDir, { recursive: true, force: true });
   if (args.has('keep')) log(`scratch database kept: ${scratch.url}`);

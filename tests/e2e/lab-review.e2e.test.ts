@@ -10,7 +10,14 @@ import { join } from 'node:path';
 import { and, eq } from 'drizzle-orm';
 import type { Page } from 'playwright-core';
 import { seedDemoNetwork, demoAccounts, demoScenarios } from '@plumbline/db/seed';
-import { controlLots, labs, procedures, qcSummaries, qcValues, recomputeAllPeerStatistics } from '@plumbline/db';
+import {
+  controlLots,
+  labs,
+  procedures,
+  qcSummaries,
+  qcValues,
+  recomputeAllPeerStatistics,
+} from '@plumbline/db';
 import type { Database } from '@plumbline/db';
 import { startServer } from '../helpers/server.ts';
 import { chromiumAvailable, launchBrowser, snap } from '../helpers/browser.ts';
@@ -21,8 +28,10 @@ const analyst = demoAccounts.find((a) => a.role === 'analyst' && a.labCode === l
 const supervisor = demoAccounts.find((a) => a.role === 'supervisor' && a.labCode === labCode)!;
 const PERIOD = '2026-11';
 const LOT = 'PGC-26187';
-const COMMENT = 'Potassium reads high at both levels: electrode recalibrated on 14 November, controls repeated within 1 SD.';
-const STATEMENT = 'November reviewed. The potassium bias was investigated and corrected; no patient results affected.';
+const COMMENT =
+  'Potassium reads high at both levels: electrode recalibrated on 14 November, controls repeated within 1 SD.';
+const STATEMENT =
+  'November reviewed. The potassium bias was investigated and corrected; no patient results affected.';
 
 /**
  * The demo network has PL-022's November potassium as a monthly summary only. Its analyser middleware
@@ -31,7 +40,13 @@ const STATEMENT = 'November reviewed. The potassium bias was investigated and co
  */
 async function addDailyValues(db: Database) {
   const [row] = await db
-    .select({ labId: labs.id, procedureId: procedures.id, controlLotId: controlLots.id, mean: qcSummaries.mean, sd: qcSummaries.sd })
+    .select({
+      labId: labs.id,
+      procedureId: procedures.id,
+      controlLotId: controlLots.id,
+      mean: qcSummaries.mean,
+      sd: qcSummaries.sd,
+    })
     .from(qcSummaries)
     .innerJoin(labs, eq(labs.id, qcSummaries.labId))
     .innerJoin(procedures, eq(procedures.id, qcSummaries.procedureId))
@@ -45,7 +60,10 @@ async function addDailyValues(db: Database) {
         eq(qcSummaries.level, 1),
       ),
     );
-  const offsets = [0.3, -0.5, 0.8, -0.2, 0.1, -0.9, 0.4, 0.6, -0.3, 0.2, -0.6, 3.8, -0.4, 0.5, -0.1, 0.7, -0.8, 0.2, 1.1, -0.5];
+  const offsets = [
+    0.3, -0.5, 0.8, -0.2, 0.1, -0.9, 0.4, 0.6, -0.3, 0.2, -0.6, 3.8, -0.4, 0.5, -0.1, 0.7, -0.8, 0.2, 1.1,
+    -0.5,
+  ];
   await db.insert(qcValues).values(
     offsets.map((z, index) => ({
       labId: row.labId,
@@ -90,7 +108,8 @@ async function openReport(page: Page) {
   await page.getByRole('table', { name: 'Peer report of November 2026' }).waitFor();
 }
 
-const reportRows = (page: Page) => page.getByRole('table', { name: 'Peer report of November 2026' }).locator('tr[data-row-key]');
+const reportRows = (page: Page) =>
+  page.getByRole('table', { name: 'Peer report of November 2026' }).locator('tr[data-row-key]');
 
 describe.skipIf(!chromiumAvailable())('reviewing the month through the browser', () => {
   it('when the scientist reviews the flagged result and the supervisor signs the month off, then the comment, sign-off and PDF follow', async () => {
@@ -99,7 +118,10 @@ describe.skipIf(!chromiumAvailable())('reviewing the month through the browser',
     try {
       const { page } = scientist;
       await signIn(page, analyst.email);
-      await page.getByRole('region', { name: 'Needs attention' }).getByText(/action flag/).waitFor();
+      await page
+        .getByRole('region', { name: 'Needs attention' })
+        .getByText(/action flag/)
+        .waitFor();
       await snap(page, 'lab-overview');
 
       await openReport(page);
@@ -107,16 +129,33 @@ describe.skipIf(!chromiumAvailable())('reviewing the month through the browser',
       const allRows = await reportRows(page).count();
       expect(allRows).toBeGreaterThan(10);
 
+      // The table as CSV: a header and one line per result.
+      const [csv] = await Promise.all([
+        page.waitForEvent('download'),
+        page.getByRole('button', { name: 'Report CSV' }).click(),
+      ]);
+      expect(csv.suggestedFilename()).toMatch(/\.csv$/);
+      const csvFile = join(downloadDir, csv.suggestedFilename());
+      await csv.saveAs(csvFile);
+      const csvLines = readFileSync(csvFile, 'utf8').trim().split(/\r?\n/);
+      expect(csvLines.length).toBe(allRows + 1);
+      expect(csvLines.some((line) => line.includes(`${analyteCode}-CHEM2`))).toBe(true);
+
       await page.getByLabel('Flagged rows only (warning or action)').check();
       await expect.poll(() => reportRows(page).count()).toBeLessThan(allRows);
       const flagged = reportRows(page);
-      const severities = await flagged.evaluateAll((rows) => rows.map((row) => row.getAttribute('data-severity')));
+      const severities = await flagged.evaluateAll((rows) =>
+        rows.map((row) => row.getAttribute('data-severity')),
+      );
       expect(severities.length).toBeGreaterThan(0);
       expect(severities.every((s) => s === 'warning' || s === 'action')).toBe(true);
       await snap(page, 'lab-report-flagged');
 
       // The biased potassium level 1 is among them; open it.
-      const potassium = flagged.filter({ hasText: 'Potassium' }).filter({ has: page.getByRole('cell', { name: '1', exact: true }) }).first();
+      const potassium = flagged
+        .filter({ hasText: 'Potassium' })
+        .filter({ has: page.getByRole('cell', { name: '1', exact: true }) })
+        .first();
       await potassium.getByRole('link', { name: /^Potassium, .* level 1: open the charts$/ }).click();
       await page.getByRole('heading', { name: 'Potassium, level 1', level: 1 }).waitFor();
 
@@ -128,14 +167,18 @@ describe.skipIf(!chromiumAvailable())('reviewing the month through the browser',
       // The two-level plot with this lab marked, and only this lab.
       const twoLevel = page.getByTestId('two-level-sdi-plot');
       expect(await twoLevel.locator('[data-own-lab="true"]').count()).toBe(1);
-      expect(Number(await twoLevel.locator('[data-own-lab="true"]').getAttribute('data-sdi-x'))).toBeGreaterThan(3);
+      expect(
+        Number(await twoLevel.locator('[data-own-lab="true"]').getAttribute('data-sdi-x')),
+      ).toBeGreaterThan(3);
       // The control chart with the twelfth run's 1-3s marked on its point.
       const chart = page.getByTestId('levey-jennings-level-1');
       expect(await chart.locator('[data-value]').count()).toBe(20);
       const rejected = chart.locator('[data-rule-label]');
       expect(await rejected.count()).toBeGreaterThanOrEqual(1);
       expect(await rejected.first().textContent()).toContain('1-3s');
-      expect(await chart.locator('[data-rules~="1-3s"]').getAttribute('aria-label')).toContain('run 2026-11-12-R1');
+      expect(await chart.locator('[data-rules~="1-3s"]').getAttribute('aria-label')).toContain(
+        'run 2026-11-12-R1',
+      );
       // Keyboard: the chart's points are reachable and read out.
       await chart.locator('[data-value][tabindex="0"]').focus();
       await page.keyboard.press('End');
@@ -171,7 +214,7 @@ describe.skipIf(!chromiumAvailable())('reviewing the month through the browser',
 
       const [download] = await Promise.all([
         page.waitForEvent('download'),
-        page.getByRole('button', { name: 'Download PDF report' }).click(),
+        page.getByRole('button', { name: 'Monthly report (PDF)' }).click(),
       ]);
       expect(download.suggestedFilename()).toMatch(/\.pdf$/);
       expect(download.suggestedFilename()).toContain(PERIOD);

@@ -31,7 +31,9 @@ const ingest = startIngestWorker(
 );
 
 const recovered = await ingest.recover();
-log(`ready (queue prefix ${env.QUEUE_PREFIX}, concurrency ${env.INGEST_CONCURRENCY}; ${recovered} upload(s) re-enqueued)`);
+log(
+  `ready (queue prefix ${env.QUEUE_PREFIX}, concurrency ${env.INGEST_CONCURRENCY}; ${recovered} upload(s) re-enqueued)`,
+);
 
 let stopping = false;
 async function shutdown(signal: string) {

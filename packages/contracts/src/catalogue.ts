@@ -2,7 +2,12 @@ import { z } from 'zod';
 import { periodKeySchema, uuidSchema } from './common.ts';
 
 /** GET /api/labs */
-export const labListItemSchema = z.object({ id: uuidSchema, code: z.string(), name: z.string(), active: z.boolean() });
+export const labListItemSchema = z.object({
+  id: uuidSchema,
+  code: z.string(),
+  name: z.string(),
+  active: z.boolean(),
+});
 export const labListSchema = z.array(labListItemSchema);
 export type LabListItem = z.infer<typeof labListItemSchema>;
 

@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { detectDecimalComma, detectDelimiter, parseCsvStart, stripBom, suggestMapping } from './csv-format.ts';
+import {
+  detectDecimalComma,
+  detectDelimiter,
+  parseCsvStart,
+  stripBom,
+  suggestMapping,
+} from './csv-format.ts';
 
 describe('detectDelimiter', () => {
   it('when a header line is given, then the most frequent delimiter outside quotes wins', () => {
@@ -27,7 +33,9 @@ describe('stripBom and detectDecimalComma', () => {
 
 describe('parseCsvStart', () => {
   it('when fields are quoted, then delimiters, quotes and line breaks inside them are kept', () => {
-    expect(parseCsvStart('a,b\r\n"x, y","say ""hi"""\n"two\nlines",3\n', ',', { maxRows: 10, complete: true })).toEqual([
+    expect(
+      parseCsvStart('a,b\r\n"x, y","say ""hi"""\n"two\nlines",3\n', ',', { maxRows: 10, complete: true }),
+    ).toEqual([
       ['a', 'b'],
       ['x, y', 'say "hi"'],
       ['two\nlines', '3'],
@@ -45,7 +53,16 @@ describe('parseCsvStart', () => {
 
 describe('suggestMapping', () => {
   it('when headers use the canonical names in another style, then they are matched', () => {
-    const suggestion = suggestMapping('qc-summary', ['Period', 'Procedure', 'Control Lot', 'Level', 'N', 'Mean', 'SD', 'Unit']);
+    const suggestion = suggestMapping('qc-summary', [
+      'Period',
+      'Procedure',
+      'Control Lot',
+      'Level',
+      'N',
+      'Mean',
+      'SD',
+      'Unit',
+    ]);
     expect(suggestion.source).toBe('detected');
     expect(suggestion.missing).toEqual([]);
     expect(suggestion.mapping.control_lot).toBe('Control Lot');
@@ -53,17 +70,34 @@ describe('suggestMapping', () => {
 
   it('when headers are common synonyms, then they are matched and the unmatched required ones listed', () => {
     const suggestion = suggestMapping('qc-values', ['Date', 'Test', 'Lot', 'Result', 'Units']);
-    expect(suggestion.mapping).toMatchObject({ measured_at: 'Date', procedure: 'Test', control_lot: 'Lot', value: 'Result', unit: 'Units', run: null });
+    expect(suggestion.mapping).toMatchObject({
+      measured_at: 'Date',
+      procedure: 'Test',
+      control_lot: 'Lot',
+      value: 'Result',
+      unit: 'Units',
+      run: null,
+    });
     expect(suggestion.missing).toEqual(['level']);
   });
 
   it('when the saved mapping fits the headers, then it is used; when it does not, detection takes over', () => {
     const headers = ['Monat', 'Verfahren', 'Charge', 'Stufe', 'Anzahl', 'Mittel', 'Streuung', 'Einheit'];
     const saved = {
-      period: 'Monat', procedure: 'Verfahren', control_lot: 'Charge', level: 'Stufe',
-      n: 'Anzahl', mean: 'Mittel', sd: 'Streuung', unit: 'Einheit',
+      period: 'Monat',
+      procedure: 'Verfahren',
+      control_lot: 'Charge',
+      level: 'Stufe',
+      n: 'Anzahl',
+      mean: 'Mittel',
+      sd: 'Streuung',
+      unit: 'Einheit',
     };
-    expect(suggestMapping('qc-summary', headers, saved)).toMatchObject({ source: 'saved', missing: [], mapping: saved });
+    expect(suggestMapping('qc-summary', headers, saved)).toMatchObject({
+      source: 'saved',
+      missing: [],
+      mapping: saved,
+    });
     const other = suggestMapping('qc-summary', ['period', 'procedure'], saved);
     expect(other.source).toBe('detected');
     expect(other.missing).toEqual(['control_lot', 'level', 'n', 'mean', 'sd', 'unit']);

@@ -75,7 +75,11 @@ export type MappingSuggestion = {
  * Which header to read each canonical column from: the lab's saved mapping when every header it names
  * is in this file, otherwise matching header names (exact canonical name first, then common synonyms).
  */
-export function suggestMapping(kind: UploadKind, headers: readonly string[], saved?: ColumnMapping | null): MappingSuggestion {
+export function suggestMapping(
+  kind: UploadKind,
+  headers: readonly string[],
+  saved?: ColumnMapping | null,
+): MappingSuggestion {
   const columns = canonicalColumns[kind];
   const present = new Set(headers);
   if (saved && Object.keys(saved).length > 0 && Object.values(saved).every((h) => present.has(h))) {
@@ -104,7 +108,8 @@ function fillFromHeaders(
   for (const pass of ['exact', 'synonym'] as const) {
     for (const column of canonicalColumns[kind]) {
       if (mapping[column.name]) continue;
-      const candidates = pass === 'exact' ? [normalizeHeader(column.name)] : (headerSynonyms[column.name] ?? []);
+      const candidates =
+        pass === 'exact' ? [normalizeHeader(column.name)] : (headerSynonyms[column.name] ?? []);
       for (const candidate of candidates) {
         const header = byNormalized.get(candidate);
         if (header && !taken.has(header)) {
@@ -172,6 +177,7 @@ export function parseCsvStart(
     i += 1;
   }
   // The text ended inside a row: keep it only when the text is the whole file.
-  if (rows.length < options.maxRows && (cell !== '' || row.length > 0) && options.complete && !quoted) endRow();
+  if (rows.length < options.maxRows && (cell !== '' || row.length > 0) && options.complete && !quoted)
+    endRow();
   return rows;
 }

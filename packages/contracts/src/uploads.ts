@@ -10,7 +10,14 @@ export type UploadKind = z.infer<typeof uploadKindSchema>;
  * Life of an upload: queued → processing → stored; a file with rejected rows stops at needs-review until
  * the user confirms (store the valid rows) or cancels; a file that cannot be read at all ends failed.
  */
-export const uploadStatuses = ['queued', 'processing', 'needs-review', 'stored', 'failed', 'cancelled'] as const;
+export const uploadStatuses = [
+  'queued',
+  'processing',
+  'needs-review',
+  'stored',
+  'failed',
+  'cancelled',
+] as const;
 export const uploadStatusSchema = z.enum(uploadStatuses);
 export type UploadStatus = z.infer<typeof uploadStatusSchema>;
 
@@ -20,7 +27,11 @@ export type CanonicalColumn = { name: string; required: boolean; description: st
 export const canonicalColumns: Record<UploadKind, readonly CanonicalColumn[]> = {
   'qc-summary': [
     { name: 'period', required: true, description: 'month of the data, YYYY-MM' },
-    { name: 'procedure', required: true, description: "the lab's code of a registered measurement procedure" },
+    {
+      name: 'procedure',
+      required: true,
+      description: "the lab's code of a registered measurement procedure",
+    },
     { name: 'control_lot', required: true, description: 'control lot number' },
     { name: 'level', required: true, description: 'control level, a whole number' },
     { name: 'n', required: true, description: 'number of values, at least 2' },
@@ -29,8 +40,16 @@ export const canonicalColumns: Record<UploadKind, readonly CanonicalColumn[]> = 
     { name: 'unit', required: true, description: 'UCUM unit of mean and sd' },
   ],
   'qc-values': [
-    { name: 'measured_at', required: true, description: 'date and time, ISO 8601 (YYYY-MM-DD or YYYY-MM-DDThh:mm[:ss][zone])' },
-    { name: 'procedure', required: true, description: "the lab's code of a registered measurement procedure" },
+    {
+      name: 'measured_at',
+      required: true,
+      description: 'date and time, ISO 8601 (YYYY-MM-DD or YYYY-MM-DDThh:mm[:ss][zone])',
+    },
+    {
+      name: 'procedure',
+      required: true,
+      description: "the lab's code of a registered measurement procedure",
+    },
     { name: 'control_lot', required: true, description: 'control lot number' },
     { name: 'level', required: true, description: 'control level, a whole number' },
     { name: 'value', required: true, description: 'the measured value' },
@@ -89,10 +108,13 @@ export function columnMappingProblems(kind: UploadKind, mapping: ColumnMapping):
   const used = new Map<string, string>();
   for (const [canonical, header] of Object.entries(mapping)) {
     if (!known.has(canonical)) {
-      problems.push(`'${canonical}' is not a column of a ${kind} file (expected one of ${[...known].join(', ')})`);
+      problems.push(
+        `'${canonical}' is not a column of a ${kind} file (expected one of ${[...known].join(', ')})`,
+      );
     }
     const earlier = used.get(header);
-    if (earlier) problems.push(`the file column '${header}' is mapped to both '${earlier}' and '${canonical}'`);
+    if (earlier)
+      problems.push(`the file column '${header}' is mapped to both '${earlier}' and '${canonical}'`);
     used.set(header, canonical);
   }
   return problems;

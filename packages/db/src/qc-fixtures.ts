@@ -97,7 +97,10 @@ export async function createQcCatalogue(db: Database) {
     }[],
     labCode = `L-${randomBytes(3).toString('hex')}`,
   ) {
-    const [lab] = await db.insert(labs).values({ code: labCode, name: `Test lab ${labCode}` }).returning();
+    const [lab] = await db
+      .insert(labs)
+      .values({ code: labCode, name: `Test lab ${labCode}` })
+      .returning();
     const created = [];
     for (const spec of specs) {
       const analyte = spec.analyte ?? glucose;

@@ -24,7 +24,10 @@ export async function readMultipart<T>(
 ): Promise<MultipartBody<T>> {
   const contentType = req.headers['content-type'] ?? '';
   if (!/^multipart\/form-data/i.test(contentType)) {
-    throw new AppError('unsupported_media_type', 'Send the file as multipart/form-data with the file in the "file" field.');
+    throw new AppError(
+      'unsupported_media_type',
+      'Send the file as multipart/form-data with the file in the "file" field.',
+    );
   }
   const declared = Number(req.headers['content-length'] ?? NaN);
   // Multipart framing adds a little to the file; far beyond the limit we need not read the body at all.
@@ -76,7 +79,8 @@ export async function readMultipart<T>(
     });
     parser.on('close', () => {
       if (extraFile) {
-        const cleanup = filePromise && options.discard ? filePromise.then((f) => options.discard!(f.result)) : null;
+        const cleanup =
+          filePromise && options.discard ? filePromise.then((f) => options.discard!(f.result)) : null;
         Promise.resolve(cleanup)
           .catch(() => {})
           .then(() => reject(badRequest(`Send exactly one file, in the "${options.fileField}" field.`)));

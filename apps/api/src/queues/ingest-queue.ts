@@ -12,26 +12,30 @@ export function createIngestQueue(connection: Redis, prefix: string): IngestQueu
   const queue = new Queue<IngestJob>(INGEST_QUEUE_NAME, { connection, prefix });
   return {
     async enqueue(uploadId, phase) {
-      const adding: Promise<unknown> = queue.add(
-        'ingest',
-        { uploadId },
-        {
-          jobId: ingestJobId(uploadId, phase),
-          attempts: 3,
-          backoff: { type: 'exponential', delay: 2000 },
-          removeOnComplete: true,
-          removeOnFail: true,
-        },
-      ).then(
-        () => 'added',
-        (error: unknown) => error,
-      );
+      const adding: Promise<unknown> = queue
+        .add(
+          'ingest',
+          { uploadId },
+          {
+            jobId: ingestJobId(uploadId, phase),
+            attempts: 3,
+            backoff: { type: 'exponential', delay: 2000 },
+            removeOnComplete: true,
+            removeOnFail: true,
+          },
+        )
+        .then(
+          () => 'added',
+          (error: unknown) => error,
+        );
       // With Redis away the add would wait for it; the upload row stays 'queued' and the worker's
       // recovery sweep enqueues it later, so the request need not wait.
       const timeout = new Promise<'timeout'>((resolve) => setTimeout(() => resolve('timeout'), 3000).unref());
       const outcome = await Promise.race([adding, timeout]);
       if (outcome !== 'added') {
-        console.warn(`api: could not enqueue upload ${uploadId} now (${String(outcome)}); the worker will pick it up`);
+        console.warn(
+          `api: could not enqueue upload ${uploadId} now (${String(outcome)}); the worker will pick it up`,
+        );
       }
     },
     async close() {

@@ -7,7 +7,12 @@ import type { AddressInfo } from 'node:net';
  * uses (path-style PutObject, GetObject, DeleteObject and multipart uploads). It checks no signatures.
  * It stands in for an S3-compatible store in tests; it is not a general S3 emulator.
  */
-export type FakeS3 = { endpoint: string; objects: Map<string, Buffer>; requests: string[]; close: () => Promise<void> };
+export type FakeS3 = {
+  endpoint: string;
+  objects: Map<string, Buffer>;
+  requests: string[];
+  close: () => Promise<void>;
+};
 
 export async function startFakeS3(bucket: string): Promise<FakeS3> {
   const objects = new Map<string, Buffer>();
@@ -41,8 +46,19 @@ export async function startFakeS3(bucket: string): Promise<FakeS3> {
           return;
         case 'GETObject': {
           const object = objects.get(key);
-          if (!object) return xml(res, 404, '<Error><Code>NoSuchKey</Code><Message>The specified key does not exist.</Message></Error>');
-          res.writeHead(200, { 'Content-Length': object.length, ETag: etag(object), 'Content-Type': 'application/octet-stream' }).end(object);
+          if (!object)
+            return xml(
+              res,
+              404,
+              '<Error><Code>NoSuchKey</Code><Message>The specified key does not exist.</Message></Error>',
+            );
+          res
+            .writeHead(200, {
+              'Content-Length': object.length,
+              ETag: etag(object),
+              'Content-Type': 'application/octet-stream',
+            })
+            .end(object);
           return;
         }
         case 'DELETEObject':
@@ -69,7 +85,9 @@ export async function startFakeS3(bucket: string): Promise<FakeS3> {
           const uploadId = query.get('uploadId') ?? '';
           const upload = uploads.get(uploadId);
           if (!upload) return xml(res, 404, '<Error><Code>NoSuchUpload</Code></Error>');
-          const numbers = [...body.toString('utf8').matchAll(/<PartNumber>(\d+)<\/PartNumber>/g)].map((m) => Number(m[1]));
+          const numbers = [...body.toString('utf8').matchAll(/<PartNumber>(\d+)<\/PartNumber>/g)].map((m) =>
+            Number(m[1]),
+          );
           const whole = Buffer.concat(numbers.map((n) => upload.parts.get(n) ?? Buffer.alloc(0)));
           objects.set(upload.key, whole);
           uploads.delete(uploadId);
@@ -101,7 +119,9 @@ export async function startFakeS3(bucket: string): Promise<FakeS3> {
 }
 
 function xml(res: import('node:http').ServerResponse, status: number, body: string) {
-  res.writeHead(status, { 'Content-Type': 'application/xml' }).end(`<?xml version="1.0" encoding="UTF-8"?>${body}`);
+  res
+    .writeHead(status, { 'Content-Type': 'application/xml' })
+    .end(`<?xml version="1.0" encoding="UTF-8"?>${body}`);
 }
 
 const etag = (body: Buffer) => `"${createHash('md5').update(body).digest('hex')}"`;

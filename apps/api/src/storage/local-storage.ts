@@ -19,7 +19,8 @@ export class LocalFileStorage implements FileStorage {
   private pathOf(key: string): string {
     const path = resolve(join(this.root, key));
     // Keys are made by the service, but a key must never reach outside the storage directory.
-    if (!path.startsWith(this.root + sep)) throw new Error(`storage key outside the storage directory: ${key}`);
+    if (!path.startsWith(this.root + sep))
+      throw new Error(`storage key outside the storage directory: ${key}`);
     return path;
   }
 

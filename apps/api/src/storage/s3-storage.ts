@@ -45,7 +45,10 @@ export class S3FileStorage implements FileStorage {
   readonly kind = 's3' as const;
   private readonly client: S3Client;
 
-  constructor(private readonly config: S3StorageConfig, client?: S3Client) {
+  constructor(
+    private readonly config: S3StorageConfig,
+    client?: S3Client,
+  ) {
     this.client = client ?? createS3Client(config);
   }
 
@@ -67,7 +70,13 @@ export class S3FileStorage implements FileStorage {
       }
       const PartNumber = parts.length + 1;
       const result = await this.client.send(
-        new UploadPartCommand({ Bucket, Key: key, UploadId: uploadId, PartNumber, Body: Buffer.concat(pending) }),
+        new UploadPartCommand({
+          Bucket,
+          Key: key,
+          UploadId: uploadId,
+          PartNumber,
+          Body: Buffer.concat(pending),
+        }),
       );
       parts.push({ ETag: result.ETag, PartNumber });
       pending = [];
@@ -85,12 +94,19 @@ export class S3FileStorage implements FileStorage {
       } else {
         if (pendingBytes > 0) await sendPart();
         await this.client.send(
-          new CompleteMultipartUploadCommand({ Bucket, Key: key, UploadId: uploadId, MultipartUpload: { Parts: parts } }),
+          new CompleteMultipartUploadCommand({
+            Bucket,
+            Key: key,
+            UploadId: uploadId,
+            MultipartUpload: { Parts: parts },
+          }),
         );
       }
     } catch (error) {
       if (uploadId) {
-        await this.client.send(new AbortMultipartUploadCommand({ Bucket, Key: key, UploadId: uploadId })).catch(() => {});
+        await this.client
+          .send(new AbortMultipartUploadCommand({ Bucket, Key: key, UploadId: uploadId }))
+          .catch(() => {});
       }
       throw error;
     }

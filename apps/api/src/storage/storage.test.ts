@@ -41,7 +41,9 @@ function behavesLikeStorage(name: string, make: () => FileStorage) {
     it('when a file is over the limit, then the write fails and leaves nothing', async () => {
       const storage = make();
       const key = `uploads/test/${randomBytes(4).toString('hex')}`;
-      await expect(storage.write(key, generated(200_000).stream, { maxBytes: 100_000 })).rejects.toBeInstanceOf(FileTooLargeError);
+      await expect(
+        storage.write(key, generated(200_000).stream, { maxBytes: 100_000 }),
+      ).rejects.toBeInstanceOf(FileTooLargeError);
       await expect(storage.read(key)).rejects.toThrow();
     });
   });
@@ -62,7 +64,9 @@ describe('local file storage', () => {
 
   it('when a key would leave the storage directory, then it is refused', async () => {
     const storage = new LocalFileStorage(localDir);
-    await expect(storage.write('../escape', Readable.from([Buffer.from('x')]), { maxBytes: 10 })).rejects.toThrow(/outside/);
+    await expect(
+      storage.write('../escape', Readable.from([Buffer.from('x')]), { maxBytes: 10 }),
+    ).rejects.toThrow(/outside/);
   });
 });
 
@@ -104,9 +108,9 @@ describe('S3 storage, large files', () => {
   it('when a multipart file goes over the limit, then the upload is aborted and nothing is left', async () => {
     const storage = s3();
     const key = `uploads/test/${randomBytes(4).toString('hex')}`;
-    await expect(storage.write(key, generated(20 * 1024 * 1024).stream, { maxBytes: 10 * 1024 * 1024 })).rejects.toBeInstanceOf(
-      FileTooLargeError,
-    );
+    await expect(
+      storage.write(key, generated(20 * 1024 * 1024).stream, { maxBytes: 10 * 1024 * 1024 }),
+    ).rejects.toBeInstanceOf(FileTooLargeError);
     await expect(storage.read(key)).rejects.toThrow();
     if (fake) expect(fake.requests).toContain('AbortMultipartUpload');
   });

@@ -62,6 +62,7 @@ export async function createTestApp(label: string, options: { env?: Record<strin
 
   async function close() {
     await ingestQueue.close().catch(() => {});
+    await deleteKeys(redis, queuePrefix).catch(() => {});
     redis.disconnect();
     await scratch.drop();
     rmSync(storageDir, { recursive: true, force: true });
@@ -70,3 +71,13 @@ export async function createTestApp(label: string, options: { env?: Record<strin
   return { app, deps, env, db: scratch.db, databaseUrl: scratch.url, storageDir, queuePrefix, makeLab, makeUser, close };
 }
 export type TestApp = Awaited<ReturnType<typeof createTestApp>>;
+
+/** Removes a test's queue keys from Redis (every key under its prefix). */
+async function deleteKeys(redis: Redis, prefix: string): Promise<void> {
+  let cursor = '0';
+  do {
+    const [next, keys] = await redis.scan(cursor, 'MATCH', `${prefix}:*`, 'COUNT', 500);
+    if (keys.length) await redis.del(...keys);
+    cursor = next;
+  } while (cursor !== '0');
+}

@@ -69,12 +69,14 @@ export const paths = {
     catalogue: {
       path: '/network/catalogue',
       /** `list` is one of the catalogue lists, e.g. 'control-lots'. */
-      getHref: (list?: string) => (list ? `/network/catalogue?list=${encodeURIComponent(list)}` : '/network/catalogue'),
+      getHref: (list?: string) =>
+        list ? `/network/catalogue?list=${encodeURIComponent(list)}` : '/network/catalogue',
     },
     labs: {
       path: '/network/labs',
       /** `labId` opens that lab's users. */
-      getHref: (labId?: string) => (labId ? `/network/labs?lab=${encodeURIComponent(labId)}` : '/network/labs'),
+      getHref: (labId?: string) =>
+        labId ? `/network/labs?lab=${encodeURIComponent(labId)}` : '/network/labs',
     },
     procedures: { path: '/network/procedures', getHref: () => '/network/procedures' },
     peerGroups: { path: '/network/peer-groups', getHref: () => '/network/peer-groups' },

@@ -34,7 +34,13 @@ type RowInput = {
 export function buildReportRow(input: RowInput): PeerReportRow {
   return peerReportRowSchema.parse({
     procedure: { id: input.procedureId, code: input.code },
-    analyte: { ...input.analyte, unit: 'mmol/L', decimals: 2, teaPct: 5.8, teaSource: 'network quality specification' },
+    analyte: {
+      ...input.analyte,
+      unit: 'mmol/L',
+      decimals: 2,
+      teaPct: 5.8,
+      teaSource: 'network quality specification',
+    },
     controlLot: { id: lotId, lotNumber: 'PGC-26187' },
     level: input.level,
     unit: 'mmol/L',
@@ -184,7 +190,11 @@ export function buildDrilldown(overrides: Partial<Drilldown> = {}): Drilldown {
         z,
         rules: z > 3 ? ['1-2s', '1-3s'] : [],
       })),
-      runs: days.map((z, i) => ({ run: `R${i + 1}`, verdict: z > 3 ? 'reject' : 'accept', rules: z > 3 ? ['1-2s', '1-3s'] : [] })),
+      runs: days.map((z, i) => ({
+        run: `R${i + 1}`,
+        verdict: z > 3 ? 'reject' : 'accept',
+        rules: z > 3 ? ['1-2s', '1-3s'] : [],
+      })),
     },
     uncertainty: {
       uRw: 1.2,

@@ -42,7 +42,10 @@ export async function openCsv(source: Readable, onBytes?: (bytes: number) => voi
     if (next.value.includes(0x0a) || next.value.includes(0x0d)) break;
   }
   const start = Buffer.concat(head);
-  if (start.length >= 2 && ((start[0] === 0xff && start[1] === 0xfe) || (start[0] === 0xfe && start[1] === 0xff))) {
+  if (
+    start.length >= 2 &&
+    ((start[0] === 0xff && start[1] === 0xfe) || (start[0] === 0xfe && start[1] === 0xff))
+  ) {
     throw new FileFormatError({
       row: 1,
       column: null,

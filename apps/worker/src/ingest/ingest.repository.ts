@@ -29,7 +29,9 @@ export async function markProcessing(db: Executor, id: string): Promise<boolean>
       failureMessage: null,
       updatedAt: new Date(),
     })
-    .where(and(eq(uploads.id, id), inArray(uploads.status, ['queued', 'processing']), isNull(uploads.storedAt)))
+    .where(
+      and(eq(uploads.id, id), inArray(uploads.status, ['queued', 'processing']), isNull(uploads.storedAt)),
+    )
     .returning({ id: uploads.id });
   return rows.length === 1;
 }
@@ -56,14 +58,25 @@ export async function markNeedsReview(
   return rows.length === 1;
 }
 
-export async function markFailed(db: Executor, id: string, message: string, errors: RowError[] = []): Promise<void> {
+export async function markFailed(
+  db: Executor,
+  id: string,
+  message: string,
+  errors: RowError[] = [],
+): Promise<void> {
   await db
     .update(uploads)
     .set({ status: 'failed', progress: 1, failureMessage: message, errors, updatedAt: new Date() })
-    .where(and(eq(uploads.id, id), inArray(uploads.status, ['queued', 'processing']), isNull(uploads.storedAt)));
+    .where(
+      and(eq(uploads.id, id), inArray(uploads.status, ['queued', 'processing']), isNull(uploads.storedAt)),
+    );
 }
 
-export async function savedColumnMapping(db: Executor, labId: string, kind: UploadKind): Promise<ColumnMapping | null> {
+export async function savedColumnMapping(
+  db: Executor,
+  labId: string,
+  kind: UploadKind,
+): Promise<ColumnMapping | null> {
   const [row] = await db
     .select({ mapping: columnMappings.mapping })
     .from(columnMappings)
@@ -92,12 +105,17 @@ export async function loadRowLookups(db: Executor, labId: string) {
   // Codes are matched exactly first, then ignoring case (when that is unambiguous).
   for (const p of procedureRows) {
     const upper = p.code.toUpperCase();
-    if (!procedureMap.has(upper) && procedureRows.filter((q) => q.code.toUpperCase() === upper).length === 1) {
+    if (
+      !procedureMap.has(upper) &&
+      procedureRows.filter((q) => q.code.toUpperCase() === upper).length === 1
+    ) {
       procedureMap.set(upper, p);
     }
   }
 
-  const lotRows = await db.select({ id: controlLots.id, lotNumber: controlLots.lotNumber, levels: controlLots.levels }).from(controlLots);
+  const lotRows = await db
+    .select({ id: controlLots.id, lotNumber: controlLots.lotNumber, levels: controlLots.levels })
+    .from(controlLots);
   const lots = new Map<string, LotInfo>(lotRows.map((l) => [l.lotNumber, l]));
 
   const periodRows = await db.select({ period: periods.period, state: periods.state }).from(periods);

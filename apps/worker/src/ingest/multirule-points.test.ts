@@ -33,7 +33,15 @@ describe('chooseTarget', () => {
 });
 
 describe('evaluateGroup', () => {
-  const procedure = { id: 'p', code: 'P', labId: 'l', analyteId: 'a', analyteName: 'A', analyteUnit: 'mmol/L', molarMass: null };
+  const procedure = {
+    id: 'p',
+    code: 'P',
+    labId: 'l',
+    analyteId: 'a',
+    analyteName: 'A',
+    analyteUnit: 'mmol/L',
+    molarMass: null,
+  };
   const lot = { id: 'lot', lotNumber: 'L', levels: [1, 2] };
   const period = { period: '2026-03', state: 'open' as const };
   const add = (b: ValuesBuffer, level: number, at: number, value: number, run: string | null = null) =>
@@ -51,8 +59,14 @@ describe('evaluateGroup', () => {
       [2, { mean: 20, sd: 0.2, source: 'lab' }],
     ]);
     const results = evaluateGroup(b, [0, 1, 2, 3], targets);
-    expect(results.get(0)).toEqual({ z: expect.closeTo(2.5, 12), rules: expect.arrayContaining(['1-2s', '2-2s']) });
-    expect(results.get(2)).toEqual({ z: expect.closeTo(2.5, 12), rules: expect.arrayContaining(['1-2s', '2-2s']) });
+    expect(results.get(0)).toEqual({
+      z: expect.closeTo(2.5, 12),
+      rules: expect.arrayContaining(['1-2s', '2-2s']),
+    });
+    expect(results.get(2)).toEqual({
+      z: expect.closeTo(2.5, 12),
+      rules: expect.arrayContaining(['1-2s', '2-2s']),
+    });
     expect(results.get(1)).toEqual({ z: 0, rules: [] });
   });
 

@@ -21,7 +21,11 @@ export function labTargetBefore(history: readonly MonthFigures[], period: string
 }
 
 /** Lab's figures first, then the peers', then the month's own (METHODS.md §4 and issue 4). */
-export function chooseTarget(lab: Target | null, peer: Target | null, month: MonthFigures | null): Target | null {
+export function chooseTarget(
+  lab: Target | null,
+  peer: Target | null,
+  month: MonthFigures | null,
+): Target | null {
   if (lab) return lab;
   if (peer) return peer;
   if (month && month.n >= 2 && month.sd > 0) return { mean: month.mean, sd: month.sd, source: 'month' };
@@ -78,12 +82,20 @@ export function evaluateGroup(
 }
 
 /** n, mean, SD of each series of the buffer with at least two values (indices grouped by series). */
-export function seriesFigures(buffer: ValuesBuffer, indicesBySeries: ReadonlyMap<number, number[]>): Map<number, MonthFigures> {
+export function seriesFigures(
+  buffer: ValuesBuffer,
+  indicesBySeries: ReadonlyMap<number, number[]>,
+): Map<number, MonthFigures> {
   const figures = new Map<number, MonthFigures>();
   for (const [seriesIndex, indices] of indicesBySeries) {
     if (indices.length < 2) continue;
     const s = summarize(indices.map((i) => buffer.value(i)));
-    figures.set(seriesIndex, { period: buffer.series[seriesIndex].period.period, n: s.n, mean: s.mean, sd: s.sd });
+    figures.set(seriesIndex, {
+      period: buffer.series[seriesIndex].period.period,
+      n: s.n,
+      mean: s.mean,
+      sd: s.sd,
+    });
   }
   return figures;
 }

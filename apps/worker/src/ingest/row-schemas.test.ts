@@ -14,20 +14,40 @@ const glucose = {
 const context = (decimalComma = false): RowContext => ({
   decimalComma,
   procedures: new Map([['GLU1', glucose]]),
-  lots: new Map([['LOT1', { id: '00000000-0000-4000-8000-0000000000cc', lotNumber: 'LOT1', levels: [1, 2] }]]),
+  lots: new Map([
+    ['LOT1', { id: '00000000-0000-4000-8000-0000000000cc', lotNumber: 'LOT1', levels: [1, 2] }],
+  ]),
   periods: new Map([['2026-03', { period: '2026-03', state: 'open' as const }]]),
   units: new UnitConverter(),
 });
-const row = { period: '2026-03', procedure: 'GLU1', control_lot: 'LOT1', level: '1', n: '20', mean: '5.5', sd: '0.12', unit: 'mmol/L' };
+const row = {
+  period: '2026-03',
+  procedure: 'GLU1',
+  control_lot: 'LOT1',
+  level: '1',
+  n: '20',
+  mean: '5.5',
+  sd: '0.12',
+  unit: 'mmol/L',
+};
 const codesOf = (input: Record<string, string>, ctx = context()) => {
   const result = summaryRowSchema(ctx).safeParse(input);
-  return result.success ? [] : rowErrorsOf(result.error.issues, 7, (c) => `My ${c}`).map((e) => [e.column, e.code]);
+  return result.success
+    ? []
+    : rowErrorsOf(result.error.issues, 7, (c) => `My ${c}`).map((e) => [e.column, e.code]);
 };
 
 describe('summary rows', () => {
   it('when the row is valid, then it resolves the procedure and lot and keeps the figures', () => {
     const result = summaryRowSchema(context()).parse(row);
-    expect(result).toMatchObject({ level: 1, n: 20, mean: 5.5, sd: 0.12, procedure: { id: glucose.id }, period: { period: '2026-03' } });
+    expect(result).toMatchObject({
+      level: 1,
+      n: 20,
+      mean: 5.5,
+      sd: 0.12,
+      procedure: { id: glucose.id },
+      period: { period: '2026-03' },
+    });
   });
 
   it('when n < 2, SD ≤ 0 or the mean is not a number, then each error names its column in the file', () => {
@@ -60,10 +80,15 @@ describe('summary rows', () => {
   });
 
   it('when the file allows decimal commas, then "5,5" is 5.5; otherwise the message explains', () => {
-    expect(summaryRowSchema(context(true)).parse({ ...row, mean: '5,5', sd: '0,12' })).toMatchObject({ mean: 5.5, sd: 0.12 });
+    expect(summaryRowSchema(context(true)).parse({ ...row, mean: '5,5', sd: '0,12' })).toMatchObject({
+      mean: 5.5,
+      sd: 0.12,
+    });
     const result = summaryRowSchema(context(false)).safeParse({ ...row, mean: '5,5' });
     expect(result.success).toBe(false);
-    expect(result.error?.issues[0].message).toMatch(/decimal comma is read only in semicolon-separated files/);
+    expect(result.error?.issues[0].message).toMatch(
+      /decimal comma is read only in semicolon-separated files/,
+    );
   });
 
   it('when the unit is mg/dL, then mean and SD are converted to mmol/L (÷ 18.016, textbook factor, common practice)', () => {
@@ -74,17 +99,36 @@ describe('summary rows', () => {
 });
 
 describe('value rows', () => {
-  const value = { measured_at: '2026-03-04T07:30', procedure: 'GLU1', control_lot: 'LOT1', level: '2', value: '12.1', unit: 'mmol/L', run: '', comment: '' };
+  const value = {
+    measured_at: '2026-03-04T07:30',
+    procedure: 'GLU1',
+    control_lot: 'LOT1',
+    level: '2',
+    value: '12.1',
+    unit: 'mmol/L',
+    run: '',
+    comment: '',
+  };
 
   it('when the row is valid, then run and comment may be empty', () => {
     const result = valueRowSchema(context()).parse(value);
-    expect(result).toMatchObject({ level: 2, value: 12.1, run: null, comment: null, measuredAtMs: Date.UTC(2026, 2, 4, 7, 30) });
+    expect(result).toMatchObject({
+      level: 2,
+      value: 12.1,
+      run: null,
+      comment: null,
+      measuredAtMs: Date.UTC(2026, 2, 4, 7, 30),
+    });
   });
 
   it('when the timestamp is not ISO 8601 or its month is not a cycle, then measured_at is named', () => {
     const bad = valueRowSchema(context()).safeParse({ ...value, measured_at: '04.03.2026' });
-    expect(bad.success ? [] : rowErrorsOf(bad.error.issues, 3, (c) => c)).toMatchObject([{ row: 3, column: 'measured_at', code: 'invalid_timestamp' }]);
+    expect(bad.success ? [] : rowErrorsOf(bad.error.issues, 3, (c) => c)).toMatchObject([
+      { row: 3, column: 'measured_at', code: 'invalid_timestamp' },
+    ]);
     const unknown = valueRowSchema(context()).safeParse({ ...value, measured_at: '2026-05-01' });
-    expect(unknown.success ? [] : rowErrorsOf(unknown.error.issues, 3, (c) => c)).toMatchObject([{ code: 'unknown_period' }]);
+    expect(unknown.success ? [] : rowErrorsOf(unknown.error.issues, 3, (c) => c)).toMatchObject([
+      { code: 'unknown_period' },
+    ]);
   });
 });

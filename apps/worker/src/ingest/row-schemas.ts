@@ -49,7 +49,13 @@ function requiredText(ctx: Ctx, column: string, text: string): string | undefine
   return value;
 }
 
-function wholeNumberCell(ctx: Ctx, column: string, text: string, min: number, tooSmall: RowErrorCode): number | undefined {
+function wholeNumberCell(
+  ctx: Ctx,
+  column: string,
+  text: string,
+  min: number,
+  tooSmall: RowErrorCode,
+): number | undefined {
   const t = requiredText(ctx, column, text);
   if (t === undefined) return undefined;
   const value = parseWholeNumber(t);
@@ -77,7 +83,12 @@ function procedureCell(ctx: Ctx, text: string, context: RowContext): ProcedureIn
   if (code === undefined) return undefined;
   const procedure = context.procedures.get(code) ?? context.procedures.get(code.toUpperCase());
   if (!procedure) {
-    return reject(ctx, 'procedure', 'unknown_procedure', `"${code}" is not a registered measurement procedure of this lab`);
+    return reject(
+      ctx,
+      'procedure',
+      'unknown_procedure',
+      `"${code}" is not a registered measurement procedure of this lab`,
+    );
   }
   return procedure;
 }
@@ -86,14 +97,21 @@ function lotCell(ctx: Ctx, text: string, context: RowContext): LotInfo | undefin
   const lotNumber = requiredText(ctx, 'control_lot', text);
   if (lotNumber === undefined) return undefined;
   const lot = context.lots.get(lotNumber);
-  if (!lot) return reject(ctx, 'control_lot', 'unknown_control_lot', `control lot "${lotNumber}" is not in the network's catalogue`);
+  if (!lot)
+    return reject(
+      ctx,
+      'control_lot',
+      'unknown_control_lot',
+      `control lot "${lotNumber}" is not in the network's catalogue`,
+    );
   return lot;
 }
 
 function periodCell(ctx: Ctx, text: string, context: RowContext): PeriodInfo | undefined {
   const value = requiredText(ctx, 'period', text);
   if (value === undefined) return undefined;
-  if (!PERIOD.test(value)) return reject(ctx, 'period', 'invalid_period', `period "${value}" is not a month written as YYYY-MM`);
+  if (!PERIOD.test(value))
+    return reject(ctx, 'period', 'invalid_period', `period "${value}" is not a month written as YYYY-MM`);
   const period = context.periods.get(value);
   if (!period) return reject(ctx, 'period', 'unknown_period', `${value} is not a cycle of the network`);
   return period;
@@ -116,11 +134,21 @@ function levelAndUnit(
 ): Conversion | null {
   const levelKnown = row.lot.levels.includes(row.level);
   if (!levelKnown) {
-    reject(ctx, 'level', 'unknown_level', `control lot ${row.lot.lotNumber} has levels ${row.lot.levels.join(', ')}, not ${row.level}`);
+    reject(
+      ctx,
+      'level',
+      'unknown_level',
+      `control lot ${row.lot.lotNumber} has levels ${row.lot.levels.join(', ')}, not ${row.level}`,
+    );
   }
   const conversion = context.units.conversion(row.unit, row.procedure.analyteUnit, row.procedure.molarMass);
   if ('problem' in conversion) {
-    reject(ctx, 'unit', 'unit_not_convertible', `${conversion.problem} (${row.procedure.analyteName} is stored in ${row.procedure.analyteUnit})`);
+    reject(
+      ctx,
+      'unit',
+      'unit_not_convertible',
+      `${conversion.problem} (${row.procedure.analyteName} is stored in ${row.procedure.analyteUnit})`,
+    );
     return null;
   }
   return levelKnown ? conversion : null;
@@ -159,8 +187,17 @@ export function summaryRowSchema(context: RowContext) {
     const mean = decimalCell(ctx, 'mean', cells.mean, context);
     let sd = decimalCell(ctx, 'sd', cells.sd, context);
     const unit = unitCell(ctx, cells.unit, context);
-    if (sd !== undefined && !(sd > 0)) sd = reject(ctx, 'sd', 'sd_not_positive', `sd must be greater than 0, got ${sd}`);
-    if (!period || !procedure || !lot || level === undefined || n === undefined || mean === undefined || unit === undefined) {
+    if (sd !== undefined && !(sd > 0))
+      sd = reject(ctx, 'sd', 'sd_not_positive', `sd must be greater than 0, got ${sd}`);
+    if (
+      !period ||
+      !procedure ||
+      !lot ||
+      level === undefined ||
+      n === undefined ||
+      mean === undefined ||
+      unit === undefined
+    ) {
       return z.NEVER;
     }
     const conversion = levelAndUnit(ctx, { procedure, lot, level, unit }, context);
@@ -200,14 +237,23 @@ const valueCells = z.object({
   comment: z.string(),
 });
 
-function measuredAtCell(ctx: Ctx, text: string, context: RowContext): { ms: number; period: PeriodInfo } | undefined {
+function measuredAtCell(
+  ctx: Ctx,
+  text: string,
+  context: RowContext,
+): { ms: number; period: PeriodInfo } | undefined {
   const value = requiredText(ctx, 'measured_at', text);
   if (value === undefined) return undefined;
   const parsed = parseMeasuredAt(value);
   if ('problem' in parsed) return reject(ctx, 'measured_at', 'invalid_timestamp', parsed.problem);
   const period = context.periods.get(parsed.period);
   if (!period) {
-    return reject(ctx, 'measured_at', 'unknown_period', `${parsed.period} (the month of ${value}) is not a cycle of the network`);
+    return reject(
+      ctx,
+      'measured_at',
+      'unknown_period',
+      `${parsed.period} (the month of ${value}) is not a cycle of the network`,
+    );
   }
   return { ms: parsed.ms, period };
 }
@@ -226,7 +272,15 @@ export function valueRowSchema(context: RowContext) {
     if (comment && comment.length > MAX_COMMENT_LENGTH) {
       comment = reject(ctx, 'comment', 'too_long', `comment is longer than ${MAX_COMMENT_LENGTH} characters`);
     }
-    if (!measuredAt || !procedure || !lot || level === undefined || value === undefined || unit === undefined || comment === undefined) {
+    if (
+      !measuredAt ||
+      !procedure ||
+      !lot ||
+      level === undefined ||
+      value === undefined ||
+      unit === undefined ||
+      comment === undefined
+    ) {
       return z.NEVER;
     }
     const conversion = levelAndUnit(ctx, { procedure, lot, level, unit }, context);

@@ -16,7 +16,14 @@ import {
 } from '@plumbline/db';
 import type { SummaryRow } from './row-schemas.ts';
 import { seriesKey, type ValuesBuffer } from './values-buffer.ts';
-import { chooseTarget, evaluateGroup, labTargetBefore, seriesFigures, type MonthFigures, type Target } from './multirule-points.ts';
+import {
+  chooseTarget,
+  evaluateGroup,
+  labTargetBefore,
+  seriesFigures,
+  type MonthFigures,
+  type Target,
+} from './multirule-points.ts';
 
 /** A monthly summary ready to store (canonical unit). */
 type SummaryToStore = {
@@ -43,7 +50,10 @@ export type StoreContext = {
 const isLate = (state: string) => state !== 'open';
 
 /** Stores the valid rows of a summary file: each row replaces the lab's data for its key. */
-export async function storeSummaries(ctx: StoreContext, rows: readonly SummaryRow[]): Promise<{ replaced: number }> {
+export async function storeSummaries(
+  ctx: StoreContext,
+  rows: readonly SummaryRow[],
+): Promise<{ replaced: number }> {
   return replaceSummaries(
     ctx,
     rows.map((r) => ({
@@ -165,9 +175,16 @@ async function replaceSummaries(
     periods: summaries.map((s) => s.period),
   };
   const keyArgs = [keys.procedures, keys.lots, keys.levels, keys.periods];
-  const keyTable = 'unnest($1::uuid[], $2::uuid[], $3::int[], $4::text[]) as k(procedure_id, control_lot_id, level, period)';
+  const keyTable =
+    'unnest($1::uuid[], $2::uuid[], $3::int[], $4::text[]) as k(procedure_id, control_lot_id, level, period)';
 
-  const previous = await client.query<{ procedure_id: string; control_lot_id: string; level: number; period: string; upload_id: string | null }>(
+  const previous = await client.query<{
+    procedure_id: string;
+    control_lot_id: string;
+    level: number;
+    period: string;
+    upload_id: string | null;
+  }>(
     `select s.procedure_id, s.control_lot_id, s.level, s.period, s.upload_id
        from qc_summaries s join ${keyTable}
          on s.procedure_id = k.procedure_id and s.control_lot_id = k.control_lot_id and s.level = k.level and s.period = k.period`,
@@ -266,7 +283,9 @@ async function multiruleTargets(
   const lotIds = [...new Set(buffer.series.map((s) => s.lot.id))];
   const history = new Map<string, MonthFigures[]>();
   const rows = await historyRows(tx, procedureIds, lotIds);
-  const fileKeys = new Set(buffer.series.map((s) => seriesKey(s.procedure.id, s.lot.id, s.level, s.period.period)));
+  const fileKeys = new Set(
+    buffer.series.map((s) => seriesKey(s.procedure.id, s.lot.id, s.level, s.period.period)),
+  );
   const push = (key: string, f: MonthFigures) => {
     const list = history.get(key);
     if (list) list.push(f);
@@ -274,7 +293,12 @@ async function multiruleTargets(
   };
   for (const r of rows) {
     if (fileKeys.has(seriesKey(r.procedureId, r.controlLotId, r.level, r.period))) continue;
-    push(`${r.procedureId}|${r.controlLotId}|${r.level}`, { period: r.period, n: r.n, mean: r.mean, sd: r.sd });
+    push(`${r.procedureId}|${r.controlLotId}|${r.level}`, {
+      period: r.period,
+      n: r.n,
+      mean: r.mean,
+      sd: r.sd,
+    });
   }
   buffer.series.forEach((s, index) => {
     const f = figures.get(index);
@@ -319,7 +343,11 @@ async function historyRows(tx: Database, procedureIds: string[], lotIds: string[
 }
 
 /** The peers' latest lot-to-date figures before each series' period, at the narrowest sufficient tier. */
-async function peerTargets(tx: Database, buffer: ValuesBuffer, seriesIndices: readonly number[]): Promise<Map<number, Target>> {
+async function peerTargets(
+  tx: Database,
+  buffer: ValuesBuffer,
+  seriesIndices: readonly number[],
+): Promise<Map<number, Target>> {
   const result = new Map<number, Target>();
   const byLot = new Map<string, number[]>();
   for (const index of seriesIndices) {
@@ -332,9 +360,14 @@ async function peerTargets(tx: Database, buffer: ValuesBuffer, seriesIndices: re
     const first = buffer.series[indices[0]];
     const parts = await loadPeerKeyParts(tx, [...new Set(indices.map((i) => buffer.series[i].procedure.id))]);
     const membership = await resolvePeerMembership(tx, first.lot.id, parts, { create: false });
-    const groupIds = [...new Set([...membership.values()].flatMap((m) => Object.values(m).map((g) => g!.id)))];
+    const groupIds = [
+      ...new Set([...membership.values()].flatMap((m) => Object.values(m).map((g) => g!.id))),
+    ];
     if (groupIds.length === 0) continue;
-    const latestPeriod = indices.map((i) => buffer.series[i].period.period).sort().at(-1)!;
+    const latestPeriod = indices
+      .map((i) => buffer.series[i].period.period)
+      .sort()
+      .at(-1)!;
     const stats = await tx
       .select()
       .from(peerStatistics)
@@ -360,7 +393,14 @@ async function peerTargets(tx: Database, buffer: ValuesBuffer, seriesIndices: re
         const group = groups[tier];
         if (!group) continue;
         const best = (statsByGroup.get(group.id) ?? [])
-          .filter((r) => r.level === s.level && r.period < s.period.period && r.mean !== null && r.sd !== null && r.sd > 0)
+          .filter(
+            (r) =>
+              r.level === s.level &&
+              r.period < s.period.period &&
+              r.mean !== null &&
+              r.sd !== null &&
+              r.sd > 0,
+          )
           .sort((a, b) => (a.period < b.period ? 1 : -1))[0];
         if (best) {
           result.set(index, { mean: best.mean!, sd: best.sd!, source: 'peer' });

@@ -3,16 +3,31 @@ import { parseMeasuredAt } from './timestamps.ts';
 
 describe('parseMeasuredAt', () => {
   it('when a date and time have no zone, then they are read as UTC and the month is the written one', () => {
-    expect(parseMeasuredAt('2026-03-04T07:30')).toEqual({ ms: Date.UTC(2026, 2, 4, 7, 30), period: '2026-03' });
-    expect(parseMeasuredAt('2026-03-04 07:30:15')).toEqual({ ms: Date.UTC(2026, 2, 4, 7, 30, 15), period: '2026-03' });
+    expect(parseMeasuredAt('2026-03-04T07:30')).toEqual({
+      ms: Date.UTC(2026, 2, 4, 7, 30),
+      period: '2026-03',
+    });
+    expect(parseMeasuredAt('2026-03-04 07:30:15')).toEqual({
+      ms: Date.UTC(2026, 2, 4, 7, 30, 15),
+      period: '2026-03',
+    });
     expect(parseMeasuredAt('2026-03-04')).toEqual({ ms: Date.UTC(2026, 2, 4), period: '2026-03' });
   });
 
   it('when a zone is given, then the instant honours it but the period stays the written month', () => {
     // 2026-03-31T23:30 at +02:00 is 21:30 UTC the same day; at -05:00 it is April 1 in UTC.
-    expect(parseMeasuredAt('2026-03-31T23:30:00-05:00')).toEqual({ ms: Date.UTC(2026, 3, 1, 4, 30), period: '2026-03' });
-    expect(parseMeasuredAt('2026-03-31T23:30:00.250+0200')).toEqual({ ms: Date.UTC(2026, 2, 31, 21, 30, 0, 250), period: '2026-03' });
-    expect(parseMeasuredAt('2026-03-31T23:30Z')).toEqual({ ms: Date.UTC(2026, 2, 31, 23, 30), period: '2026-03' });
+    expect(parseMeasuredAt('2026-03-31T23:30:00-05:00')).toEqual({
+      ms: Date.UTC(2026, 3, 1, 4, 30),
+      period: '2026-03',
+    });
+    expect(parseMeasuredAt('2026-03-31T23:30:00.250+0200')).toEqual({
+      ms: Date.UTC(2026, 2, 31, 21, 30, 0, 250),
+      period: '2026-03',
+    });
+    expect(parseMeasuredAt('2026-03-31T23:30Z')).toEqual({
+      ms: Date.UTC(2026, 2, 31, 23, 30),
+      period: '2026-03',
+    });
   });
 
   it('when the date does not exist or is not ISO 8601, then the problem is named', () => {

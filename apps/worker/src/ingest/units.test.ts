@@ -32,7 +32,9 @@ describe('UnitConverter', () => {
   });
 
   it('when the dimensions cannot match, then the conversion is refused', () => {
-    expect(units.conversion('U/L', 'mmol/L', 180.16)).toEqual({ problem: expect.stringMatching(/cannot be converted/) });
+    expect(units.conversion('U/L', 'mmol/L', 180.16)).toEqual({
+      problem: expect.stringMatching(/cannot be converted/),
+    });
   });
 
   it('when a unit is not UCUM, then it is named; micro signs are read as "u"', () => {

@@ -34,7 +34,10 @@ export class UnitConverter {
     let problem = this.valid.get(unit);
     if (problem === undefined) {
       const result = utils.validateUnitString(unit);
-      problem = result.status === 'valid' ? null : `"${unit}" is not a UCUM unit${result.msg.length ? ` (${result.msg.join('; ')})` : ''}`;
+      problem =
+        result.status === 'valid'
+          ? null
+          : `"${unit}" is not a UCUM unit${result.msg.length ? ` (${result.msg.join('; ')})` : ''}`;
       this.valid.set(unit, problem);
     }
     return problem;
@@ -55,7 +58,12 @@ export class UnitConverter {
     const options = molarMass ? { molecularWeight: molarMass } : {};
     const one = utils.convertUnitTo(from, 1, to, options);
     const zero = utils.convertUnitTo(from, 0, to, options);
-    if (one.status !== 'succeeded' || zero.status !== 'succeeded' || one.toVal === null || zero.toVal === null) {
+    if (
+      one.status !== 'succeeded' ||
+      zero.status !== 'succeeded' ||
+      one.toVal === null ||
+      zero.toVal === null
+    ) {
       const needsMolarMass = !molarMass && (one.msg ?? []).some((m) => /molecular weight/i.test(m));
       return {
         problem: needsMolarMass

@@ -1,7 +1,13 @@
 import type { LotInfo, PeriodInfo, ProcedureInfo, ValueRow } from './row-schemas.ts';
 
 /** One lab series: a procedure, control lot, level and period. */
-export type Series = { key: string; procedure: ProcedureInfo; lot: LotInfo; level: number; period: PeriodInfo };
+export type Series = {
+  key: string;
+  procedure: ProcedureInfo;
+  lot: LotInfo;
+  level: number;
+  period: PeriodInfo;
+};
 
 /** A typed array that grows by doubling, so a column of a million numbers is one block of memory. */
 class Column<T extends Float64Array | Int32Array> {

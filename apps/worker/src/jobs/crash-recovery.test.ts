@@ -12,13 +12,19 @@ afterAll(async () => h?.close());
 
 async function countWhere<T>(table: T, uploadId: string) {
   const t = table as typeof qcValues;
-  const [{ count }] = await h.db.select({ count: sql<number>`count(*)::int` }).from(t).where(eq(t.uploadId, uploadId));
+  const [{ count }] = await h.db
+    .select({ count: sql<number>`count(*)::int` })
+    .from(t)
+    .where(eq(t.uploadId, uploadId));
   return count;
 }
 
 describe('a worker killed mid-file', () => {
   it('when the worker dies inside the storing transaction, then nothing is half-stored, and after a restart the upload is stored exactly once', async () => {
-    const { lab } = await h.catalogue.makeLabWithProcedures([{ code: 'GLU1' }, { code: 'GLU2', model: h.catalogue.models.y2 }]);
+    const { lab } = await h.catalogue.makeLabWithProcedures([
+      { code: 'GLU1' },
+      { code: 'GLU2', model: h.catalogue.models.y2 },
+    ]);
     const lines = ['measured_at,procedure,control_lot,level,value,unit,run'];
     let rows = 0;
     for (let day = 1; day <= 28; day++) {
@@ -26,7 +32,9 @@ describe('a worker killed mid-file', () => {
         for (let run = 0; run < 20; run++) {
           for (const level of [1, 2]) {
             const value = (level === 1 ? 5.5 : 16) + Math.sin(day * 31 + run * 7 + level) * 0.1;
-            lines.push(`2026-02-${String(day).padStart(2, '0')}T${String(run).padStart(2, '0')}:15,${code},${h.catalogue.lot.lotNumber},${level},${value.toFixed(3)},mmol/L,D${day}R${run}`);
+            lines.push(
+              `2026-02-${String(day).padStart(2, '0')}T${String(run).padStart(2, '0')}:15,${code},${h.catalogue.lot.lotNumber},${level},${value.toFixed(3)},mmol/L,D${day}R${run}`,
+            );
             rows += 1;
           }
         }
@@ -59,7 +67,10 @@ describe('a worker killed mid-file', () => {
 
     // PostgreSQL rolls the dead connection's transaction back.
     for (let i = 0; i < 100; i++) {
-      const activity = await h.pool.query(`select count(*)::int as n from pg_stat_activity where datname = $1 and state = 'idle in transaction'`, [dbName]);
+      const activity = await h.pool.query(
+        `select count(*)::int as n from pg_stat_activity where datname = $1 and state = 'idle in transaction'`,
+        [dbName],
+      );
       if (activity.rows[0].n === 0) break;
       await new Promise((r) => setTimeout(r, 50));
     }
@@ -77,7 +88,10 @@ describe('a worker killed mid-file', () => {
     expect(stored.rowsAccepted).toBe(rows);
     expect(await countWhere(qcValues, uploadId)).toBe(rows);
     expect(await countWhere(qcSummaries, uploadId)).toBe(4);
-    const events = await h.db.select().from(auditEvents).where(and(eq(auditEvents.kind, 'upload.stored'), eq(auditEvents.entityId, uploadId)));
+    const events = await h.db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.kind, 'upload.stored'), eq(auditEvents.entityId, uploadId)));
     expect(events).toHaveLength(1);
     expect(stored.attempts).toBe(2);
   }, 90_000);

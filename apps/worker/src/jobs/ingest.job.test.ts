@@ -1,7 +1,21 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq, sql } from 'drizzle-orm';
-import { peerStatistics as computePeerStatistics, evaluateMultirule, pool, summarize } from '@plumbline/stats';
-import { auditEvents, columnMappings, peerGroups, peerStatistics, periods, qcSummaries, qcValues, uploads } from '@plumbline/db';
+import {
+  peerStatistics as computePeerStatistics,
+  evaluateMultirule,
+  pool,
+  summarize,
+} from '@plumbline/stats';
+import {
+  auditEvents,
+  columnMappings,
+  peerGroups,
+  peerStatistics,
+  periods,
+  qcSummaries,
+  qcValues,
+  uploads,
+} from '@plumbline/db';
 import { createWorkerHarness, type WorkerHarness } from '../testing/harness.ts';
 import { processUpload } from './ingest.job.ts';
 import { LocalFileSource } from '../storage/file-source.ts';
@@ -43,7 +57,9 @@ describe('summary files', () => {
       expect(done.status).toBe('stored');
       expect(done.progress).toBe(1);
       expect(done.storedAt).not.toBeNull();
-      expect(await summariesOf(lab.id)).toMatchObject([{ n: input.n, mean: input.mean, sd: input.sd, source: 'summary', late: false }]);
+      expect(await summariesOf(lab.id)).toMatchObject([
+        { n: input.n, mean: input.mean, sd: input.sd, source: 'summary', late: false },
+      ]);
     }
 
     await h.waitForPeerStatistics();
@@ -54,8 +70,17 @@ describe('summary files', () => {
     const [stored] = await h.db
       .select()
       .from(peerStatistics)
-      .where(and(eq(peerStatistics.peerGroupId, group.id), eq(peerStatistics.period, '2026-02'), eq(peerStatistics.scope, 'period')));
-    const expected = computePeerStatistics(inputs.map((x, i) => ({ id: procedureIds[i], ...x })), { minLabs: 3 });
+      .where(
+        and(
+          eq(peerStatistics.peerGroupId, group.id),
+          eq(peerStatistics.period, '2026-02'),
+          eq(peerStatistics.scope, 'period'),
+        ),
+      );
+    const expected = computePeerStatistics(
+      inputs.map((x, i) => ({ id: procedureIds[i], ...x })),
+      { minLabs: 3 },
+    );
     expect(stored).toMatchObject({ version: 0, labs: 4, n: expected.n, sufficient: true });
     expect(stored.mean).toBeCloseTo(expected.mean, 12);
     expect(stored.sd).toBeCloseTo(expected.sd, 12);
@@ -65,7 +90,13 @@ describe('summary files', () => {
     const [cumulative] = await h.db
       .select()
       .from(peerStatistics)
-      .where(and(eq(peerStatistics.peerGroupId, group.id), eq(peerStatistics.period, '2026-02'), eq(peerStatistics.scope, 'cumulative')));
+      .where(
+        and(
+          eq(peerStatistics.peerGroupId, group.id),
+          eq(peerStatistics.period, '2026-02'),
+          eq(peerStatistics.scope, 'cumulative'),
+        ),
+      );
     expect(cumulative.mean).toBeCloseTo(expected.mean, 12);
   });
 
@@ -131,7 +162,8 @@ describe('summary files', () => {
 
   it('when the same key is uploaded again, then the new figures replace the old and the replacement is audited', async () => {
     const { lab } = await h.catalogue.makeLabWithProcedures([{ code: 'GLU1' }]);
-    const line = (mean: number) => `${SUMMARY_HEADER}\n2026-01,GLU1,${h.catalogue.lot.lotNumber},1,20,${mean},0.1,mmol/L\n`;
+    const line = (mean: number) =>
+      `${SUMMARY_HEADER}\n2026-01,GLU1,${h.catalogue.lot.lotNumber},1,20,${mean},0.1,mmol/L\n`;
     const first = await h.addUpload({ labId: lab.id, kind: 'qc-summary', content: line(5.5) });
     await h.enqueue(first);
     await h.waitForStatus(first, ['stored']);
@@ -139,9 +171,15 @@ describe('summary files', () => {
     await h.enqueue(second);
     await h.waitForStatus(second, ['stored']);
     expect((await summariesOf(lab.id)).map((r) => [r.mean, r.uploadId])).toEqual([[5.7, second]]);
-    const audit = await h.db.select().from(auditEvents).where(and(eq(auditEvents.kind, 'qc-data.replaced'), eq(auditEvents.entityId, second)));
+    const audit = await h.db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.kind, 'qc-data.replaced'), eq(auditEvents.entityId, second)));
     expect(audit).toHaveLength(1);
-    expect(audit[0].details).toMatchObject({ summariesReplaced: 1, keys: [{ period: '2026-01', previousUploadId: first }] });
+    expect(audit[0].details).toMatchObject({
+      summariesReplaced: 1,
+      keys: [{ period: '2026-01', previousUploadId: first }],
+    });
   });
 
   it('when the period is closed, then the stored summaries are marked late', async () => {
@@ -162,7 +200,16 @@ describe('summary files', () => {
     await h.db.insert(columnMappings).values({
       labId: lab.id,
       kind: 'qc-summary',
-      mapping: { period: 'Zeitraum', procedure: 'Kennung', control_lot: 'Charge', level: 'Stufe', n: 'Anzahl', mean: 'Mittel', sd: 'Streuung', unit: 'Einheit' },
+      mapping: {
+        period: 'Zeitraum',
+        procedure: 'Kennung',
+        control_lot: 'Charge',
+        level: 'Stufe',
+        n: 'Anzahl',
+        mean: 'Mittel',
+        sd: 'Streuung',
+        unit: 'Einheit',
+      },
     });
     const id = await h.addUpload({
       labId: lab.id,
@@ -176,12 +223,21 @@ describe('summary files', () => {
 
   it('when a required column is missing, then the file fails with a header error naming what is missing', async () => {
     const { lab } = await h.catalogue.makeLabWithProcedures([{ code: 'GLU1' }]);
-    const id = await h.addUpload({ labId: lab.id, kind: 'qc-summary', content: 'period,procedure,level,n,mean,unit\n2026-02,GLU1,1,20,5,mmol/L\n' });
+    const id = await h.addUpload({
+      labId: lab.id,
+      kind: 'qc-summary',
+      content: 'period,procedure,level,n,mean,unit\n2026-02,GLU1,1,20,5,mmol/L\n',
+    });
     await h.enqueue(id);
     const failed = await h.waitForStatus(id, ['failed', 'stored', 'needs-review']);
     expect(failed.status).toBe('failed');
     expect(failed.errors).toEqual([
-      { row: 1, column: 'control_lot', code: 'missing_column', message: expect.stringMatching(/"control_lot", "sd"/) },
+      {
+        row: 1,
+        column: 'control_lot',
+        code: 'missing_column',
+        message: expect.stringMatching(/"control_lot", "sd"/),
+      },
     ]);
   });
 });
@@ -210,7 +266,9 @@ describe('daily values', () => {
     await h.enqueue(id);
     expect((await h.waitForStatus(id, ['stored', 'needs-review', 'failed'])).status).toBe('stored');
 
-    const february = (await summariesOf(lab.id)).filter((s) => s.period === '2026-02').sort((a, b) => a.level - b.level);
+    const february = (await summariesOf(lab.id))
+      .filter((s) => s.period === '2026-02')
+      .sort((a, b) => a.level - b.level);
     const s1 = summarize(level1);
     expect(february[0]).toMatchObject({ level: 1, n: 5, source: 'values' });
     expect(february[0].mean).toBeCloseTo(s1.mean, 12);
@@ -240,15 +298,23 @@ describe('daily values', () => {
   });
 
   it('when the lab has no earlier figures and no peers, then the month’s own figures are the targets', async () => {
-    const { lab, procedures } = await h.catalogue.makeLabWithProcedures([{ code: 'GLU-NEW', model: h.catalogue.models.y2 }]);
+    const { lab, procedures } = await h.catalogue.makeLabWithProcedures([
+      { code: 'GLU-NEW', model: h.catalogue.models.y2 },
+    ]);
     const values = [4.0, 4.1, 3.9, 4.05, 3.95, 4.6];
     const lines = ['measured_at,procedure,control_lot,level,value,unit'];
-    values.forEach((v, i) => lines.push(`2026-01-1${i}T07:00Z,GLU-NEW,${h.catalogue.lot.lotNumber},1,${v},mmol/L`));
+    values.forEach((v, i) =>
+      lines.push(`2026-01-1${i}T07:00Z,GLU-NEW,${h.catalogue.lot.lotNumber},1,${v},mmol/L`),
+    );
     const id = await h.addUpload({ labId: lab.id, kind: 'qc-values', content: lines.join('\r\n') });
     await h.enqueue(id);
     await h.waitForStatus(id, ['stored']);
     const own = summarize(values);
-    const rows = await h.db.select().from(qcValues).where(eq(qcValues.procedureId, procedures[0].id)).orderBy(qcValues.measuredAt);
+    const rows = await h.db
+      .select()
+      .from(qcValues)
+      .where(eq(qcValues.procedureId, procedures[0].id))
+      .orderBy(qcValues.measuredAt);
     expect(rows.map((r) => r.z)).toEqual(values.map((v) => expect.closeTo((v - own.mean) / own.sd, 12)));
   });
 });
@@ -269,15 +335,25 @@ describe('exactly once', () => {
   it('when a stored upload is processed again, then nothing is stored twice', async () => {
     const { lab } = await h.catalogue.makeLabWithProcedures([{ code: 'GLU1' }]);
     const lines = ['measured_at,procedure,control_lot,level,value,unit'];
-    for (let d = 1; d <= 9; d++) lines.push(`2026-03-0${d}T08:00,GLU1,${h.catalogue.lot.lotNumber},1,${5 + d / 100},mmol/L`);
+    for (let d = 1; d <= 9; d++)
+      lines.push(`2026-03-0${d}T08:00,GLU1,${h.catalogue.lot.lotNumber},1,${5 + d / 100},mmol/L`);
     const id = await h.addUpload({ labId: lab.id, kind: 'qc-values', content: lines.join('\n') });
     await h.enqueue(id);
     await h.waitForStatus(id, ['stored']);
-    const again = await processUpload({ db: h.db, pool: h.pool, files: new LocalFileSource(h.storageDir), minLabs: 3 }, id);
+    const again = await processUpload(
+      { db: h.db, pool: h.pool, files: new LocalFileSource(h.storageDir), minLabs: 3 },
+      id,
+    );
     expect(again).toBe('stored'); // already stored: only the final steps are confirmed
-    const [{ count }] = await h.db.select({ count: sql<number>`count(*)::int` }).from(qcValues).where(eq(qcValues.uploadId, id));
+    const [{ count }] = await h.db
+      .select({ count: sql<number>`count(*)::int` })
+      .from(qcValues)
+      .where(eq(qcValues.uploadId, id));
     expect(count).toBe(9);
-    const events = await h.db.select().from(auditEvents).where(and(eq(auditEvents.kind, 'upload.stored'), eq(auditEvents.entityId, id)));
+    const events = await h.db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.kind, 'upload.stored'), eq(auditEvents.entityId, id)));
     expect(events).toHaveLength(1);
   });
 
@@ -305,11 +381,19 @@ describe('exactly once', () => {
     const [group] = await h.db
       .select()
       .from(peerGroups)
-      .where(and(eq(peerGroups.analyteId, h.catalogue.analytes.creatinine.id), eq(peerGroups.tier, 'instrument')));
+      .where(
+        and(eq(peerGroups.analyteId, h.catalogue.analytes.creatinine.id), eq(peerGroups.tier, 'instrument')),
+      );
     const [cumulative] = await h.db
       .select()
       .from(peerStatistics)
-      .where(and(eq(peerStatistics.peerGroupId, group.id), eq(peerStatistics.period, '2026-02'), eq(peerStatistics.scope, 'cumulative')));
+      .where(
+        and(
+          eq(peerStatistics.peerGroupId, group.id),
+          eq(peerStatistics.period, '2026-02'),
+          eq(peerStatistics.scope, 'cumulative'),
+        ),
+      );
     const labToDate = procedureMeans.map(([jan, feb], i) => ({
       id: ids[i],
       ...pool([

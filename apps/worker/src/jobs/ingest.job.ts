@@ -9,7 +9,13 @@ import {
 import { dbOnClient, recordAudit, type Database } from '@plumbline/db';
 import type { FileSource } from '../storage/file-source.ts';
 import { FileFormatError, openCsv, type CsvRecord } from '../ingest/csv-reader.ts';
-import { rowErrorsOf, summaryRowSchema, valueRowSchema, type RowContext, type SummaryRow } from '../ingest/row-schemas.ts';
+import {
+  rowErrorsOf,
+  summaryRowSchema,
+  valueRowSchema,
+  type RowContext,
+  type SummaryRow,
+} from '../ingest/row-schemas.ts';
 import { UnitConverter } from '../ingest/units.ts';
 import { ValuesBuffer } from '../ingest/values-buffer.ts';
 import { storeSummaries, storeValues, type StoreContext } from '../ingest/store.ts';
@@ -71,23 +77,36 @@ export async function processUpload(
     throw error;
   }
 
-  const counts = { rowsTotal: read.rowsTotal, rowsAccepted: read.rowsAccepted, rowsRejected: read.rowsRejected };
+  const counts = {
+    rowsTotal: read.rowsTotal,
+    rowsAccepted: read.rowsAccepted,
+    rowsRejected: read.rowsRejected,
+  };
   if (read.rowsRejected > 0 && !upload.confirmedAt) {
     await repo.markNeedsReview(deps.db, uploadId, counts, read.errors);
     log(`upload ${uploadId}: needs review (${read.rowsRejected} of ${read.rowsTotal} rows rejected)`);
     return 'needs-review';
   }
   if (read.rowsAccepted === 0) {
-    await repo.markFailed(deps.db, uploadId, 'No row of the file is valid, so nothing was stored.', read.errors);
+    await repo.markFailed(
+      deps.db,
+      uploadId,
+      'No row of the file is valid, so nothing was stored.',
+      read.errors,
+    );
     return 'failed';
   }
 
   await progress(0.6, true);
   const t1 = performance.now();
-  const stored = await storeInOneTransaction(deps, upload, read, counts, (fraction) => progress(0.6 + 0.4 * fraction));
+  const stored = await storeInOneTransaction(deps, upload, read, counts, (fraction) =>
+    progress(0.6 + 0.4 * fraction),
+  );
   if (!stored) return 'skipped';
   await reportProgress(1);
-  log(`upload ${uploadId}: stored ${read.rowsAccepted} rows (read ${Math.round(t1 - t0)} ms, store ${Math.round(performance.now() - t1)} ms)`);
+  log(
+    `upload ${uploadId}: stored ${read.rowsAccepted} rows (read ${Math.round(t1 - t0)} ms, store ${Math.round(performance.now() - t1)} ms)`,
+  );
   return 'stored';
 }
 
@@ -111,7 +130,12 @@ async function readUpload(
   try {
     source = await deps.files.open(upload.storageKey);
   } catch {
-    throw new FileFormatError({ row: 1, column: null, code: 'malformed_csv', message: 'The uploaded file is no longer in storage; upload it again.' });
+    throw new FileFormatError({
+      row: 1,
+      column: null,
+      code: 'malformed_csv',
+      message: 'The uploaded file is no longer in storage; upload it again.',
+    });
   }
   let bytesRead = 0;
   const csv = await openCsv(source, (n) => {
@@ -120,11 +144,20 @@ async function readUpload(
   const iterator = csv.records[Symbol.asyncIterator]();
   const first = await iterator.next();
   if (first.done) {
-    throw new FileFormatError({ row: 1, column: null, code: 'missing_column', message: 'The file is empty: it has no header line.' });
+    throw new FileFormatError({
+      row: 1,
+      column: null,
+      code: 'missing_column',
+      message: 'The file is empty: it has no header line.',
+    });
   }
   const headerLine = first.value as CsvRecord;
   const headers = headerLine.cells.map((h) => h.trim());
-  const columns = resolveColumns(upload, headers, await repo.savedColumnMapping(deps.db, upload.labId, upload.kind));
+  const columns = resolveColumns(
+    upload,
+    headers,
+    await repo.savedColumnMapping(deps.db, upload.labId, upload.kind),
+  );
 
   const context: RowContext = {
     decimalComma: allowsDecimalComma(csv.delimiter),
@@ -202,7 +235,12 @@ async function readUpload(
     }
   }
   if (result.rowsTotal === 0) {
-    throw new FileFormatError({ row: 2, column: null, code: 'required', message: 'The file has a header line but no data rows.' });
+    throw new FileFormatError({
+      row: 2,
+      column: null,
+      code: 'required',
+      message: 'The file has a header line but no data rows.',
+    });
   }
   await onFraction(1);
   return result;
@@ -217,7 +255,8 @@ function resolveColumns(
   headers: string[],
   saved: Record<string, string> | null,
 ): { indexOf: Record<string, number>; headerOf: (canonical: string) => string | null } {
-  const explicit = upload.columnMapping && Object.keys(upload.columnMapping).length ? upload.columnMapping : null;
+  const explicit =
+    upload.columnMapping && Object.keys(upload.columnMapping).length ? upload.columnMapping : null;
   if (explicit) {
     const absent = Object.entries(explicit).filter(([, header]) => !headers.includes(header));
     if (absent.length) {
@@ -279,7 +318,9 @@ async function storeInOneTransaction(
         : { actorId: null, actorLabel: upload.tokenId ? `lab-token:${upload.tokenId}` : 'ingest-worker' },
     };
     const { replaced } =
-      upload.kind === 'qc-summary' ? await storeSummaries(ctx, read.summaries) : await storeValues(ctx, read.values, onFraction);
+      upload.kind === 'qc-summary'
+        ? await storeSummaries(ctx, read.summaries)
+        : await storeValues(ctx, read.values, onFraction);
 
     const locked = await client.query<{ status: string; stored_at: Date | null }>(
       'select status, stored_at from uploads where id = $1 for update',

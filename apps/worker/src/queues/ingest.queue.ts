@@ -42,7 +42,10 @@ const JOB_OPTIONS = {
 /** The ingest queue's consumer: one processor, payloads parsed at the door (a bad payload is not retried). */
 export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions): IngestWorker {
   const log = deps.log ?? (() => {});
-  const queue = new Queue<IngestJob>(INGEST_QUEUE_NAME, { connection: options.connection, prefix: options.prefix });
+  const queue = new Queue<IngestJob>(INGEST_QUEUE_NAME, {
+    connection: options.connection,
+    prefix: options.prefix,
+  });
   let activeJobs = 0;
   const drainer = createPeerStatisticsDrainer(
     deps.db,
@@ -69,10 +72,16 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
         return outcome;
       } catch (error) {
         const lastAttempt = job.attemptsMade + 1 >= (job.opts.attempts ?? 1);
-        log(`upload ${payload.data.uploadId}: attempt ${job.attemptsMade + 1} failed: ${(error as Error).message}`);
+        log(
+          `upload ${payload.data.uploadId}: attempt ${job.attemptsMade + 1} failed: ${(error as Error).message}`,
+        );
         if (lastAttempt) {
           await repo
-            .markFailed(deps.db, payload.data.uploadId, 'The file could not be processed because of a problem on our side. Upload it again, or contact the network coordinator if this repeats.')
+            .markFailed(
+              deps.db,
+              payload.data.uploadId,
+              'The file could not be processed because of a problem on our side. Upload it again, or contact the network coordinator if this repeats.',
+            )
             .catch(() => {});
         }
         throw error;
@@ -94,7 +103,11 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
     const pending = await repo.uploadsToRecover(deps.db);
     for (const upload of pending) {
       // The same job id as the API uses, so an upload that is still in the queue is not added twice.
-      await queue.add('ingest', { uploadId: upload.id }, { ...JOB_OPTIONS, jobId: ingestJobId(upload.id, upload.confirmed ? 'confirmed' : 'initial') });
+      await queue.add(
+        'ingest',
+        { uploadId: upload.id },
+        { ...JOB_OPTIONS, jobId: ingestJobId(upload.id, upload.confirmed ? 'confirmed' : 'initial') },
+      );
     }
     // Recompute requests left by a crash between storing and recomputing.
     drainer.kick();

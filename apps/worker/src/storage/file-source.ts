@@ -17,7 +17,8 @@ export class LocalFileSource implements FileSource {
   }
   async open(key: string): Promise<Readable> {
     const path = resolve(join(this.root, key));
-    if (!path.startsWith(this.root + sep)) throw new Error(`storage key outside the storage directory: ${key}`);
+    if (!path.startsWith(this.root + sep))
+      throw new Error(`storage key outside the storage directory: ${key}`);
     await stat(path);
     return createReadStream(path, { highWaterMark: 256 * 1024 });
   }

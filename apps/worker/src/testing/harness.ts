@@ -34,7 +34,14 @@ export async function createWorkerHarness(label: string) {
         holdBeforeCommitMs: options.holdBeforeCommitMs,
         log: process.env.PLUMBLINE_TEST_LOG ? (m: string) => console.log(m) : undefined,
       },
-      { connection, prefix, concurrency: 2, recoveryIntervalMs: 0, stalledIntervalMs: options.stalledIntervalMs, recomputeDelayMs: 20 },
+      {
+        connection,
+        prefix,
+        concurrency: 2,
+        recoveryIntervalMs: 0,
+        stalledIntervalMs: options.stalledIntervalMs,
+        recomputeDelayMs: 20,
+      },
     );
     return worker;
   }
@@ -68,7 +75,11 @@ export async function createWorkerHarness(label: string) {
   async function enqueue(uploadId: string, phase: 'initial' | 'confirmed' = 'initial') {
     const queue = worker?.queue;
     if (!queue) throw new Error('start the worker first');
-    await queue.add('ingest', { uploadId }, { jobId: ingestJobId(uploadId, phase), removeOnComplete: true, removeOnFail: true, attempts: 1 });
+    await queue.add(
+      'ingest',
+      { uploadId },
+      { jobId: ingestJobId(uploadId, phase), removeOnComplete: true, removeOnFail: true, attempts: 1 },
+    );
   }
 
   /** Polls PostgreSQL until the upload reaches one of the statuses. */
@@ -96,6 +107,13 @@ export async function createWorkerHarness(label: string) {
 
   async function close() {
     await worker?.close().catch(() => {});
+    // The queue's keys live under this harness's own prefix: remove them all.
+    let cursor = '0';
+    do {
+      const [next, keys] = await connection.scan(cursor, 'MATCH', `${prefix}:*`, 'COUNT', 500);
+      if (keys.length) await connection.del(...keys);
+      cursor = next;
+    } while (cursor !== '0');
     connection.disconnect();
     await scratch.drop();
     rmSync(storageDir, { recursive: true, force: true });

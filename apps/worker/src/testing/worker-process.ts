@@ -4,7 +4,12 @@ import { fileURLToPath } from 'node:url';
 const repoRoot = fileURLToPath(new URL('../../../../', import.meta.url));
 const workerMain = fileURLToPath(new URL('../main.ts', import.meta.url));
 
-export type WorkerProcess = { child: ChildProcess; output: () => string; stop: () => Promise<void>; kill: () => Promise<void> };
+export type WorkerProcess = {
+  child: ChildProcess;
+  output: () => string;
+  stop: () => Promise<void>;
+  kill: () => Promise<void>;
+};
 
 /** Runs the real worker (src/main.ts) as a child process and resolves once it says it is ready. */
 export async function spawnWorkerProcess(env: Record<string, string>): Promise<WorkerProcess> {

@@ -40,7 +40,10 @@ function derivedLabel(tier: PeerTierName, p: PeerKeyParts): string {
 }
 
 /** Procedures with what their peer group keys are made of, and the names for labels. */
-export async function loadPeerKeyParts(db: Executor, procedureIds: readonly string[]): Promise<PeerKeyParts[]> {
+export async function loadPeerKeyParts(
+  db: Executor,
+  procedureIds: readonly string[],
+): Promise<PeerKeyParts[]> {
   const result: PeerKeyParts[] = [];
   for (let i = 0; i < procedureIds.length; i += 5000) {
     const chunk = procedureIds.slice(i, i + 5000);
@@ -110,7 +113,10 @@ export async function resolvePeerMembership(
         label: derivedLabel(m.tier, m.part),
       }));
       for (let i = 0; i < values.length; i += 1000) {
-        await db.insert(peerGroups).values(values.slice(i, i + 1000)).onConflictDoNothing();
+        await db
+          .insert(peerGroups)
+          .values(values.slice(i, i + 1000))
+          .onConflictDoNothing();
       }
       groups = await loadGroups();
       byKey = new Map(groups.map((g) => [`${g.analyteId}|${g.tier}|${g.key}`, g]));
@@ -119,7 +125,10 @@ export async function resolvePeerMembership(
   const byId = new Map(groups.map((g) => [g.id, g]));
 
   // A lot has few assignments: read them all rather than sending every procedure id.
-  const assignments = await db.select().from(peerGroupAssignments).where(eq(peerGroupAssignments.controlLotId, controlLotId));
+  const assignments = await db
+    .select()
+    .from(peerGroupAssignments)
+    .where(eq(peerGroupAssignments.controlLotId, controlLotId));
   const assigned = new Map(assignments.map((a) => [`${a.procedureId}|${a.tier}`, a.peerGroupId]));
 
   // Follow merges to the surviving group; a cycle (a data error) stops at the last group seen.
@@ -136,7 +145,8 @@ export async function resolvePeerMembership(
   for (const p of parts) {
     const entry: Partial<Record<PeerTierName, PeerGroupRef>> = {};
     for (const tier of PEER_TIERS) {
-      const start = assigned.get(`${p.id}|${tier}`) ?? byKey.get(`${p.analyteId}|${tier}|${derivedPeerKey(tier, p)}`)?.id;
+      const start =
+        assigned.get(`${p.id}|${tier}`) ?? byKey.get(`${p.analyteId}|${tier}|${derivedPeerKey(tier, p)}`)?.id;
       const group = start ? surviving(start) : undefined;
       if (group) entry[tier] = { id: group.id, tier: group.tier, key: group.key, label: group.label };
     }

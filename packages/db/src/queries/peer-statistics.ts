@@ -1,6 +1,12 @@
 import { and, asc, eq, gte, inArray, isNull, lte, or, sql } from 'drizzle-orm';
 import { peerStatistics as computePeerStatistics, pool, type PeerStatistics } from '@plumbline/stats';
-import { peerExclusions, peerGroups, peerStatistics, peerStatisticsRequests, type ExcludedLab } from '../schema/peer-groups.ts';
+import {
+  peerExclusions,
+  peerGroups,
+  peerStatistics,
+  peerStatisticsRequests,
+  type ExcludedLab,
+} from '../schema/peer-groups.ts';
 import { procedures } from '../schema/procedures.ts';
 import { qcSummaries } from '../schema/qc-data.ts';
 import type { Database, Executor } from '../client.ts';
@@ -18,7 +24,10 @@ export type PeerStatisticsSettings = {
 const RECOMPUTE_LOCK_KEY = 740_100_001;
 
 /** Adds targets to the recompute list; call it in the transaction that changes the QC data. */
-export async function requestPeerStatistics(db: Executor, targets: readonly PeerStatisticsTarget[]): Promise<void> {
+export async function requestPeerStatistics(
+  db: Executor,
+  targets: readonly PeerStatisticsTarget[],
+): Promise<void> {
   const unique = dedupeTargets(targets);
   for (let i = 0; i < unique.length; i += 1000) {
     await db
@@ -41,7 +50,10 @@ export async function requestPeerStatistics(db: Executor, targets: readonly Peer
  * already running elsewhere to finish first. A request renewed while the recompute ran (new data
  * committed meanwhile) keeps its place for the next drain. Returns the number of targets recomputed.
  */
-export async function drainPeerStatisticsRequests(db: Database, settings: PeerStatisticsSettings = {}): Promise<number> {
+export async function drainPeerStatisticsRequests(
+  db: Database,
+  settings: PeerStatisticsSettings = {},
+): Promise<number> {
   return db.transaction(async (tx) => {
     await tx.execute(sql`select pg_advisory_xact_lock(${RECOMPUTE_LOCK_KEY})`);
     return drainClaimed(tx, settings);
@@ -57,7 +69,9 @@ export async function drainPeerStatisticsRequestsIfFree(
   settings: PeerStatisticsSettings = {},
 ): Promise<number | null> {
   return db.transaction(async (tx) => {
-    const lock = await tx.execute<{ locked: boolean }>(sql`select pg_try_advisory_xact_lock(${RECOMPUTE_LOCK_KEY}) as locked`);
+    const lock = await tx.execute<{ locked: boolean }>(
+      sql`select pg_try_advisory_xact_lock(${RECOMPUTE_LOCK_KEY}) as locked`,
+    );
     if (!lock.rows[0]?.locked) return null;
     return drainClaimed(tx, settings);
   });
@@ -67,7 +81,10 @@ export async function drainPeerStatisticsRequestsIfFree(
  * Drains until nothing is waiting, without ever waiting for another drainer: whoever holds the lock
  * checks again after releasing it, so a request committed before this call is always served by someone.
  */
-export async function drainPeerStatisticsUntilIdle(db: Database, settings: PeerStatisticsSettings = {}): Promise<void> {
+export async function drainPeerStatisticsUntilIdle(
+  db: Database,
+  settings: PeerStatisticsSettings = {},
+): Promise<void> {
   while (true) {
     const drained = await drainPeerStatisticsRequestsIfFree(db, settings);
     if (drained === null) return;
@@ -82,11 +99,18 @@ async function drainClaimed(tx: Executor, settings: PeerStatisticsSettings): Pro
     level: number;
     period: string;
     stamp: string;
-  }>(sql`select control_lot_id, analyte_id, level, period, requested_at::text as stamp from peer_statistics_requests`);
+  }>(
+    sql`select control_lot_id, analyte_id, level, period, requested_at::text as stamp from peer_statistics_requests`,
+  );
   if (claimed.rows.length === 0) return 0;
   await recomputePeerStatistics(
     tx,
-    claimed.rows.map((r) => ({ controlLotId: r.control_lot_id, analyteId: r.analyte_id, level: r.level, period: r.period })),
+    claimed.rows.map((r) => ({
+      controlLotId: r.control_lot_id,
+      analyteId: r.analyte_id,
+      level: r.level,
+      period: r.period,
+    })),
     settings,
   );
   for (let i = 0; i < claimed.rows.length; i += 500) {
@@ -94,7 +118,10 @@ async function drainClaimed(tx: Executor, settings: PeerStatisticsSettings): Pro
     await tx.execute(sql`
       delete from peer_statistics_requests
       where (control_lot_id, analyte_id, level, period, requested_at) in (${sql.join(
-        batch.map((r) => sql`(${r.control_lot_id}::uuid, ${r.analyte_id}::uuid, ${r.level}::int, ${r.period}::text, ${r.stamp}::timestamptz)`),
+        batch.map(
+          (r) =>
+            sql`(${r.control_lot_id}::uuid, ${r.analyte_id}::uuid, ${r.level}::int, ${r.period}::text, ${r.stamp}::timestamptz)`,
+        ),
         sql`, `,
       )})`);
   }
@@ -115,7 +142,10 @@ export async function hasPendingPeerStatistics(db: Executor, period?: string): P
  * Recomputes the provisional (version 0) peer statistics of every lot, analyte, level and period that has
  * QC summaries, replacing whatever provisional figures were there. The demo seed and start script call it.
  */
-export async function recomputeAllPeerStatistics(db: Database, settings: PeerStatisticsSettings = {}): Promise<number> {
+export async function recomputeAllPeerStatistics(
+  db: Database,
+  settings: PeerStatisticsSettings = {},
+): Promise<number> {
   return db.transaction(async (tx) => {
     await tx.execute(sql`select pg_advisory_xact_lock(${RECOMPUTE_LOCK_KEY})`);
     const targets = await tx
@@ -228,14 +258,21 @@ async function recomputeLot(
   const exclusionOf = (procedureId: string, level: number, period: string) =>
     exclusions.length === 0
       ? undefined
-      : exclusions.find((e) => e.procedureId === procedureId && e.period === period && (e.level === null || e.level === level));
+      : exclusions.find(
+          (e) =>
+            e.procedureId === procedureId && e.period === period && (e.level === null || e.level === level),
+        );
 
   const rows: (typeof peerStatistics.$inferInsert)[] = [];
 
   // Period figures of each target.
   for (const target of targets) {
-    const entries = (series.get(`${target.analyteId}|${target.level}`) ?? []).filter((s) => s.period === target.period);
-    for (const g of groupFigures(membership, entries, settings, (id) => exclusionOf(id, target.level, target.period))) {
+    const entries = (series.get(`${target.analyteId}|${target.level}`) ?? []).filter(
+      (s) => s.period === target.period,
+    );
+    for (const g of groupFigures(membership, entries, settings, (id) =>
+      exclusionOf(id, target.level, target.period),
+    )) {
       rows.push({ ...g, level: target.level, period: target.period, scope: 'period', version: 0 });
     }
   }
@@ -264,7 +301,11 @@ async function recomputeLot(
   const periodConditions = targets
     .filter((t) => groupIdsOf(t.analyteId).length > 0)
     .map((t) =>
-      and(inArray(peerStatistics.peerGroupId, groupIdsOf(t.analyteId)), eq(peerStatistics.level, t.level), eq(peerStatistics.period, t.period)),
+      and(
+        inArray(peerStatistics.peerGroupId, groupIdsOf(t.analyteId)),
+        eq(peerStatistics.level, t.level),
+        eq(peerStatistics.period, t.period),
+      ),
     );
   if (periodConditions.length) {
     await tx
@@ -274,12 +315,22 @@ async function recomputeLot(
   const cumulativeConditions = [...firstPeriod.values()]
     .filter((t) => groupIdsOf(t.analyteId).length > 0)
     .map((t) =>
-      and(inArray(peerStatistics.peerGroupId, groupIdsOf(t.analyteId)), eq(peerStatistics.level, t.level), gte(peerStatistics.period, t.period)),
+      and(
+        inArray(peerStatistics.peerGroupId, groupIdsOf(t.analyteId)),
+        eq(peerStatistics.level, t.level),
+        gte(peerStatistics.period, t.period),
+      ),
     );
   if (cumulativeConditions.length) {
     await tx
       .delete(peerStatistics)
-      .where(and(eq(peerStatistics.version, 0), eq(peerStatistics.scope, 'cumulative'), or(...cumulativeConditions)));
+      .where(
+        and(
+          eq(peerStatistics.version, 0),
+          eq(peerStatistics.scope, 'cumulative'),
+          or(...cumulativeConditions),
+        ),
+      );
   }
   for (let i = 0; i < rows.length; i += 500) {
     await tx.insert(peerStatistics).values(rows.slice(i, i + 500));
@@ -298,7 +349,15 @@ function cumulativeByProcedure(rows: readonly SummaryRow[]): SummaryRow[] {
   for (const [procedureId, parts] of byProcedure) {
     const pooled = parts.length === 1 ? parts[0] : pool(parts);
     const last = parts[parts.length - 1];
-    result.push({ procedureId, analyteId: last.analyteId, level: last.level, period: last.period, n: pooled.n, mean: pooled.mean, sd: pooled.sd });
+    result.push({
+      procedureId,
+      analyteId: last.analyteId,
+      level: last.level,
+      period: last.period,
+      n: pooled.n,
+      mean: pooled.mean,
+      sd: pooled.sd,
+    });
   }
   return result;
 }

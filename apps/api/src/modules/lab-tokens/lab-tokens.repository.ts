@@ -4,10 +4,17 @@ import { labApiTokens, type Executor } from '@plumbline/db';
 export type LabTokenRow = typeof labApiTokens.$inferSelect;
 
 export async function listTokens(db: Executor, labId: string): Promise<LabTokenRow[]> {
-  return db.select().from(labApiTokens).where(eq(labApiTokens.labId, labId)).orderBy(desc(labApiTokens.createdAt));
+  return db
+    .select()
+    .from(labApiTokens)
+    .where(eq(labApiTokens.labId, labId))
+    .orderBy(desc(labApiTokens.createdAt));
 }
 
-export async function insertToken(db: Executor, values: typeof labApiTokens.$inferInsert): Promise<LabTokenRow> {
+export async function insertToken(
+  db: Executor,
+  values: typeof labApiTokens.$inferInsert,
+): Promise<LabTokenRow> {
   const [row] = await db.insert(labApiTokens).values(values).returning();
   return row;
 }

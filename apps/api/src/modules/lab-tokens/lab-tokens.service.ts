@@ -24,11 +24,17 @@ function toToken(row: repo.LabTokenRow): LabApiToken {
 
 async function existingLab(db: Database, principal: Principal, labId: string) {
   assertLabAccess(principal, labId);
-  const [lab] = UUID.test(labId) ? await db.select({ id: labs.id }).from(labs).where(eq(labs.id, labId)).limit(1) : [];
+  const [lab] = UUID.test(labId)
+    ? await db.select({ id: labs.id }).from(labs).where(eq(labs.id, labId)).limit(1)
+    : [];
   if (!lab) throw notFound('Lab');
 }
 
-export async function listLabTokens(db: Database, principal: Principal, labId: string): Promise<LabApiToken[]> {
+export async function listLabTokens(
+  db: Database,
+  principal: Principal,
+  labId: string,
+): Promise<LabApiToken[]> {
   await existingLab(db, principal, labId);
   return (await repo.listTokens(db, labId)).map(toToken);
 }
@@ -63,7 +69,12 @@ export async function createLabToken(
   return { ...toToken(row), token };
 }
 
-export async function revokeLabToken(db: Database, principal: Principal, labId: string, tokenId: string): Promise<void> {
+export async function revokeLabToken(
+  db: Database,
+  principal: Principal,
+  labId: string,
+  tokenId: string,
+): Promise<void> {
   await existingLab(db, principal, labId);
   const row = UUID.test(tokenId) ? await repo.findToken(db, labId, tokenId) : null;
   if (!row) throw notFound('API token');

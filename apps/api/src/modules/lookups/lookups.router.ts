@@ -13,7 +13,11 @@ export function lookupsRouter(deps: AppDeps, requireUser: RequestHandler): Route
 
   router.get('/periods', requireUser, async (_req, res) => {
     const rows = await repo.listPeriods(deps.db);
-    const body: Period[] = rows.map((r) => ({ period: r.period, state: r.state, deadline: r.deadline.toISOString() }));
+    const body: Period[] = rows.map((r) => ({
+      period: r.period,
+      state: r.state,
+      deadline: r.deadline.toISOString(),
+    }));
     res.json(body);
   });
 
@@ -27,7 +31,10 @@ export function lookupsRouter(deps: AppDeps, requireUser: RequestHandler): Route
 
   router.get('/control-lots', requireUser, async (_req, res) => {
     const rows = await repo.listControlLots(deps.db);
-    const body: ControlLotSummary[] = rows.map((r) => ({ ...r, levels: [...r.levels].sort((a, b) => a - b) }));
+    const body: ControlLotSummary[] = rows.map((r) => ({
+      ...r,
+      levels: [...r.levels].sort((a, b) => a - b),
+    }));
     res.json(body);
   });
 

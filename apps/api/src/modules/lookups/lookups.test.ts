@@ -16,14 +16,25 @@ describe('lists for uploading and reading reports', () => {
     const user = await t.makeUser('analyst', (await t.makeLab()).id);
     const res = await request(t.app).get('/api/periods').set('Authorization', user.auth);
     expect(res.status).toBe(200);
-    expect(res.body.map((p: { period: string }) => p.period)).toEqual(['2026-04', '2026-03', '2026-02', '2026-01']);
+    expect(res.body.map((p: { period: string }) => p.period)).toEqual([
+      '2026-04',
+      '2026-03',
+      '2026-02',
+      '2026-01',
+    ]);
     expect(res.body[0]).toEqual({ period: '2026-04', state: 'open', deadline: '2026-04-28T23:59:00.000Z' });
   });
 
   it('when an analyst lists their lab’s procedures, then each comes with analyte, instrument model, method and reagent; another lab gives 404', async () => {
     const { lab, procedures } = await catalogue.makeLabWithProcedures([
       { code: 'GLU1', unit: 'mg/dL' },
-      { code: 'CREA1', analyte: catalogue.analytes.creatinine, model: catalogue.models.y2, method: catalogue.methods.oxidase, reagent: catalogue.reagents.s },
+      {
+        code: 'CREA1',
+        analyte: catalogue.analytes.creatinine,
+        model: catalogue.models.y2,
+        method: catalogue.methods.oxidase,
+        reagent: catalogue.reagents.s,
+      },
     ]);
     const analyst = await t.makeUser('analyst', lab.id);
     const res = await request(t.app).get(`/api/labs/${lab.id}/procedures`).set('Authorization', analyst.auth);
@@ -32,7 +43,12 @@ describe('lists for uploading and reading reports', () => {
       {
         id: procedures[1].id,
         code: 'CREA1',
-        analyte: { code: catalogue.analytes.creatinine.code, name: 'Creatinine', loinc: '14682-9', unit: 'umol/L' },
+        analyte: {
+          code: catalogue.analytes.creatinine.code,
+          name: 'Creatinine',
+          loinc: '14682-9',
+          unit: 'umol/L',
+        },
         instrumentModel: { id: catalogue.models.y2.id, name: 'Testline Y2' },
         method: { id: catalogue.methods.oxidase.id, name: 'Glucose oxidase' },
         reagent: { id: catalogue.reagents.s.id, name: 'Reagent kit S' },
@@ -41,7 +57,9 @@ describe('lists for uploading and reading reports', () => {
       expect.objectContaining({ id: procedures[0].id, code: 'GLU1', unit: 'mg/dL' }),
     ]);
     const other = await t.makeUser('analyst', (await t.makeLab()).id);
-    expect((await request(t.app).get(`/api/labs/${lab.id}/procedures`).set('Authorization', other.auth)).status).toBe(404);
+    expect(
+      (await request(t.app).get(`/api/labs/${lab.id}/procedures`).set('Authorization', other.auth)).status,
+    ).toBe(404);
   });
 
   it('when a user lists control lots, then each has its material, levels and expiry', async () => {

@@ -58,10 +58,12 @@ export type TierCandidate = { tier: keyof typeof tierDescription; labs: number |
 export function peerNote(candidates: readonly TierCandidate[], minLabs: number): string {
   const chosen = candidates.find((c) => c.sufficient);
   const skipped = chosen ? candidates.slice(0, candidates.indexOf(chosen)) : candidates;
-  const countOf = (c: TierCandidate) => (c.labs === null ? 'no labs' : c.labs === 1 ? '1 lab' : `${c.labs} labs`);
+  const countOf = (c: TierCandidate) =>
+    c.labs === null ? 'no labs' : c.labs === 1 ? '1 lab' : `${c.labs} labs`;
   const skippedText = skipped.map((c) => `${countOf(c)} with ${tierDescription[c.tier]}`).join(', ');
   if (!chosen) {
-    if (candidates.every((c) => c.labs === null)) return 'No peer figures exist yet for this control lot and level.';
+    if (candidates.every((c) => c.labs === null))
+      return 'No peer figures exist yet for this control lot and level.';
     return `Too few labs for a peer comparison (${skippedText}; ${minLabs} needed).`;
   }
   const chosenText = `Compared with ${chosen.labs} labs using ${tierDescription[chosen.tier]}.`;

@@ -42,7 +42,9 @@ const february: Record<string, { n: number; mean: number; sd: number }> = {
 /** The report once pending recomputes are done (the worker folds new uploads in within moments). */
 async function report(lab: Lab, period = '2026-02', auth = lab.auth) {
   for (let i = 0; i < 400; i++) {
-    const res = await request(t.app).get(`/api/labs/${lab.id}/peer-report?period=${period}`).set('Authorization', auth);
+    const res = await request(t.app)
+      .get(`/api/labs/${lab.id}/peer-report?period=${period}`)
+      .set('Authorization', auth);
     if (res.status !== 200 || res.body.statisticsPending === false) return res;
     await new Promise((r) => setTimeout(r, 50));
   }
@@ -61,7 +63,10 @@ beforeAll(async () => {
     const analyst = await t.makeUser('analyst', lab.id);
     labs[name] = { id: lab.id, procedureId: procedures[0].id, auth: analyst.auth };
     const lines = ['period,procedure,control_lot,level,n,mean,sd,unit'];
-    for (const [period, data] of [['2026-01', january], ['2026-02', february]] as const) {
+    for (const [period, data] of [
+      ['2026-01', january],
+      ['2026-02', february],
+    ] as const) {
       const x = data[name];
       lines.push(`${period},GLU1,${catalogue.lot.lotNumber},1,${x.n},${x.mean},${x.sd},mmol/L`);
     }
@@ -71,7 +76,9 @@ beforeAll(async () => {
       .field('kind', 'qc-summary')
       .attach('file', Buffer.from(lines.join('\n')), 'summary.csv');
     for (let i = 0; i < 300; i++) {
-      const status = await request(t.app).get(`/api/uploads/${res.body.id}`).set('Authorization', analyst.auth);
+      const status = await request(t.app)
+        .get(`/api/uploads/${res.body.id}`)
+        .set('Authorization', analyst.auth);
       if (status.body.status === 'stored') break;
       if (i === 299) throw new Error(`upload not stored: ${JSON.stringify(status.body)}\n${worker.output()}`);
       await new Promise((r) => setTimeout(r, 50));
@@ -83,13 +90,19 @@ afterAll(async () => {
   await t?.close();
 });
 
-const inputsOf = (data: typeof february, names: string[]) => names.map((n) => ({ id: labs[n].procedureId, ...data[n] }));
+const inputsOf = (data: typeof february, names: string[]) =>
+  names.map((n) => ({ id: labs[n].procedureId, ...data[n] }));
 
 describe('the peer report', () => {
   it('when a lab is in a full instrument group, then its row equals @plumbline/stats on the same inputs', async () => {
     const res = await report(labs.A);
     expect(res.status).toBe(200);
-    expect(res.body).toMatchObject({ period: '2026-02', published: null, statisticsPending: false, lab: { id: labs.A.id } });
+    expect(res.body).toMatchObject({
+      period: '2026-02',
+      published: null,
+      statisticsPending: false,
+      lab: { id: labs.A.id },
+    });
     const row = rowOf(res.body);
 
     const peer = computePeerStatistics(inputsOf(february, ['A', 'B', 'C', 'D']), { minLabs: 3 });
@@ -138,7 +151,11 @@ describe('the peer report', () => {
         'Compared with 4 labs using the same method.',
     );
     expect(row.excluded).toEqual({ reason: 'outlier', note: null });
-    expect(row.flags).toContainEqual({ kind: 'exclusion', severity: 'action', message: expect.stringMatching(/robust range/) });
+    expect(row.flags).toContainEqual({
+      kind: 'exclusion',
+      severity: 'action',
+      message: expect.stringMatching(/robust range/),
+    });
     expect(row.flags).toContainEqual({ kind: 'sdi', severity: 'action', message: expect.any(String) });
   });
 
@@ -158,7 +175,11 @@ describe('the peer report', () => {
     expect(rowB.peer).toMatchObject({ tier: 'instrument', labs: 3 });
     expect(rowB.peer!.mean).toBeCloseTo(peer.mean, 12);
     expect(rowB.excluded).toEqual({ reason: 'manual', note: 'calibration fault reported by the lab' });
-    expect(rowB.flags).toContainEqual({ kind: 'exclusion', severity: 'warning', message: expect.stringMatching(/calibration fault/) });
+    expect(rowB.flags).toContainEqual({
+      kind: 'exclusion',
+      severity: 'warning',
+      message: expect.stringMatching(/calibration fault/),
+    });
     await t.db.delete(peerExclusions);
     await recomputeAllPeerStatistics(t.db);
   });
@@ -169,9 +190,15 @@ describe('the peer report', () => {
       .select()
       .from(peerStatistics)
       .where(and(eq(peerStatistics.period, '2026-02'), eq(peerStatistics.version, 0)));
-    await t.db.insert(peerStatistics).values(
-      provisional.map(({ id: _id, ...row }) => ({ ...row, version: 1, mean: row.mean === null ? null : row.mean + 0.01 })),
-    );
+    await t.db
+      .insert(peerStatistics)
+      .values(
+        provisional.map(({ id: _id, ...row }) => ({
+          ...row,
+          version: 1,
+          mean: row.mean === null ? null : row.mean + 0.01,
+        })),
+      );
     const res = await report(labs.A);
     expect(res.body.published).toMatchObject({ version: 1 });
     const peer = computePeerStatistics(inputsOf(february, ['A', 'B', 'C', 'D']), { minLabs: 3 });

@@ -7,7 +7,11 @@ export type UploadRow = typeof uploads.$inferSelect & { uploaderName: string | n
 const uploadColumns = { upload: uploads, uploaderName: users.name };
 
 export async function findLab(db: Executor, labId: string): Promise<{ id: string; active: boolean } | null> {
-  const [lab] = await db.select({ id: labs.id, active: labs.active }).from(labs).where(eq(labs.id, labId)).limit(1);
+  const [lab] = await db
+    .select({ id: labs.id, active: labs.active })
+    .from(labs)
+    .where(eq(labs.id, labId))
+    .limit(1);
   return lab ?? null;
 }
 
@@ -40,7 +44,12 @@ export async function findSameContent(
   sha256: string,
 ): Promise<{ id: string; filename: string; status: UploadStatus; createdAt: Date } | null> {
   const [row] = await db
-    .select({ id: uploads.id, filename: uploads.filename, status: uploads.status, createdAt: uploads.createdAt })
+    .select({
+      id: uploads.id,
+      filename: uploads.filename,
+      status: uploads.status,
+      createdAt: uploads.createdAt,
+    })
     .from(uploads)
     .where(and(eq(uploads.labId, labId), eq(uploads.sha256, sha256)))
     .orderBy(desc(uploads.createdAt))
@@ -56,7 +65,13 @@ export async function insertUpload(db: Executor, values: typeof uploads.$inferIn
 export async function markConfirmed(db: Executor, id: string, userId: string): Promise<boolean> {
   const rows = await db
     .update(uploads)
-    .set({ status: 'queued', progress: 0, confirmedAt: new Date(), confirmedBy: userId, updatedAt: new Date() })
+    .set({
+      status: 'queued',
+      progress: 0,
+      confirmedAt: new Date(),
+      confirmedBy: userId,
+      updatedAt: new Date(),
+    })
     .where(and(eq(uploads.id, id), eq(uploads.status, 'needs-review'), sql`${uploads.rowsAccepted} > 0`))
     .returning({ id: uploads.id });
   return rows.length === 1;
@@ -71,7 +86,11 @@ export async function markCancelled(db: Executor, id: string): Promise<boolean> 
     .update(uploads)
     .set({ status: 'cancelled', updatedAt: new Date() })
     .where(
-      and(eq(uploads.id, id), inArray(uploads.status, ['queued', 'processing', 'needs-review']), isNull(uploads.storedAt)),
+      and(
+        eq(uploads.id, id),
+        inArray(uploads.status, ['queued', 'processing', 'needs-review']),
+        isNull(uploads.storedAt),
+      ),
     )
     .returning({ id: uploads.id });
   return rows.length === 1;
@@ -90,7 +109,12 @@ export async function findColumnMapping(
   return row ?? null;
 }
 
-export async function saveColumnMapping(db: Executor, labId: string, kind: UploadKind, mapping: ColumnMapping) {
+export async function saveColumnMapping(
+  db: Executor,
+  labId: string,
+  kind: UploadKind,
+  mapping: ColumnMapping,
+) {
   const [row] = await db
     .insert(columnMappings)
     .values({ labId, kind, mapping })
@@ -101,4 +125,3 @@ export async function saveColumnMapping(db: Executor, labId: string, kind: Uploa
     .returning({ mapping: columnMappings.mapping, updatedAt: columnMappings.updatedAt });
   return row;
 }
-

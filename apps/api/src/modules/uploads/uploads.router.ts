@@ -24,7 +24,10 @@ import { badRequest } from '../../errors/app-error.ts';
  * Uploads of QC files and the lab's saved column mappings. `requireUploader` also accepts lab API
  * tokens (POST /uploads and GET /uploads/:id only); everything else needs a signed-in user.
  */
-export function uploadsRouter(deps: AppDeps, auth: { requireUser: RequestHandler; requireUploader: RequestHandler }): Router {
+export function uploadsRouter(
+  deps: AppDeps,
+  auth: { requireUser: RequestHandler; requireUploader: RequestHandler },
+): Router {
   const router = Router();
   const { requireUser, requireUploader } = auth;
 
@@ -59,7 +62,8 @@ export function uploadsRouter(deps: AppDeps, auth: { requireUser: RequestHandler
       maxFileBytes: deps.env.MAX_UPLOAD_BYTES,
       handleFile: (stream) => readHead(stream, PREVIEW_BYTES),
     });
-    if (!body.file) throw badRequest('No file was sent: put the CSV file (or its first lines) in the "file" field.');
+    if (!body.file)
+      throw badRequest('No file was sent: put the CSV file (or its first lines) in the "file" field.');
     res.json(
       await previewUpload(deps, principal, {
         fields: body.fields,
@@ -88,13 +92,21 @@ export function uploadsRouter(deps: AppDeps, auth: { requireUser: RequestHandler
   });
 
   router.get('/labs/:labId/column-mappings/:kind', requireUser, async (req, res) => {
-    res.json(await getColumnMapping(deps, principalOf(req), String(req.params.labId), String(req.params.kind)));
+    res.json(
+      await getColumnMapping(deps, principalOf(req), String(req.params.labId), String(req.params.kind)),
+    );
   });
 
   router.put('/labs/:labId/column-mappings/:kind', requireUser, async (req, res) => {
     const input = parseInput(columnMappingUpdateSchema, req.body);
     res.json(
-      await putColumnMapping(deps, principalOf(req), String(req.params.labId), String(req.params.kind), input.mapping),
+      await putColumnMapping(
+        deps,
+        principalOf(req),
+        String(req.params.labId),
+        String(req.params.kind),
+        input.mapping,
+      ),
     );
   });
 

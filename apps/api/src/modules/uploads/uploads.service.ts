@@ -40,7 +40,8 @@ function uploadLabFor(principal: Principal, requested: string | undefined): stri
     if (requested && requested !== principal.labId) throw notFound('Lab');
     return principal.labId;
   }
-  if (!requested) throw badRequest('A coordinator uploads on behalf of a lab: give its id in the "labId" field.');
+  if (!requested)
+    throw badRequest('A coordinator uploads on behalf of a lab: give its id in the "labId" field.');
   return requested;
 }
 
@@ -61,7 +62,8 @@ function parseUploadFields(fields: Record<string, string>) {
   );
   if (parsed.mapping) {
     const problems = columnMappingProblems(parsed.kind, parsed.mapping);
-    if (problems.length) throw badRequest(`The column mapping is not valid: ${problems.join('; ')}.`, problems);
+    if (problems.length)
+      throw badRequest(`The column mapping is not valid: ${problems.join('; ')}.`, problems);
   }
   return parsed;
 }
@@ -106,7 +108,12 @@ export async function receiveUpload(
         labId,
         entity: 'upload',
         entityId: input.uploadId,
-        details: { kind: fields.kind, filename: input.filename, size: input.stored.size, sha256: input.stored.sha256 },
+        details: {
+          kind: fields.kind,
+          filename: input.filename,
+          size: input.stored.size,
+          sha256: input.stored.sha256,
+        },
       });
     });
     await deps.ingestQueue.enqueue(input.uploadId, 'initial');
@@ -162,7 +169,11 @@ async function visibleUpload(deps: UploadDeps, principal: Principal, id: string)
   return row;
 }
 
-export async function getUploadDetail(deps: UploadDeps, principal: Principal, id: string): Promise<UploadDetail> {
+export async function getUploadDetail(
+  deps: UploadDeps,
+  principal: Principal,
+  id: string,
+): Promise<UploadDetail> {
   const row = await visibleUpload(deps, principal, id);
   return {
     ...toSummary(row),
@@ -173,7 +184,11 @@ export async function getUploadDetail(deps: UploadDeps, principal: Principal, id
   };
 }
 
-export async function listLabUploads(deps: UploadDeps, principal: Principal, labId: string | undefined): Promise<UploadSummary[]> {
+export async function listLabUploads(
+  deps: UploadDeps,
+  principal: Principal,
+  labId: string | undefined,
+): Promise<UploadSummary[]> {
   let scope: string | null;
   if (principal.role === 'coordinator') scope = labId ?? null;
   else {
@@ -184,13 +199,20 @@ export async function listLabUploads(deps: UploadDeps, principal: Principal, lab
   return (await repo.listUploads(deps.db, scope)).map(toSummary);
 }
 
-export async function confirmUpload(deps: UploadDeps, principal: Principal, id: string): Promise<UploadSummary> {
+export async function confirmUpload(
+  deps: UploadDeps,
+  principal: Principal,
+  id: string,
+): Promise<UploadSummary> {
   const row = await visibleUpload(deps, principal, id);
   if (principal.kind !== 'user') throw forbidden('Only a signed-in user can confirm an upload.');
   if (row.status !== 'needs-review') {
     throw conflict(`Only an upload waiting for review can be confirmed; this one is ${row.status}.`);
   }
-  if (row.rowsAccepted === 0) throw conflict('No row of this file is valid, so there is nothing to store. Cancel it and upload a corrected file.');
+  if (row.rowsAccepted === 0)
+    throw conflict(
+      'No row of this file is valid, so there is nothing to store. Cancel it and upload a corrected file.',
+    );
   const confirmed = await deps.db.transaction(async (tx) => {
     const ok = await repo.markConfirmed(tx, id, principal.userId);
     if (ok) {
@@ -210,13 +232,23 @@ export async function confirmUpload(deps: UploadDeps, principal: Principal, id: 
   return toSummary((await repo.findUpload(deps.db, id))!);
 }
 
-export async function cancelUpload(deps: UploadDeps, principal: Principal, id: string): Promise<UploadSummary> {
+export async function cancelUpload(
+  deps: UploadDeps,
+  principal: Principal,
+  id: string,
+): Promise<UploadSummary> {
   const row = await visibleUpload(deps, principal, id);
   if (principal.kind !== 'user') throw forbidden('Only a signed-in user can cancel an upload.');
   const cancelled = await deps.db.transaction(async (tx) => {
     const ok = await repo.markCancelled(tx, id);
     if (ok) {
-      await recordAudit(tx, { kind: 'upload.cancelled', ...actorOf(principal), labId: row.labId, entity: 'upload', entityId: id });
+      await recordAudit(tx, {
+        kind: 'upload.cancelled',
+        ...actorOf(principal),
+        labId: row.labId,
+        entity: 'upload',
+        entityId: id,
+      });
     }
     return ok;
   });
@@ -239,14 +271,20 @@ export async function previewUpload(
 ): Promise<UploadPreview> {
   const kind = parseInput(uploadKindSchema, input.fields.kind, 'kind');
   const labId = uploadLabFor(principal, input.fields.labId || undefined);
-  if (input.head.length >= 2 && ((input.head[0] === 0xff && input.head[1] === 0xfe) || (input.head[0] === 0xfe && input.head[1] === 0xff))) {
+  if (
+    input.head.length >= 2 &&
+    ((input.head[0] === 0xff && input.head[1] === 0xfe) || (input.head[0] === 0xfe && input.head[1] === 0xff))
+  ) {
     throw badRequest(`"${input.filename}" is saved as UTF-16. Save it as UTF-8 (CSV UTF-8) and try again.`);
   }
   const decoded = new TextDecoder('utf-8').decode(input.head);
   const { text, bom } = stripBom(decoded);
   if (text.trim() === '') throw badRequest(`The file "${input.filename}" is empty.`);
   const delimiter = detectDelimiter(firstLine(text));
-  const [headers = [], ...rows] = parseCsvStart(text, delimiter, { maxRows: PREVIEW_ROWS + 1, complete: input.complete });
+  const [headers = [], ...rows] = parseCsvStart(text, delimiter, {
+    maxRows: PREVIEW_ROWS + 1,
+    complete: input.complete,
+  });
   const saved = await repo.findColumnMapping(deps.db, labId, kind);
   const suggestion = suggestMapping(
     kind,
@@ -294,7 +332,14 @@ export async function putColumnMapping(
   if (problems.length) throw badRequest(`The column mapping is not valid: ${problems.join('; ')}.`, problems);
   const saved = await deps.db.transaction(async (tx) => {
     const row = await repo.saveColumnMapping(tx, labId, kind, mapping);
-    await recordAudit(tx, { kind: 'column-mapping.saved', ...actorOf(principal), labId, entity: 'column-mapping', entityId: kind, details: { mapping } });
+    await recordAudit(tx, {
+      kind: 'column-mapping.saved',
+      ...actorOf(principal),
+      labId,
+      entity: 'column-mapping',
+      entityId: kind,
+      details: { mapping },
+    });
     return row;
   });
   return { kind, mapping: saved.mapping, updatedAt: saved.updatedAt.toISOString() };

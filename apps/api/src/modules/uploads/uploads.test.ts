@@ -1,7 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { readdirSync } from 'node:fs';
-import { join } from 'node:path';
 import { eq } from 'drizzle-orm';
 import { auditEvents, columnMappings, qcSummaries, uploads } from '@plumbline/db';
 import { createQcCatalogue, type QcCatalogue } from '@plumbline/db/testing';
@@ -31,7 +30,12 @@ async function labWithAnalyst(code = 'GLU1') {
   return { lab, procedure: procedures[0], analyst };
 }
 
-function upload(auth: string, content: string, fields: Record<string, string> = { kind: 'qc-summary' }, filename = 'qc.csv') {
+function upload(
+  auth: string,
+  content: string,
+  fields: Record<string, string> = { kind: 'qc-summary' },
+  filename = 'qc.csv',
+) {
   let req = request(t.app).post('/api/uploads').set('Authorization', auth);
   for (const [name, value] of Object.entries(fields)) req = req.field(name, value);
   return req.attach('file', Buffer.from(content, 'utf8'), filename);
@@ -49,11 +53,22 @@ async function waitFor(auth: string, id: string, statuses: string[]) {
 describe('uploading a QC file', () => {
   it('when an analyst uploads a valid summary file, then it is accepted (202), stored, and listed', async () => {
     const { lab, analyst } = await labWithAnalyst();
-    const res = await upload(analyst.auth, summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`]));
+    const res = await upload(
+      analyst.auth,
+      summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`]),
+    );
     expect(res.status).toBe(202);
     expect(res.body).toEqual({ id: expect.any(String), status: 'queued' });
     const done = await waitFor(analyst.auth, res.body.id, ['stored', 'needs-review', 'failed']);
-    expect(done).toMatchObject({ status: 'stored', progress: 1, rowsTotal: 1, rowsAccepted: 1, rowsRejected: 0, errors: [], via: 'user' });
+    expect(done).toMatchObject({
+      status: 'stored',
+      progress: 1,
+      rowsTotal: 1,
+      rowsAccepted: 1,
+      rowsRejected: 0,
+      errors: [],
+      via: 'user',
+    });
     expect(done.sha256).toMatch(/^[0-9a-f]{64}$/);
     expect(done.uploadedBy).toEqual({ id: analyst.id, name: analyst.name });
 
@@ -70,7 +85,11 @@ describe('uploading a QC file', () => {
     const res = await request(t.app)
       .post('/api/uploads')
       .set('Authorization', analyst.auth)
-      .attach('file', Buffer.from(summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},2,20,16,0.3,mmol/L`])), 'late-fields.csv')
+      .attach(
+        'file',
+        Buffer.from(summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},2,20,16,0.3,mmol/L`])),
+        'late-fields.csv',
+      )
       .field('kind', 'qc-summary');
     expect(res.status).toBe(202);
     expect((await waitFor(analyst.auth, res.body.id, ['stored', 'failed'])).status).toBe('stored');
@@ -88,14 +107,27 @@ describe('uploading a QC file', () => {
       ]),
     );
     const review = await waitFor(analyst.auth, res.body.id, ['needs-review', 'stored', 'failed']);
-    expect(review).toMatchObject({ status: 'needs-review', rowsTotal: 3, rowsAccepted: 1, rowsRejected: 2, errorsTruncated: false });
+    expect(review).toMatchObject({
+      status: 'needs-review',
+      rowsTotal: 3,
+      rowsAccepted: 1,
+      rowsRejected: 2,
+      errorsTruncated: false,
+    });
     expect(review.errors).toEqual([
       { row: 3, column: 'sd', code: 'sd_not_positive', message: expect.any(String) },
-      { row: 4, column: 'level', code: 'unknown_level', message: expect.stringMatching(/levels 1, 2, not 3/) },
+      {
+        row: 4,
+        column: 'level',
+        code: 'unknown_level',
+        message: expect.stringMatching(/levels 1, 2, not 3/),
+      },
     ]);
     expect(await t.db.select().from(qcSummaries).where(eq(qcSummaries.labId, lab.id))).toEqual([]);
 
-    const confirm = await request(t.app).post(`/api/uploads/${res.body.id}/confirm`).set('Authorization', analyst.auth);
+    const confirm = await request(t.app)
+      .post(`/api/uploads/${res.body.id}/confirm`)
+      .set('Authorization', analyst.auth);
     expect(confirm.status).toBe(200);
     expect(confirm.body.status).toBe('queued');
     const stored = await waitFor(analyst.auth, res.body.id, ['stored', 'failed']);
@@ -104,22 +136,36 @@ describe('uploading a QC file', () => {
     const rows = await t.db.select().from(qcSummaries).where(eq(qcSummaries.labId, lab.id));
     expect(rows.map((r) => r.level)).toEqual([1]);
 
-    const again = await request(t.app).post(`/api/uploads/${res.body.id}/confirm`).set('Authorization', analyst.auth);
+    const again = await request(t.app)
+      .post(`/api/uploads/${res.body.id}/confirm`)
+      .set('Authorization', analyst.auth);
     expect(again.status).toBe(409);
-    const cancelStored = await request(t.app).post(`/api/uploads/${res.body.id}/cancel`).set('Authorization', analyst.auth);
+    const cancelStored = await request(t.app)
+      .post(`/api/uploads/${res.body.id}/cancel`)
+      .set('Authorization', analyst.auth);
     expect(cancelStored.status).toBe(409);
     expect(cancelStored.body.error.message).toMatch(/stored/);
   });
 
   it('when a file waiting for review is cancelled, then nothing of it is stored', async () => {
     const { lab, analyst } = await labWithAnalyst();
-    const res = await upload(analyst.auth, summaryFile([`2026-03,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`, `2026-03,NOPE,x,1,1,a,b,c`]));
+    const res = await upload(
+      analyst.auth,
+      summaryFile([
+        `2026-03,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`,
+        `2026-03,NOPE,x,1,1,a,b,c`,
+      ]),
+    );
     await waitFor(analyst.auth, res.body.id, ['needs-review']);
-    const cancel = await request(t.app).post(`/api/uploads/${res.body.id}/cancel`).set('Authorization', analyst.auth);
+    const cancel = await request(t.app)
+      .post(`/api/uploads/${res.body.id}/cancel`)
+      .set('Authorization', analyst.auth);
     expect(cancel.status).toBe(200);
     expect(cancel.body.status).toBe('cancelled');
     expect(await t.db.select().from(qcSummaries).where(eq(qcSummaries.labId, lab.id))).toEqual([]);
-    const confirm = await request(t.app).post(`/api/uploads/${res.body.id}/confirm`).set('Authorization', analyst.auth);
+    const confirm = await request(t.app)
+      .post(`/api/uploads/${res.body.id}/confirm`)
+      .set('Authorization', analyst.auth);
     expect(confirm.status).toBe(409);
     const audit = await t.db.select().from(auditEvents).where(eq(auditEvents.entityId, res.body.id));
     expect(audit.map((a) => a.kind)).toEqual(expect.arrayContaining(['upload.received', 'upload.cancelled']));
@@ -137,7 +183,10 @@ describe('uploading a QC file', () => {
     await waitFor(analyst.auth, second.body.id, ['stored']);
     expect((await t.db.select().from(qcSummaries).where(eq(qcSummaries.labId, lab.id))).length).toBe(1);
 
-    const changed = await upload(analyst.auth, summaryFile([`2026-01,GLU1,${catalogue.lot.lotNumber},1,22,5.6,0.12,mmol/L`]));
+    const changed = await upload(
+      analyst.auth,
+      summaryFile([`2026-01,GLU1,${catalogue.lot.lotNumber},1,22,5.6,0.12,mmol/L`]),
+    );
     expect(changed.body.duplicateOf).toBeUndefined();
     await waitFor(analyst.auth, changed.body.id, ['stored']);
     const rows = await t.db.select().from(qcSummaries).where(eq(qcSummaries.labId, lab.id));
@@ -155,7 +204,9 @@ describe('uploading a QC file', () => {
 
   it('when the file is larger than the limit, then 413 and nothing is kept', async () => {
     const { lab, analyst } = await labWithAnalyst();
-    const big = summaryFile(Array.from({ length: 600 }, () => `2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`));
+    const big = summaryFile(
+      Array.from({ length: 600 }, () => `2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`),
+    );
     expect(big.length).toBeGreaterThan(20000);
     const before = readdirSync(t.storageDir, { recursive: true }).length;
     const res = await upload(analyst.auth, big);
@@ -169,9 +220,15 @@ describe('uploading a QC file', () => {
 
   it('when the request is not multipart, has no file or an unknown kind, then a specific error', async () => {
     const { analyst } = await labWithAnalyst();
-    const json = await request(t.app).post('/api/uploads').set('Authorization', analyst.auth).send({ kind: 'qc-summary' });
+    const json = await request(t.app)
+      .post('/api/uploads')
+      .set('Authorization', analyst.auth)
+      .send({ kind: 'qc-summary' });
     expect(json.status).toBe(415);
-    const noFile = await request(t.app).post('/api/uploads').set('Authorization', analyst.auth).field('kind', 'qc-summary');
+    const noFile = await request(t.app)
+      .post('/api/uploads')
+      .set('Authorization', analyst.auth)
+      .field('kind', 'qc-summary');
     expect(noFile.status).toBe(400);
     expect(noFile.body.error.message).toMatch(/No file/);
     const badKind = await upload(analyst.auth, 'a,b\n1,2\n', { kind: 'patients' });
@@ -180,7 +237,10 @@ describe('uploading a QC file', () => {
     const empty = await upload(analyst.auth, '');
     expect(empty.status).toBe(400);
     expect(empty.body.error.message).toMatch(/empty/);
-    const badMapping = await upload(analyst.auth, 'a\n1\n', { kind: 'qc-summary', mapping: '{"average": "a"}' });
+    const badMapping = await upload(analyst.auth, 'a\n1\n', {
+      kind: 'qc-summary',
+      mapping: '{"average": "a"}',
+    });
     expect(badMapping.status).toBe(400);
     expect(badMapping.body.error.message).toMatch(/'average' is not a column/);
   });
@@ -202,16 +262,36 @@ describe('another lab', () => {
   it('when an analyst of another lab asks for an upload, confirms or cancels it, then 404', async () => {
     const { analyst } = await labWithAnalyst();
     const other = await labWithAnalyst();
-    const res = await upload(analyst.auth, summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`]));
+    const res = await upload(
+      analyst.auth,
+      summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`]),
+    );
     for (const path of [`/api/uploads/${res.body.id}`]) {
       const get = await request(t.app).get(path).set('Authorization', other.analyst.auth);
       expect(get.status).toBe(404);
     }
-    expect((await request(t.app).post(`/api/uploads/${res.body.id}/cancel`).set('Authorization', other.analyst.auth)).status).toBe(404);
-    expect((await request(t.app).post(`/api/uploads/${res.body.id}/confirm`).set('Authorization', other.analyst.auth)).status).toBe(404);
-    const list = await request(t.app).get(`/api/uploads?labId=${analyst.labId}`).set('Authorization', other.analyst.auth);
+    expect(
+      (
+        await request(t.app)
+          .post(`/api/uploads/${res.body.id}/cancel`)
+          .set('Authorization', other.analyst.auth)
+      ).status,
+    ).toBe(404);
+    expect(
+      (
+        await request(t.app)
+          .post(`/api/uploads/${res.body.id}/confirm`)
+          .set('Authorization', other.analyst.auth)
+      ).status,
+    ).toBe(404);
+    const list = await request(t.app)
+      .get(`/api/uploads?labId=${analyst.labId}`)
+      .set('Authorization', other.analyst.auth);
     expect(list.status).toBe(404);
-    const onBehalf = await upload(other.analyst.auth, 'x\n1\n', { kind: 'qc-summary', labId: analyst.labId! });
+    const onBehalf = await upload(other.analyst.auth, 'x\n1\n', {
+      kind: 'qc-summary',
+      labId: analyst.labId!,
+    });
     expect(onBehalf.status).toBe(404);
   });
 });
@@ -228,25 +308,48 @@ describe('lab API tokens', () => {
     expect(created.body.token).toMatch(/^plb_/);
     const token = `Bearer ${created.body.token}`;
 
-    const listed = await request(t.app).get(`/api/labs/${lab.id}/api-tokens`).set('Authorization', supervisor.auth);
-    expect(listed.body).toEqual([expect.objectContaining({ id: created.body.id, name: 'Middleware nightly push', prefix: created.body.token.slice(0, 10) })]);
+    const listed = await request(t.app)
+      .get(`/api/labs/${lab.id}/api-tokens`)
+      .set('Authorization', supervisor.auth);
+    expect(listed.body).toEqual([
+      expect.objectContaining({
+        id: created.body.id,
+        name: 'Middleware nightly push',
+        prefix: created.body.token.slice(0, 10),
+      }),
+    ]);
     expect(JSON.stringify(listed.body)).not.toContain(created.body.token);
 
-    const pushed = await upload(token, summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`]));
+    const pushed = await upload(
+      token,
+      summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`]),
+    );
     expect(pushed.status).toBe(202);
     const status = await waitFor(token, pushed.body.id, ['stored']);
     expect(status).toMatchObject({ via: 'api-token', uploadedBy: null, labId: lab.id });
 
     expect((await request(t.app).get('/api/uploads').set('Authorization', token)).status).toBe(403);
-    expect((await request(t.app).get(`/api/labs/${lab.id}/peer-report?period=2026-02`).set('Authorization', token)).status).toBe(403);
-    expect((await request(t.app).post(`/api/uploads/${pushed.body.id}/cancel`).set('Authorization', token)).status).toBe(403);
+    expect(
+      (await request(t.app).get(`/api/labs/${lab.id}/peer-report?period=2026-02`).set('Authorization', token))
+        .status,
+    ).toBe(403);
+    expect(
+      (await request(t.app).post(`/api/uploads/${pushed.body.id}/cancel`).set('Authorization', token)).status,
+    ).toBe(403);
 
-    const revoked = await request(t.app).delete(`/api/labs/${lab.id}/api-tokens/${created.body.id}`).set('Authorization', supervisor.auth);
+    const revoked = await request(t.app)
+      .delete(`/api/labs/${lab.id}/api-tokens/${created.body.id}`)
+      .set('Authorization', supervisor.auth);
     expect(revoked.status).toBe(204);
-    const refused = await upload(token, summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`]));
+    const refused = await upload(
+      token,
+      summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`]),
+    );
     expect(refused.status).toBe(401);
     expect(refused.body.error.message).toMatch(/revoked/);
-    expect((await request(t.app).get(`/api/uploads/${pushed.body.id}`).set('Authorization', token)).status).toBe(401);
+    expect(
+      (await request(t.app).get(`/api/uploads/${pushed.body.id}`).set('Authorization', token)).status,
+    ).toBe(401);
     const audit = await t.db.select().from(auditEvents).where(eq(auditEvents.entityId, created.body.id));
     expect(audit.map((a) => a.kind).sort()).toEqual(['lab-token.created', 'lab-token.revoked']);
   });
@@ -254,17 +357,35 @@ describe('lab API tokens', () => {
   it('when an analyst or another lab’s supervisor manages tokens, then 403 or 404', async () => {
     const { lab, analyst } = await labWithAnalyst();
     const otherSupervisor = await t.makeUser('supervisor', (await labWithAnalyst()).lab.id);
-    expect((await request(t.app).post(`/api/labs/${lab.id}/api-tokens`).set('Authorization', analyst.auth).send({ name: 'x' })).status).toBe(403);
-    expect((await request(t.app).get(`/api/labs/${lab.id}/api-tokens`).set('Authorization', otherSupervisor.auth)).status).toBe(404);
+    expect(
+      (
+        await request(t.app)
+          .post(`/api/labs/${lab.id}/api-tokens`)
+          .set('Authorization', analyst.auth)
+          .send({ name: 'x' })
+      ).status,
+    ).toBe(403);
+    expect(
+      (await request(t.app).get(`/api/labs/${lab.id}/api-tokens`).set('Authorization', otherSupervisor.auth))
+        .status,
+    ).toBe(404);
   });
 
   it('when a token of another lab asks for an upload, then 404', async () => {
     const { analyst } = await labWithAnalyst();
-    const res = await upload(analyst.auth, summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`]));
+    const res = await upload(
+      analyst.auth,
+      summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`]),
+    );
     const { lab: otherLab } = await labWithAnalyst();
     const supervisor = await t.makeUser('supervisor', otherLab.id);
-    const created = await request(t.app).post(`/api/labs/${otherLab.id}/api-tokens`).set('Authorization', supervisor.auth).send({ name: 'LIS' });
-    const get = await request(t.app).get(`/api/uploads/${res.body.id}`).set('Authorization', `Bearer ${created.body.token}`);
+    const created = await request(t.app)
+      .post(`/api/labs/${otherLab.id}/api-tokens`)
+      .set('Authorization', supervisor.auth)
+      .send({ name: 'LIS' });
+    const get = await request(t.app)
+      .get(`/api/uploads/${res.body.id}`)
+      .set('Authorization', `Bearer ${created.body.token}`);
     expect(get.status).toBe(404);
   });
 });
@@ -272,13 +393,20 @@ describe('lab API tokens', () => {
 describe('column mappings', () => {
   const ownHeaders = 'Monat;Kennung;Charge;Stufe;Anzahl;Mittel;Streuung;Einheit';
   const mapping = {
-    period: 'Monat', procedure: 'Kennung', control_lot: 'Charge', level: 'Stufe',
-    n: 'Anzahl', mean: 'Mittel', sd: 'Streuung', unit: 'Einheit',
+    period: 'Monat',
+    procedure: 'Kennung',
+    control_lot: 'Charge',
+    level: 'Stufe',
+    n: 'Anzahl',
+    mean: 'Mittel',
+    sd: 'Streuung',
+    unit: 'Einheit',
   };
 
   it('when a file is uploaded with a mapping, then the mapping is saved and offered for the next file, which uses it', async () => {
     const { lab, analyst } = await labWithAnalyst();
-    const file = (level: number) => `${ownHeaders}\n2026-02;GLU1;${catalogue.lot.lotNumber};${level};20;5,5;0,1;mmol/L\n`;
+    const file = (level: number) =>
+      `${ownHeaders}\n2026-02;GLU1;${catalogue.lot.lotNumber};${level};20;5,5;0,1;mmol/L\n`;
 
     const before = await request(t.app)
       .post('/api/uploads/preview')
@@ -286,13 +414,23 @@ describe('column mappings', () => {
       .field('kind', 'qc-summary')
       .attach('file', Buffer.from(file(1)), 'own.csv');
     expect(before.status).toBe(200);
-    expect(before.body).toMatchObject({ delimiter: ';', decimalComma: true, mappingSource: 'detected', headers: ownHeaders.split(';') });
+    expect(before.body).toMatchObject({
+      delimiter: ';',
+      decimalComma: true,
+      mappingSource: 'detected',
+      headers: ownHeaders.split(';'),
+    });
     expect(before.body.missingColumns).toContain('mean');
 
-    const first = await upload(analyst.auth, file(1), { kind: 'qc-summary', mapping: JSON.stringify(mapping) });
+    const first = await upload(analyst.auth, file(1), {
+      kind: 'qc-summary',
+      mapping: JSON.stringify(mapping),
+    });
     expect(first.status).toBe(202);
     await waitFor(analyst.auth, first.body.id, ['stored']);
-    const saved = await request(t.app).get(`/api/labs/${lab.id}/column-mappings/qc-summary`).set('Authorization', analyst.auth);
+    const saved = await request(t.app)
+      .get(`/api/labs/${lab.id}/column-mappings/qc-summary`)
+      .set('Authorization', analyst.auth);
     expect(saved.body).toMatchObject({ kind: 'qc-summary', mapping });
 
     const after = await request(t.app)
@@ -300,12 +438,20 @@ describe('column mappings', () => {
       .set('Authorization', analyst.auth)
       .field('kind', 'qc-summary')
       .attach('file', Buffer.from(file(2)), 'own.csv');
-    expect(after.body).toMatchObject({ mappingSource: 'saved', suggestedMapping: mapping, missingColumns: [] });
-    expect(after.body.rows).toEqual([['2026-02', 'GLU1', catalogue.lot.lotNumber, '2', '20', '5,5', '0,1', 'mmol/L']]);
+    expect(after.body).toMatchObject({
+      mappingSource: 'saved',
+      suggestedMapping: mapping,
+      missingColumns: [],
+    });
+    expect(after.body.rows).toEqual([
+      ['2026-02', 'GLU1', catalogue.lot.lotNumber, '2', '20', '5,5', '0,1', 'mmol/L'],
+    ]);
 
     const second = await upload(analyst.auth, file(2));
     expect((await waitFor(analyst.auth, second.body.id, ['stored', 'failed'])).status).toBe('stored');
-    expect((await t.db.select().from(qcSummaries).where(eq(qcSummaries.labId, lab.id))).map((r) => r.level).sort()).toEqual([1, 2]);
+    expect(
+      (await t.db.select().from(qcSummaries).where(eq(qcSummaries.labId, lab.id))).map((r) => r.level).sort(),
+    ).toEqual([1, 2]);
   });
 
   it('when a mapping is saved with PUT, then it is returned; another lab gets 404; a bad mapping gets 400', async () => {
@@ -318,7 +464,13 @@ describe('column mappings', () => {
     const [row] = await t.db.select().from(columnMappings).where(eq(columnMappings.labId, lab.id));
     expect(row.mapping).toEqual({ measured_at: 'When', value: 'Result' });
     const other = await labWithAnalyst();
-    expect((await request(t.app).get(`/api/labs/${lab.id}/column-mappings/qc-values`).set('Authorization', other.analyst.auth)).status).toBe(404);
+    expect(
+      (
+        await request(t.app)
+          .get(`/api/labs/${lab.id}/column-mappings/qc-values`)
+          .set('Authorization', other.analyst.auth)
+      ).status,
+    ).toBe(404);
     const twice = await request(t.app)
       .put(`/api/labs/${lab.id}/column-mappings/qc-values`)
       .set('Authorization', analyst.auth)

@@ -40,7 +40,7 @@ export function AxisBottom<T>({
   const ticks = tickValues<T>(scale, tickCount, values);
   const range = (scale as unknown as { range: () => number[] }).range();
   return (
-    <g aria-hidden="true" className="text-[11px]" fill="var(--color-slate-600)">
+    <g aria-hidden="true" className="text-[12px]" fill="var(--color-slate-600)">
       <line x1={range[0]} x2={range[range.length - 1]} y1={y} y2={y} stroke="var(--color-slate-400)" />
       {ticks.map((tick) => {
         const x = position(scale, tick);
@@ -59,7 +59,7 @@ export function AxisBottom<T>({
           y={y + labelY}
           textAnchor="middle"
           fill="var(--color-slate-700)"
-          className="text-[12px] font-medium"
+          className="text-[13px] font-medium"
         >
           {label}
         </text>
@@ -91,7 +91,7 @@ export function AxisLeft<T>({
   const range = (scale as unknown as { range: () => number[] }).range();
   const middle = (range[0] + range[range.length - 1]) / 2;
   return (
-    <g aria-hidden="true" className="text-[11px]" fill="var(--color-slate-600)">
+    <g aria-hidden="true" className="text-[12px]" fill="var(--color-slate-600)">
       <line x1={x} x2={x} y1={range[0]} y2={range[range.length - 1]} stroke="var(--color-slate-400)" />
       {ticks.map((tick) => {
         const y = position(scale, tick);
@@ -110,7 +110,7 @@ export function AxisLeft<T>({
           transform={`translate(${x - 42},${middle}) rotate(-90)`}
           textAnchor="middle"
           fill="var(--color-slate-700)"
-          className="text-[12px] font-medium"
+          className="text-[13px] font-medium"
         >
           {label}
         </text>

@@ -133,7 +133,11 @@ export function ChartTable({
         <thead>
           <tr className="border-b border-slate-200 text-slate-500">
             {headers.map((header, index) => (
-              <th key={header} scope="col" className={`px-2 py-1 font-medium ${index === 0 ? 'text-left' : 'text-right'}`}>
+              <th
+                key={header}
+                scope="col"
+                className={`px-2 py-1 font-medium ${index === 0 ? 'text-left' : 'text-right'}`}
+              >
                 {header}
               </th>
             ))}
@@ -141,10 +145,17 @@ export function ChartTable({
         </thead>
         <tbody>
           {rows.map((row) => (
-            <tr key={row.key} className={`border-b border-slate-100 ${row.emphasis ? 'bg-plumb-50 font-semibold' : ''}`}>
+            <tr
+              key={row.key}
+              className={`border-b border-slate-100 ${row.emphasis ? 'bg-plumb-50 font-semibold' : ''}`}
+            >
               {row.cells.map((cell, index) =>
                 index === 0 ? (
-                  <th key={index} scope="row" className="px-2 py-1 text-left font-medium whitespace-nowrap text-slate-800">
+                  <th
+                    key={index}
+                    scope="row"
+                    className="px-2 py-1 text-left font-medium whitespace-nowrap text-slate-800"
+                  >
                     {cell}
                   </th>
                 ) : (
@@ -161,8 +172,20 @@ export function ChartTable({
         type="button"
         onClick={() =>
           saveFile(
-            new Blob([tableCsv(headers, rows.map((row) => row.cells))], { type: 'text/csv;charset=utf-8' }),
-            filename ?? `${caption.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').toLowerCase()}.csv`,
+            new Blob(
+              [
+                tableCsv(
+                  headers,
+                  rows.map((row) => row.cells),
+                ),
+              ],
+              { type: 'text/csv;charset=utf-8' },
+            ),
+            filename ??
+              `${caption
+                .replace(/[^A-Za-z0-9]+/g, '-')
+                .replace(/^-|-$/g, '')
+                .toLowerCase()}.csv`,
           )
         }
         className="mt-2 text-xs font-medium text-plumb-700 underline decoration-plumb-300 underline-offset-2 hover:text-plumb-900"

@@ -25,7 +25,8 @@ export function plotArea(size: ChartSize) {
 export function symmetricSdiLimit(values: readonly (number | null | undefined)[], minimum = 4): number {
   let largest = 0;
   for (const value of values) {
-    if (value !== null && value !== undefined && Number.isFinite(value)) largest = Math.max(largest, Math.abs(value));
+    if (value !== null && value !== undefined && Number.isFinite(value))
+      largest = Math.max(largest, Math.abs(value));
   }
   return Math.max(minimum, Math.ceil(largest + 0.25));
 }

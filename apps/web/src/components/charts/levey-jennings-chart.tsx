@@ -28,6 +28,12 @@ export const leveyJenningsSize: ChartSize = {
 
 const WARNING_ONLY = new Set(['1-2s']);
 
+/** The rules written beside a point: the rejection rules when there are any (a 1-3s point is also 1-2s). */
+export function labelledRules(rules: readonly string[]): string[] {
+  const rejections = rules.filter((rule) => !WARNING_ONLY.has(rule));
+  return rejections.length > 0 ? rejections : [...rules];
+}
+
 /** 'reject' when a rejection rule is broken, 'warn' on 1-2s alone, else 'accept'. */
 export function pointVerdict(rules: readonly string[]): 'accept' | 'warn' | 'reject' {
   if (rules.length === 0) return 'accept';
@@ -58,7 +64,12 @@ export function leveyJenningsScales(
 function formatWhen(at: string): string {
   const date = new Date(at);
   if (Number.isNaN(date.getTime())) return at;
-  return new Intl.DateTimeFormat(undefined, { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' }).format(date);
+  return new Intl.DateTimeFormat(undefined, {
+    day: 'numeric',
+    month: 'short',
+    hour: '2-digit',
+    minute: '2-digit',
+  }).format(date);
 }
 
 function formatDay(date: Date): string {
@@ -129,19 +140,39 @@ export function LeveyJenningsChart({
       size={size}
       testId={`levey-jennings-level-${level}`}
       description={`Daily control values of level ${level} in ${unit} against ${targetLabel} (mean ${fmt(target.mean)}, SD ${fmt(target.sd)}). Lines at the mean and at ±1, ±2 and ±3 SD. ${
-        violations === 0 ? 'No multirule violation.' : `${violations} value${violations === 1 ? '' : 's'} break${violations === 1 ? 's' : ''} a multirule rule; each is marked and labelled with its rule.`
+        violations === 0
+          ? 'No multirule violation.'
+          : `${violations} value${violations === 1 ? '' : 's'} break${violations === 1 ? 's' : ''} a multirule rule; each is marked and labelled with its rule.`
       }`}
       readout={active ? describe(active) : null}
       legend={[
-        { key: 'values', symbol: <MarkerSwatch path={markerPath(symbolCircle, 40)} fill="var(--color-plumb-600)" stroke="white" />, label: 'Control value' },
+        {
+          key: 'values',
+          symbol: (
+            <MarkerSwatch path={markerPath(symbolCircle, 40)} fill="var(--color-plumb-600)" stroke="white" />
+          ),
+          label: 'Control value',
+        },
         {
           key: 'warn',
-          symbol: <MarkerSwatch path={markerPath(severityStyles.warning.symbol, 60)} fill={severityStyles.warning.fill} stroke={severityStyles.warning.stroke} />,
+          symbol: (
+            <MarkerSwatch
+              path={markerPath(severityStyles.warning.symbol, 60)}
+              fill={severityStyles.warning.fill}
+              stroke={severityStyles.warning.stroke}
+            />
+          ),
           label: 'Warning (1-2s)',
         },
         {
           key: 'reject',
-          symbol: <MarkerSwatch path={markerPath(severityStyles.action.symbol, 60)} fill={severityStyles.action.fill} stroke={severityStyles.action.stroke} />,
+          symbol: (
+            <MarkerSwatch
+              path={markerPath(severityStyles.action.symbol, 60)}
+              fill={severityStyles.action.fill}
+              stroke={severityStyles.action.stroke}
+            />
+          ),
           label: 'Rejection (1-3s, 2-2s, R-4s, 4-1s, 10-x)',
         },
         { key: 'two', symbol: <LineSwatch stroke="var(--color-brass-500)" dash="6 3" />, label: '±2 SD' },
@@ -154,13 +185,31 @@ export function LeveyJenningsChart({
           rows={points.map((p) => ({
             key: p.key,
             emphasis: p.rules.length > 0,
-            cells: [formatWhen(p.at), p.run ?? '—', fmt(p.value), formatSigned(zOf(p.value)), p.rules.length > 0 ? p.rules.join(', ') : '—'],
+            cells: [
+              formatWhen(p.at),
+              p.run ?? '—',
+              fmt(p.value),
+              formatSigned(zOf(p.value)),
+              p.rules.length > 0 ? p.rules.join(', ') : '—',
+            ],
           }))}
         />
       }
     >
-      <AxisBottom scale={x} y={area.bottom} tickCount={8} format={(d: Date) => formatDay(d)} label="Date measured" />
-      <AxisLeft scale={y} x={area.left} tickCount={8} format={(v: number) => v.toFixed(Math.max(0, decimals))} label={unit} />
+      <AxisBottom
+        scale={x}
+        y={area.bottom}
+        tickCount={8}
+        format={(d: Date) => formatDay(d)}
+        label="Date measured"
+      />
+      <AxisLeft
+        scale={y}
+        x={area.left}
+        tickCount={8}
+        format={(v: number) => v.toFixed(Math.max(0, decimals))}
+        label={unit}
+      />
       <g aria-hidden="true">
         {guides.map((guide) => (
           <g key={guide.k}>
@@ -174,7 +223,13 @@ export function LeveyJenningsChart({
               strokeDasharray={guide.dash}
               strokeWidth={guide.k === 0 ? 1.5 : 1.25}
             />
-            <text x={area.right + 6} y={y(guide.value)} dy="0.32em" className="text-[11px]" fill="var(--color-slate-700)">
+            <text
+              x={area.right + 6}
+              y={y(guide.value)}
+              dy="0.32em"
+              className="text-[11px]"
+              fill="var(--color-slate-700)"
+            >
               {guide.label} <tspan fill="var(--color-slate-500)">{fmt(guide.value)}</tspan>
             </text>
           </g>
@@ -184,13 +239,16 @@ export function LeveyJenningsChart({
       <g>
         {points.map((point, index) => {
           const verdict = pointVerdict(point.rules);
-          const style = verdict === 'reject' ? severityStyles.action : verdict === 'warn' ? severityStyles.warning : null;
+          const style =
+            verdict === 'reject' ? severityStyles.action : verdict === 'warn' ? severityStyles.warning : null;
           const px = x(new Date(point.at));
           const py = y(point.value);
           const labelAbove = py > area.top + 24;
           return (
             <g key={point.key} transform={`translate(${px},${py})`} data-point-key={point.key}>
-              {navigation.active === index ? <circle r={9} fill="none" stroke="var(--color-brass-500)" strokeWidth={2} /> : null}
+              {navigation.active === index ? (
+                <circle r={9} fill="none" stroke="var(--color-brass-500)" strokeWidth={2} />
+              ) : null}
               <path
                 {...navigation.pointProps(index)}
                 role="img"
@@ -206,7 +264,7 @@ export function LeveyJenningsChart({
               {point.rules.length > 0 ? (
                 <text
                   aria-hidden="true"
-                  data-rule-label={point.rules.join(' ')}
+                  data-rule-label={labelledRules(point.rules).join(' ')}
                   y={labelAbove ? -10 : 18}
                   textAnchor="middle"
                   className="text-[11px] font-semibold"
@@ -215,7 +273,7 @@ export function LeveyJenningsChart({
                   strokeWidth={3}
                   paintOrder="stroke"
                 >
-                  {point.rules.join(' ')}
+                  {labelledRules(point.rules).join(' ')}
                 </text>
               ) : null}
             </g>

@@ -1,7 +1,12 @@
 import { render, screen, within } from '@testing-library/react';
 import { scaleLinear } from 'd3';
 import { describe, expect, it } from 'vitest';
-import { PeerDistributionChart, peerDistributionSize, stackRows, type LabMeanPoint } from './peer-distribution-chart.tsx';
+import {
+  PeerDistributionChart,
+  peerDistributionSize,
+  stackRows,
+  type LabMeanPoint,
+} from './peer-distribution-chart.tsx';
 
 // Invented potassium level-1 lab means of a peer group; ours reads high; one lab was left out.
 const points: LabMeanPoint[] = [
@@ -22,17 +27,28 @@ describe('PeerDistributionChart', () => {
     const low = Math.min(3.7, peer.mean - 3.5 * peer.sd);
     const high = Math.max(4.42, peer.mean + 3.5 * peer.sd);
     const pad = (high - low) * 0.03;
-    const x = scaleLinear().domain([low - pad, high + pad]).range([margin.left, width - margin.right]).nice();
-    const own = screen.getByRole('img', { name: /^Your lab: mean 4\.420 mmol\/L, \+4\.50 SD from the peer mean$/ });
+    const x = scaleLinear()
+      .domain([low - pad, high + pad])
+      .range([margin.left, width - margin.right])
+      .nice();
+    const own = screen.getByRole('img', {
+      name: /^Your lab: mean 4\.420 mmol\/L, \+4\.50 SD from the peer mean$/,
+    });
     const match = /translate\(([-\d.e]+),/.exec(own.parentElement!.getAttribute('transform')!);
     expect(Number(match![1])).toBeCloseTo(x(4.42), 6);
     expect(screen.getByTestId('peer-distribution').querySelectorAll('[data-own-lab="true"]')).toHaveLength(1);
-    expect(screen.getByRole('img', { name: /^Other lab 1: mean 3\.700 mmol\/L, −7\.50 SD from the peer mean, left out of the peer figures$/ })).toBeTruthy();
+    expect(
+      screen.getByRole('img', {
+        name: /^Other lab 1: mean 3\.700 mmol\/L, −7\.50 SD from the peer mean, left out of the peer figures$/,
+      }),
+    ).toBeTruthy();
   });
 
   it('when the values are shown as a table, then every lab mean is listed, ours named and the others numbered', () => {
     render(<PeerDistributionChart points={points} peer={peer} unit="mmol/L" decimals={2} />);
-    const rows = within(screen.getByRole('table', { name: /values$/ })).getAllByRole('row').slice(1);
+    const rows = within(screen.getByRole('table', { name: /values$/ }))
+      .getAllByRole('row')
+      .slice(1);
     expect(rows.map((row) => [...row.children].map((cell) => cell.textContent))).toEqual([
       ['Other lab 1', '3.700', '\u22127.50', 'no, left out'],
       ['Other lab 2', '4.110', '\u22120.67', 'yes'],

@@ -78,10 +78,16 @@ export function PeerDistributionChart({
   // Dots shrink when the group is large, so every lab still fits above the axis.
   const available = area.bottom - area.top;
   let diameter = 12;
-  let rows = stackRows(points.map((p) => ({ key: p.key, x: x(p.mean) })), diameter);
+  let rows = stackRows(
+    points.map((p) => ({ key: p.key, x: x(p.mean) })),
+    diameter,
+  );
   while (diameter > 3 && (Math.max(0, ...rows.values()) + 1) * diameter > available) {
     diameter -= 1;
-    rows = stackRows(points.map((p) => ({ key: p.key, x: x(p.mean) })), diameter);
+    rows = stackRows(
+      points.map((p) => ({ key: p.key, x: x(p.mean) })),
+      diameter,
+    );
   }
   const area2 = (diameter / 2) ** 2 * Math.PI;
 
@@ -95,7 +101,12 @@ export function PeerDistributionChart({
   const guides = [-3, -2, 0, 2, 3].map((k) => ({
     k,
     value: peer.mean + k * peer.sd,
-    stroke: k === 0 ? 'var(--color-plumb-800)' : Math.abs(k) === 2 ? 'var(--color-brass-500)' : 'var(--color-alarm-700)',
+    stroke:
+      k === 0
+        ? 'var(--color-plumb-800)'
+        : Math.abs(k) === 2
+          ? 'var(--color-brass-500)'
+          : 'var(--color-alarm-700)',
     dash: Math.abs(k) === 2 ? '6 3' : undefined,
     label: k === 0 ? 'Peer mean' : `${k > 0 ? '+' : '−'}${Math.abs(k)} SD`,
   }));
@@ -109,9 +120,35 @@ export function PeerDistributionChart({
       description={`Each dot is one lab's mean in ${unit}. The solid line is the peer mean (${fmt(peer.mean)}), the dashed lines ±2 SD and the outer lines ±3 SD of the peer group. Your lab is the square; other labs are not named; crosses are labs left out of the peer figures.`}
       readout={active ? describe(active) : null}
       legend={[
-        { key: 'own', symbol: <MarkerSwatch path={markerPath(ownLabShape, 60)} fill="var(--color-plumb-700)" stroke="white" />, label: 'Your lab' },
-        { key: 'other', symbol: <MarkerSwatch path={markerPath(symbolCircle, 50)} fill="var(--color-slate-300)" stroke="var(--color-slate-500)" />, label: 'Another lab' },
-        { key: 'excluded', symbol: <MarkerSwatch path={markerPath(symbolX, 50)} fill="var(--color-slate-500)" stroke="var(--color-slate-600)" />, label: 'Left out of the peer figures' },
+        {
+          key: 'own',
+          symbol: (
+            <MarkerSwatch path={markerPath(ownLabShape, 60)} fill="var(--color-plumb-700)" stroke="white" />
+          ),
+          label: 'Your lab',
+        },
+        {
+          key: 'other',
+          symbol: (
+            <MarkerSwatch
+              path={markerPath(symbolCircle, 50)}
+              fill="var(--color-slate-300)"
+              stroke="var(--color-slate-500)"
+            />
+          ),
+          label: 'Another lab',
+        },
+        {
+          key: 'excluded',
+          symbol: (
+            <MarkerSwatch
+              path={markerPath(symbolX, 50)}
+              fill="var(--color-slate-500)"
+              stroke="var(--color-slate-600)"
+            />
+          ),
+          label: 'Left out of the peer figures',
+        },
         { key: 'mean', symbol: <LineSwatch stroke="var(--color-plumb-800)" />, label: 'Peer mean' },
         { key: 'two', symbol: <LineSwatch stroke="var(--color-brass-500)" dash="6 3" />, label: '±2 SD' },
         { key: 'three', symbol: <LineSwatch stroke="var(--color-alarm-700)" />, label: '±3 SD' },
@@ -123,12 +160,23 @@ export function PeerDistributionChart({
           rows={ordered.map((p) => ({
             key: p.key,
             emphasis: p.isOwnLab,
-            cells: [names.get(p.key) ?? '', fmt(p.mean), formatSigned(sdiOf(p.mean)), p.excluded ? 'no, left out' : 'yes'],
+            cells: [
+              names.get(p.key) ?? '',
+              fmt(p.mean),
+              formatSigned(sdiOf(p.mean)),
+              p.excluded ? 'no, left out' : 'yes',
+            ],
           }))}
         />
       }
     >
-      <AxisBottom scale={x} y={area.bottom} tickCount={8} format={(v: number) => String(v)} label={`Lab mean (${unit})`} />
+      <AxisBottom
+        scale={x}
+        y={area.bottom}
+        tickCount={8}
+        format={(v: number) => String(v)}
+        label={`Lab mean (${unit})`}
+      />
       <g aria-hidden="true">
         {guides.map((guide) => (
           <g key={guide.k}>
@@ -141,7 +189,13 @@ export function PeerDistributionChart({
               strokeDasharray={guide.dash}
               strokeWidth={guide.k === 0 ? 1.75 : 1.25}
             />
-            <text x={x(guide.value)} y={area.top - 12} textAnchor="middle" className="text-[11px]" fill="var(--color-slate-700)">
+            <text
+              x={x(guide.value)}
+              y={area.top - 12}
+              textAnchor="middle"
+              className="text-[11px]"
+              fill="var(--color-slate-700)"
+            >
               {guide.label}
             </text>
           </g>
@@ -155,7 +209,9 @@ export function PeerDistributionChart({
           const shape = point.isOwnLab ? ownLabShape : point.excluded ? symbolX : symbolCircle;
           return (
             <g key={point.key} transform={`translate(${cx},${cy})`}>
-              {navigation.active === index ? <circle r={diameter / 2 + 4} fill="none" stroke="var(--color-brass-500)" strokeWidth={2} /> : null}
+              {navigation.active === index ? (
+                <circle r={diameter / 2 + 4} fill="none" stroke="var(--color-brass-500)" strokeWidth={2} />
+              ) : null}
               <path
                 {...navigation.pointProps(index)}
                 role="img"
@@ -163,7 +219,13 @@ export function PeerDistributionChart({
                 data-own-lab={point.isOwnLab ? 'true' : undefined}
                 data-mean={point.mean}
                 d={markerPath(shape, point.isOwnLab ? area2 * 1.6 : area2)}
-                fill={point.isOwnLab ? 'var(--color-plumb-700)' : point.excluded ? 'var(--color-slate-500)' : 'var(--color-slate-300)'}
+                fill={
+                  point.isOwnLab
+                    ? 'var(--color-plumb-700)'
+                    : point.excluded
+                      ? 'var(--color-slate-500)'
+                      : 'var(--color-slate-300)'
+                }
                 stroke={point.isOwnLab ? 'white' : 'var(--color-slate-500)'}
                 strokeWidth={1.25}
                 className="cursor-pointer outline-none"
@@ -189,7 +251,7 @@ export function PeerDistributionChart({
                 strokeWidth={3}
                 paintOrder="stroke"
               >
-                Your lab
+                {p.excluded ? 'Your lab (left out)' : 'Your lab'}
               </text>
             );
           })}

@@ -67,7 +67,14 @@ export const ownLabShape = symbolSquare;
 export function SeverityIcon({ severity, size = 12 }: { severity: Severity; size?: number }) {
   const style = severityStyles[severity];
   return (
-    <svg width={size} height={size} viewBox="-7 -7 14 14" aria-hidden="true" focusable="false" className="shrink-0">
+    <svg
+      width={size}
+      height={size}
+      viewBox="-7 -7 14 14"
+      aria-hidden="true"
+      focusable="false"
+      className="shrink-0"
+    >
       <path d={markerPath(style.symbol, 70)} fill={style.fill} stroke={style.stroke} strokeWidth={1.5} />
     </svg>
   );

@@ -18,6 +18,14 @@ describe('table CSV', () => {
   });
 
   it('when a table is written, then each record ends with CRLF (RFC 4180 §2.1)', () => {
-    expect(tableCsv(['Lab', 'SDI'], [['Your lab', '+2.50'], ['Other lab 1', null]])).toBe('Lab,SDI\r\nYour lab,+2.50\r\nOther lab 1,\r\n');
+    expect(
+      tableCsv(
+        ['Lab', 'SDI'],
+        [
+          ['Your lab', '+2.50'],
+          ['Other lab 1', null],
+        ],
+      ),
+    ).toBe('Lab,SDI\r\nYour lab,+2.50\r\nOther lab 1,\r\n');
   });
 });

@@ -13,6 +13,9 @@ export function csvCell(value: string | number | null | undefined): string {
 }
 
 /** Header line and rows, lines ending in CRLF. */
-export function tableCsv(headers: readonly string[], rows: readonly (readonly (string | number | null | undefined)[])[]): string {
+export function tableCsv(
+  headers: readonly string[],
+  rows: readonly (readonly (string | number | null | undefined)[])[],
+): string {
   return `${[headers, ...rows].map((row) => row.map(csvCell).join(',')).join('\r\n')}\r\n`;
 }

@@ -14,7 +14,9 @@ const sdis: TrendChartPoint[] = [
 ];
 
 function translation(element: Element) {
-  const match = /translate\(([-\d.e]+),([-\d.e]+)\)/.exec(element.parentElement?.getAttribute('transform') ?? '');
+  const match = /translate\(([-\d.e]+),([-\d.e]+)\)/.exec(
+    element.parentElement?.getAttribute('transform') ?? '',
+  );
   return { x: Number(match?.[1]), y: Number(match?.[2]) };
 }
 
@@ -23,11 +25,22 @@ describe('TrendChart', () => {
     render(<TrendChart points={sdis} measure="sdi" title="SDI, last 6 months" />);
     const { width, height, margin } = trendChartSize;
     // One slot per month, half a slot of padding at each end; ±4 SD (the ±3 guides always show).
-    const x = scalePoint<string>().domain(sdis.map((p) => p.period)).range([margin.left, width - margin.right]).padding(0.5);
-    const y = scaleLinear().domain([-4, 4]).range([height - margin.bottom, margin.top]);
+    const x = scalePoint<string>()
+      .domain(sdis.map((p) => p.period))
+      .range([margin.left, width - margin.right])
+      .padding(0.5);
+    const y = scaleLinear()
+      .domain([-4, 4])
+      .range([height - margin.bottom, margin.top]);
     const figure = screen.getByTestId('trend-chart-sdi');
     const marks = figure.querySelectorAll('[data-period]');
-    expect([...marks].map((m) => m.getAttribute('data-period'))).toEqual(['2026-06', '2026-07', '2026-09', '2026-10', '2026-11']);
+    expect([...marks].map((m) => m.getAttribute('data-period'))).toEqual([
+      '2026-06',
+      '2026-07',
+      '2026-09',
+      '2026-10',
+      '2026-11',
+    ]);
     for (const mark of marks) {
       const point = sdis.find((p) => p.period === mark.getAttribute('data-period'))!;
       const at = translation(mark);
@@ -35,7 +48,9 @@ describe('TrendChart', () => {
       expect(at.y).toBeCloseTo(y(point.value!), 6);
     }
     // Flags by the thresholds of METHODS.md §3 (|SDI| ≤ 1 fine, ≤ 2 acceptable, ≤ 3 warning, > 3 action).
-    const severities = Object.fromEntries([...marks].map((m) => [m.getAttribute('data-period'), m.getAttribute('data-severity')]));
+    const severities = Object.fromEntries(
+      [...marks].map((m) => [m.getAttribute('data-period'), m.getAttribute('data-severity')]),
+    );
     expect(severities).toEqual({
       '2026-06': 'fine',
       '2026-07': 'acceptable',
@@ -52,7 +67,9 @@ describe('TrendChart', () => {
 
   it('when the values are shown as a table, then every month is listed with its SDI and flag in words', () => {
     render(<TrendChart points={sdis} measure="sdi" title="SDI, last 6 months" />);
-    const rows = within(screen.getByRole('table', { name: /values$/ })).getAllByRole('row').slice(1);
+    const rows = within(screen.getByRole('table', { name: /values$/ }))
+      .getAllByRole('row')
+      .slice(1);
     expect(rows.map((row) => [...row.children].map((cell) => cell.textContent).slice(1))).toEqual([
       ['+0.40', 'Fine'],
       ['+1.20', 'Acceptable'],
@@ -76,7 +93,9 @@ describe('TrendChart', () => {
     );
     const figure = screen.getByTestId('trend-chart-cvr');
     const { height, margin } = trendChartSize;
-    const y = scaleLinear().domain([0, 2.5]).range([height - margin.bottom, margin.top]);
+    const y = scaleLinear()
+      .domain([0, 2.5])
+      .range([height - margin.bottom, margin.top]);
     const november = figure.querySelector('[data-period="2026-11"]')!;
     expect(translation(november).y).toBeCloseTo(y(1.7), 6);
     // CVR ≤ 1 fine, ≤ 1.5 acceptable, ≤ 2 warning (METHODS.md §3).

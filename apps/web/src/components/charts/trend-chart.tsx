@@ -2,7 +2,13 @@
 // 1, 1.5 and 2 guides). Each month's point has the shape and colour of its flag; months without a
 // figure leave a gap in the line.
 import { line, scalePoint, scaleLinear } from 'd3';
-import { classifyCvr, classifySdi, DEFAULT_CVR_THRESHOLDS, DEFAULT_SDI_THRESHOLDS, type FlagThresholds } from '@plumbline/stats';
+import {
+  classifyCvr,
+  classifySdi,
+  DEFAULT_CVR_THRESHOLDS,
+  DEFAULT_SDI_THRESHOLDS,
+  type FlagThresholds,
+} from '@plumbline/stats';
 import { formatPeriod } from '../../utils/format.ts';
 import { AxisBottom, AxisLeft } from './axis.tsx';
 import { ChartFigure, ChartTable, LineSwatch, MarkerSwatch } from './chart-figure.tsx';
@@ -29,10 +35,16 @@ function shortPeriod(period: string): string {
   const match = /^(\d{4})-(\d{2})$/.exec(period);
   if (!match) return period;
   const date = new Date(Date.UTC(Number(match[1]), Number(match[2]) - 1, 1));
-  return new Intl.DateTimeFormat(undefined, { month: 'short', year: '2-digit', timeZone: 'UTC' }).format(date);
+  return new Intl.DateTimeFormat(undefined, { month: 'short', year: '2-digit', timeZone: 'UTC' }).format(
+    date,
+  );
 }
 
-export function trendScales(points: readonly TrendChartPoint[], measure: TrendMeasure, size: ChartSize = trendChartSize) {
+export function trendScales(
+  points: readonly TrendChartPoint[],
+  measure: TrendMeasure,
+  size: ChartSize = trendChartSize,
+) {
   const area = plotArea(size);
   const x = scalePoint<string>()
     .domain(points.map((p) => p.period))
@@ -42,7 +54,13 @@ export function trendScales(points: readonly TrendChartPoint[], measure: TrendMe
   const domain: [number, number] =
     measure === 'sdi'
       ? [-symmetricSdiLimit(values), symmetricSdiLimit(values)]
-      : [0, Math.max(2.5, Math.ceil(Math.max(0, ...values.filter((v): v is number => v !== null)) * 2 + 0.5) / 2)];
+      : [
+          0,
+          Math.max(
+            2.5,
+            Math.ceil(Math.max(0, ...values.filter((v): v is number => v !== null)) * 2 + 0.5) / 2,
+          ),
+        ];
   const y = scaleLinear().domain(domain).range(area.yRange);
   return { x, y };
 }
@@ -70,7 +88,10 @@ export function TrendChart({
     measure === 'sdi' ? classifySdi(value, thresholds) : classifyCvr(value, thresholds);
   const withValues = points
     .map((point, index) => ({ point, index }))
-    .filter((entry): entry is { point: { period: string; value: number }; index: number } => entry.point.value !== null);
+    .filter(
+      (entry): entry is { point: { period: string; value: number }; index: number } =>
+        entry.point.value !== null,
+    );
   const navigation = usePointNavigation(withValues.length);
   const active = navigation.active !== null ? withValues[navigation.active] : null;
   const path =
@@ -88,15 +109,50 @@ export function TrendChart({
     measure === 'sdi'
       ? [
           { value: 0, stroke: 'var(--color-slate-500)', dash: undefined, label: '0' },
-          { value: thresholds.acceptable, stroke: 'var(--color-brass-500)', dash: '5 3', label: `+${thresholds.acceptable}` },
-          { value: -thresholds.acceptable, stroke: 'var(--color-brass-500)', dash: '5 3', label: `−${thresholds.acceptable}` },
-          { value: thresholds.warning, stroke: 'var(--color-alarm-700)', dash: undefined, label: `+${thresholds.warning}` },
-          { value: -thresholds.warning, stroke: 'var(--color-alarm-700)', dash: undefined, label: `−${thresholds.warning}` },
+          {
+            value: thresholds.acceptable,
+            stroke: 'var(--color-brass-500)',
+            dash: '5 3',
+            label: `+${thresholds.acceptable}`,
+          },
+          {
+            value: -thresholds.acceptable,
+            stroke: 'var(--color-brass-500)',
+            dash: '5 3',
+            label: `−${thresholds.acceptable}`,
+          },
+          {
+            value: thresholds.warning,
+            stroke: 'var(--color-alarm-700)',
+            dash: undefined,
+            label: `+${thresholds.warning}`,
+          },
+          {
+            value: -thresholds.warning,
+            stroke: 'var(--color-alarm-700)',
+            dash: undefined,
+            label: `−${thresholds.warning}`,
+          },
         ]
       : [
-          { value: thresholds.fine, stroke: 'var(--color-slate-500)', dash: undefined, label: String(thresholds.fine) },
-          { value: thresholds.acceptable, stroke: 'var(--color-brass-500)', dash: '5 3', label: String(thresholds.acceptable) },
-          { value: thresholds.warning, stroke: 'var(--color-alarm-700)', dash: undefined, label: String(thresholds.warning) },
+          {
+            value: thresholds.fine,
+            stroke: 'var(--color-slate-500)',
+            dash: undefined,
+            label: String(thresholds.fine),
+          },
+          {
+            value: thresholds.acceptable,
+            stroke: 'var(--color-brass-500)',
+            dash: '5 3',
+            label: String(thresholds.acceptable),
+          },
+          {
+            value: thresholds.warning,
+            stroke: 'var(--color-alarm-700)',
+            dash: undefined,
+            label: String(thresholds.warning),
+          },
         ];
 
   return (
@@ -113,7 +169,11 @@ export function TrendChart({
       readout={active ? describe(active.point.period, active.point.value) : null}
       legend={[
         { key: 'line', symbol: <LineSwatch stroke="var(--color-plumb-700)" />, label: `Your lab's ${name}` },
-        { key: 'warning-line', symbol: <LineSwatch stroke="var(--color-brass-500)" dash="5 3" />, label: 'Warning limit' },
+        {
+          key: 'warning-line',
+          symbol: <LineSwatch stroke="var(--color-brass-500)" dash="5 3" />,
+          label: 'Warning limit',
+        },
         { key: 'action-line', symbol: <LineSwatch stroke="var(--color-alarm-700)" />, label: 'Action limit' },
         ...(['fine', 'acceptable', 'warning', 'action'] as const).map((severity) => ({
           key: severity,
@@ -143,7 +203,14 @@ export function TrendChart({
       }
     >
       <AxisBottom scale={x} y={area.bottom} format={shortPeriod} label="Month" />
-      <AxisLeft scale={y} x={area.left} tickCount={6} format={(v: number) => (measure === 'sdi' ? formatSigned(v, 0) : String(v))} label={name} gridTo={area.right} />
+      <AxisLeft
+        scale={y}
+        x={area.left}
+        tickCount={6}
+        format={(v: number) => (measure === 'sdi' ? formatSigned(v, 0) : String(v))}
+        label={name}
+        gridTo={area.right}
+      />
       <g aria-hidden="true">
         {guides.map((guide) => (
           <line
@@ -166,7 +233,9 @@ export function TrendChart({
           const style = severityStyles[severity];
           return (
             <g key={point.period} transform={`translate(${x(point.period) ?? 0},${y(point.value)})`}>
-              {navigation.active === index ? <circle r={10} fill="none" stroke="var(--color-brass-500)" strokeWidth={2} /> : null}
+              {navigation.active === index ? (
+                <circle r={10} fill="none" stroke="var(--color-brass-500)" strokeWidth={2} />
+              ) : null}
               <path
                 {...navigation.pointProps(index)}
                 role="img"

@@ -15,7 +15,9 @@ const points: TwoLevelPoint[] = [
 
 /** The translate(x,y) of the group a marker is drawn in. */
 function translation(element: Element): { x: number; y: number } {
-  const match = /translate\(([-\d.e]+),([-\d.e]+)\)/.exec(element.parentElement?.getAttribute('transform') ?? '');
+  const match = /translate\(([-\d.e]+),([-\d.e]+)\)/.exec(
+    element.parentElement?.getAttribute('transform') ?? '',
+  );
   if (!match) throw new Error('the marker is not placed with a translate()');
   return { x: Number(match[1]), y: Number(match[2]) };
 }
@@ -26,8 +28,12 @@ describe('TwoLevelSdiPlot', () => {
     // The expected position from the chart's published size: both axes run from −4 to +4 SD
     // (the ±3 guides must always show), inside the margins; SVG y grows downwards.
     const { width, height, margin } = twoLevelPlotSize;
-    const x = scaleLinear().domain([-4, 4]).range([margin.left, width - margin.right]);
-    const y = scaleLinear().domain([-4, 4]).range([height - margin.bottom, margin.top]);
+    const x = scaleLinear()
+      .domain([-4, 4])
+      .range([margin.left, width - margin.right]);
+    const y = scaleLinear()
+      .domain([-4, 4])
+      .range([height - margin.bottom, margin.top]);
 
     const own = screen.getByRole('img', { name: /^Your lab: SDI \+2\.50 at level 1, \+1\.80 at level 2$/ });
     const at = translation(own);
@@ -49,11 +55,21 @@ describe('TwoLevelSdiPlot', () => {
   });
 
   it('when our lab lies beyond 4 SD, then the axes widen to the next whole SD and still place it', () => {
-    render(<TwoLevelSdiPlot points={[...points.filter((p) => !p.isOwnLab), { key: 'own', x: 5.2, y: 4.9, isOwnLab: true }]} xLevel={1} yLevel={2} />);
+    render(
+      <TwoLevelSdiPlot
+        points={[...points.filter((p) => !p.isOwnLab), { key: 'own', x: 5.2, y: 4.9, isOwnLab: true }]}
+        xLevel={1}
+        yLevel={2}
+      />,
+    );
     const { width, height, margin } = twoLevelPlotSize;
     // 5.2 needs an axis to ±6 (the chart keeps a quarter SD of room before the next whole SD).
-    const x = scaleLinear().domain([-6, 6]).range([margin.left, width - margin.right]);
-    const y = scaleLinear().domain([-6, 6]).range([height - margin.bottom, margin.top]);
+    const x = scaleLinear()
+      .domain([-6, 6])
+      .range([margin.left, width - margin.right]);
+    const y = scaleLinear()
+      .domain([-6, 6])
+      .range([height - margin.bottom, margin.top]);
     const at = translation(screen.getByRole('img', { name: /^Your lab:/ }));
     expect(at.x).toBeCloseTo(x(5.2), 6);
     expect(at.y).toBeCloseTo(y(4.9), 6);
@@ -68,10 +84,18 @@ describe('TwoLevelSdiPlot', () => {
     expect(within(own).getByText('+2.50')).toBeTruthy();
     expect(within(own).getByText('+1.80')).toBeTruthy();
     // Every SDI of the data appears in the table, with a true minus sign for negatives.
-    const cells = rows.flatMap((row) => within(row).getAllByRole('cell').map((cell) => cell.textContent));
+    const cells = rows.flatMap((row) =>
+      within(row)
+        .getAllByRole('cell')
+        .map((cell) => cell.textContent),
+    );
     for (const point of points) {
-      expect(cells).toContain(`${point.x > 0 ? '+' : point.x < 0 ? '\u2212' : ''}${Math.abs(point.x).toFixed(2)}`);
-      expect(cells).toContain(`${point.y > 0 ? '+' : point.y < 0 ? '\u2212' : ''}${Math.abs(point.y).toFixed(2)}`);
+      expect(cells).toContain(
+        `${point.x > 0 ? '+' : point.x < 0 ? '\u2212' : ''}${Math.abs(point.x).toFixed(2)}`,
+      );
+      expect(cells).toContain(
+        `${point.y > 0 ? '+' : point.y < 0 ? '\u2212' : ''}${Math.abs(point.y).toFixed(2)}`,
+      );
     }
   });
 

@@ -80,24 +80,34 @@ export function TwoLevelSdiPlot({
       testId="two-level-sdi-plot"
       description={`Each point is one lab: its SDI at level ${xLevel} across and at level ${yLevel} up. Points along the diagonal moved the same way at both levels, which suggests a systematic error; points far from it suggest a random error. The inner square is ±2 SD, the outer ±3 SD. Other labs are not named.`}
       readout={
-        activePoint
-          ? describePoint(activePoint, names.get(activePoint.key) ?? '', xLevel, yLevel)
-          : null
+        activePoint ? describePoint(activePoint, names.get(activePoint.key) ?? '', xLevel, yLevel) : null
       }
       legend={[
         {
           key: 'own',
-          symbol: <MarkerSwatch path={markerPath(ownLabShape, 60)} fill="var(--color-plumb-700)" stroke="white" />,
+          symbol: (
+            <MarkerSwatch path={markerPath(ownLabShape, 60)} fill="var(--color-plumb-700)" stroke="white" />
+          ),
           label: 'Your lab',
         },
         {
           key: 'other',
-          symbol: <MarkerSwatch path={markerPath(symbolCircle, 40)} fill="var(--color-slate-200)" stroke="var(--color-slate-500)" />,
+          symbol: (
+            <MarkerSwatch
+              path={markerPath(symbolCircle, 40)}
+              fill="var(--color-slate-200)"
+              stroke="var(--color-slate-500)"
+            />
+          ),
           label: 'Another lab',
         },
         { key: 'two', symbol: <LineSwatch stroke="var(--color-brass-500)" dash="5 3" />, label: '±2 SD' },
         { key: 'three', symbol: <LineSwatch stroke="var(--color-alarm-700)" />, label: '±3 SD' },
-        { key: 'diagonal', symbol: <LineSwatch stroke="var(--color-plumb-400)" dash="2 3" />, label: 'Same SDI at both levels' },
+        {
+          key: 'diagonal',
+          symbol: <LineSwatch stroke="var(--color-plumb-400)" dash="2 3" />,
+          label: 'Same SDI at both levels',
+        },
       ]}
       table={
         <ChartTable
@@ -111,13 +121,44 @@ export function TwoLevelSdiPlot({
         />
       }
     >
-      <AxisBottom scale={x} y={area.bottom} tickValues={ticks} format={(v: number) => formatSigned(v, 0)} label={`SDI, level ${xLevel}`} />
-      <AxisLeft scale={y} x={area.left} tickValues={ticks} format={(v: number) => formatSigned(v, 0)} label={`SDI, level ${yLevel}`} gridTo={area.right} />
+      <AxisBottom
+        scale={x}
+        y={area.bottom}
+        tickValues={ticks}
+        format={(v: number) => formatSigned(v, 0)}
+        label={`SDI, level ${xLevel}`}
+      />
+      <AxisLeft
+        scale={y}
+        x={area.left}
+        tickValues={ticks}
+        format={(v: number) => formatSigned(v, 0)}
+        label={`SDI, level ${yLevel}`}
+        gridTo={area.right}
+      />
       <g aria-hidden="true">
         <line x1={x(0)} x2={x(0)} y1={area.top} y2={area.bottom} stroke="var(--color-slate-400)" />
         <line x1={area.left} x2={area.right} y1={y(0)} y2={y(0)} stroke="var(--color-slate-400)" />
-        <rect x={three.x} y={three.y} width={three.size} height={three.size} fill="none" stroke="var(--color-alarm-700)" strokeWidth={1.25} />
-        <rect x={two.x} y={two.y} width={two.size} height={two.size} fill="var(--color-plumb-50)" fillOpacity={0.6} stroke="var(--color-brass-500)" strokeDasharray="5 3" strokeWidth={1.25} />
+        <rect
+          x={three.x}
+          y={three.y}
+          width={three.size}
+          height={three.size}
+          fill="none"
+          stroke="var(--color-alarm-700)"
+          strokeWidth={1.25}
+        />
+        <rect
+          x={two.x}
+          y={two.y}
+          width={two.size}
+          height={two.size}
+          fill="var(--color-plumb-50)"
+          fillOpacity={0.6}
+          stroke="var(--color-brass-500)"
+          strokeDasharray="5 3"
+          strokeWidth={1.25}
+        />
         <line
           data-role="diagonal"
           x1={x(-limit)}
@@ -135,7 +176,14 @@ export function TwoLevelSdiPlot({
           const active = navigation.active === index;
           return (
             <g key={point.key} transform={`translate(${x(point.x)},${y(point.y)})`}>
-              {active ? <circle r={point.isOwnLab ? 11 : 8} fill="none" stroke="var(--color-brass-500)" strokeWidth={2} /> : null}
+              {active ? (
+                <circle
+                  r={point.isOwnLab ? 11 : 8}
+                  fill="none"
+                  stroke="var(--color-brass-500)"
+                  strokeWidth={2}
+                />
+              ) : null}
               <path
                 {...navigation.pointProps(index)}
                 role="img"
@@ -143,7 +191,10 @@ export function TwoLevelSdiPlot({
                 data-own-lab={point.isOwnLab ? 'true' : undefined}
                 data-sdi-x={point.x}
                 data-sdi-y={point.y}
-                d={markerPath(point.isOwnLab ? ownLabShape : symbolCircle, point.isOwnLab ? OWN_AREA : OTHER_AREA)}
+                d={markerPath(
+                  point.isOwnLab ? ownLabShape : symbolCircle,
+                  point.isOwnLab ? OWN_AREA : OTHER_AREA,
+                )}
                 fill={point.isOwnLab ? 'var(--color-plumb-700)' : 'var(--color-slate-200)'}
                 fillOpacity={point.isOwnLab ? 1 : 0.85}
                 stroke={point.isOwnLab ? 'white' : 'var(--color-slate-500)'}
@@ -156,7 +207,12 @@ export function TwoLevelSdiPlot({
                   x={x(point.x) > area.right - 70 ? -10 : 10}
                   y={y(point.y) < area.top + 20 ? 20 : -10}
                   textAnchor={x(point.x) > area.right - 70 ? 'end' : 'start'}
-                  className="text-[12px] font-semibold" fill="var(--color-plumb-900)" stroke="white" strokeWidth={3} paintOrder="stroke">
+                  className="text-[12px] font-semibold"
+                  fill="var(--color-plumb-900)"
+                  stroke="white"
+                  strokeWidth={3}
+                  paintOrder="stroke"
+                >
                   Your lab
                 </text>
               ) : null}

@@ -57,7 +57,11 @@ export function UncertaintyChart({
         <ChartTable
           caption={`${title}: values`}
           headers={['Component', 'Value (%)', 'Obtained from']}
-          rows={components.map((c) => ({ key: c.key, emphasis: c.result, cells: [c.label, c.valuePct.toFixed(2), c.basis] }))}
+          rows={components.map((c) => ({
+            key: c.key,
+            emphasis: c.result,
+            cells: [c.label, c.valuePct.toFixed(2), c.basis],
+          }))}
         />
       }
     >
@@ -66,7 +70,15 @@ export function UncertaintyChart({
         const top = y(component.key) ?? 0;
         return (
           <g key={component.key}>
-            <text aria-hidden="true" x={area.left - 8} y={top + y.bandwidth() / 2} dy="0.32em" textAnchor="end" className="text-[12px]" fill="var(--color-slate-800)">
+            <text
+              aria-hidden="true"
+              x={area.left - 8}
+              y={top + y.bandwidth() / 2}
+              dy="0.32em"
+              textAnchor="end"
+              className="text-[12px]"
+              fill="var(--color-slate-800)"
+            >
               {component.label}
             </text>
             <rect
@@ -84,7 +96,14 @@ export function UncertaintyChart({
               strokeWidth={2}
               className="cursor-pointer outline-none"
             />
-            <text aria-hidden="true" x={x(component.valuePct) + 6} y={top + y.bandwidth() / 2} dy="0.32em" className="text-[12px] font-medium" fill="var(--color-slate-800)">
+            <text
+              aria-hidden="true"
+              x={x(component.valuePct) + 6}
+              y={top + y.bandwidth() / 2}
+              dy="0.32em"
+              className="text-[12px] font-medium"
+              fill="var(--color-slate-800)"
+            >
               {component.valuePct.toFixed(2)} %
             </text>
           </g>

@@ -22,7 +22,10 @@ export default function LabAdministrationRoute() {
           <ApiTokens labId={labId} />
         </div>
       ) : (
-        <EmptyState title="Your account belongs to no lab" description="Ask your network coordinator to add your account to your lab." />
+        <EmptyState
+          title="Your account belongs to no lab"
+          description="Ask your network coordinator to add your account to your lab."
+        />
       )}
     </ContentLayout>
   );

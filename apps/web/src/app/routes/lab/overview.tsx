@@ -36,21 +36,21 @@ export default function LabOverviewRoute() {
             { label: 'Today', value: <time dateTime={isoDate(today)}>{formatLongDate(today)}</time> },
           ]}
         />
-      {session.user.labId ? (
-        <LabOverviewDashboard
-          labId={session.user.labId}
-          links={{
-            uploads: paths.lab.uploads.getHref(),
-            report: (search) => paths.lab.peerReport.getHref(search),
-            procedures: manages ? paths.lab.procedures.getHref() : null,
-          }}
-        />
-      ) : (
-        <EmptyState
-          title="Your account belongs to no lab"
-          description="Ask your network coordinator to add your account to your lab."
-        />
-      )}
+        {session.user.labId ? (
+          <LabOverviewDashboard
+            labId={session.user.labId}
+            links={{
+              uploads: paths.lab.uploads.getHref(),
+              report: (search) => paths.lab.peerReport.getHref(search),
+              procedures: manages ? paths.lab.procedures.getHref() : null,
+            }}
+          />
+        ) : (
+          <EmptyState
+            title="Your account belongs to no lab"
+            description="Ask your network coordinator to add your account to your lab."
+          />
+        )}
       </div>
       <section aria-labelledby="lab-next-steps" className="mt-10">
         <h2 id="lab-next-steps" className="text-xs font-semibold tracking-[0.12em] text-slate-500 uppercase">

@@ -49,7 +49,9 @@ describe('peer report page', () => {
     await waitFor(() => expect(bodyRows()).toHaveLength(2));
     expect(bodyRows().map((row) => row.getAttribute('data-severity'))).toEqual(['action', 'warning']);
     expect(within(reportTable()).queryByText('Glucose')).toBeNull();
-    expect(screen.getByText(/Showing/).textContent).toBe('Showing 2 of 3 results · 2 flagged. Open a procedure for its charts and comments.');
+    expect(screen.getByText(/Showing/).textContent).toBe(
+      'Showing 2 of 3 results · 2 flagged. Open a procedure for its charts and comments.',
+    );
     expect(router.state.location.search).toContain('flagged=1');
     // The analyst cannot sign; the page says the month waits for the supervisor.
     expect(screen.getByTestId('signoff-open').textContent).toMatch(/Not signed off yet/);
@@ -107,6 +109,33 @@ describe('peer report page', () => {
   });
 });
 
+describe('peer report units', () => {
+  it('when the analyst chooses conventional units, then the report is asked for in them', async () => {
+    const api = mockApi({
+      'GET /api/me': { status: 200, body: buildMe('analyst') },
+      'GET /api/periods': { status: 200, body: periods },
+      [`GET ${lab}/peer-report`]: (request) => ({
+        status: 200,
+        body: { ...buildLabReport('2026-11'), units: request.query.get('units') ?? 'si' },
+      }),
+      [`GET ${lab}/comments`]: { status: 200, body: [] },
+      [`GET ${lab}/signoffs/2026-11`]: { status: 200, body: { period: '2026-11', signoff: null } },
+    });
+    const { user, router } = renderApp('/lab/peer-report?period=2026-11', { signedInAs: 'analyst' });
+    await screen.findByRole('table', { name: 'Peer report of November 2026' });
+    expect((screen.getByLabelText('SI') as HTMLInputElement).checked).toBe(true);
+
+    await user.click(screen.getByLabelText('Conventional'));
+
+    await waitFor(() =>
+      expect((screen.getByLabelText('Conventional') as HTMLInputElement).checked).toBe(true),
+    );
+    const reportRequests = api.requests.filter((r) => r.path === `${lab}/peer-report`);
+    expect(reportRequests.at(-1)?.query.get('units')).toBe('conventional');
+    expect(router.state.location.search).toContain('units=conventional');
+  });
+});
+
 describe('result details page', () => {
   const detailUrl = `/lab/peer-report/${potassiumProcedureId}/${lotId}/1?period=2026-11`;
   const rowPath = `${lab}/report-rows/${potassiumProcedureId}/${lotId}/1`;
@@ -120,7 +149,13 @@ describe('result details page', () => {
       [`GET ${lab}/signoffs/2026-11`]: { status: 200, body: { period: '2026-11', signoff: buildSignoff() } },
       [`POST ${lab}/comments`]: (request) => {
         const body = request.body as { body: string };
-        comments.push(buildComment({ id: '8d7c6b5a-4f3e-4d2c-9b1a-0f9e8d7c6b02', body: body.body, createdAt: '2026-12-03T09:00:00.000Z' }));
+        comments.push(
+          buildComment({
+            id: '8d7c6b5a-4f3e-4d2c-9b1a-0f9e8d7c6b02',
+            body: body.body,
+            createdAt: '2026-12-03T09:00:00.000Z',
+          }),
+        );
         return { status: 201, body: comments.at(-1) };
       },
     });
@@ -134,10 +169,15 @@ describe('result details page', () => {
     expect(screen.queryByRole('button', { name: 'Edit' })).toBeNull();
     expect(screen.queryByRole('button', { name: 'Delete' })).toBeNull();
 
-    await user.type(screen.getByLabelText('Add a corrective-action comment'), 'Checked again after sign-off: still within 1 SD.');
+    await user.type(
+      screen.getByLabelText('Add a corrective-action comment'),
+      'Checked again after sign-off: still within 1 SD.',
+    );
     await user.click(screen.getByRole('button', { name: 'Save comment' }));
 
-    await waitFor(() => expect(within(screen.getByRole('list', { name: 'Comments' })).getAllByRole('listitem')).toHaveLength(2));
+    await waitFor(() =>
+      expect(within(screen.getByRole('list', { name: 'Comments' })).getAllByRole('listitem')).toHaveLength(2),
+    );
     expect(api.requests.find((r) => r.method === 'POST')?.body).toEqual({
       period: '2026-11',
       procedureId: potassiumProcedureId,
@@ -170,7 +210,9 @@ describe('result details page', () => {
       expect(within(section).getByRole('table', { name: `${name}: values` })).toBeTruthy();
     }
     const chart = screen.getByTestId('levey-jennings-level-1');
-    expect(chart.querySelector('[data-rule-label]')?.textContent).toBe('1-2s 1-3s');
-    expect(screen.getByText(/6 runs: 5 accepted, 0 with a warning,/).textContent).toContain('run R5: 1-2s, 1-3s');
+    expect(chart.querySelector('[data-rule-label]')?.textContent).toBe('1-3s');
+    expect(screen.getByText(/6 runs: 5 accepted, 0 with a warning,/).textContent).toContain(
+      'run R5: 1-2s, 1-3s',
+    );
   });
 });

@@ -9,12 +9,21 @@ import { ContentLayout } from '../../../components/layouts/content-layout.tsx';
 import { EmptyState } from '../../../components/ui/empty-state.tsx';
 import { paths } from '../../../config/paths.ts';
 import { labReviewKeys } from '../../../features/lab-review/api/lab-review-keys.ts';
+import { CommentsCsvButton } from '../../../features/lab-review/components/comments-csv-button.tsx';
 import { SignoffPanel } from '../../../features/lab-review/components/signoff-panel.tsx';
 import { peerReportKeys } from '../../../features/peer-report/api/peer-report-keys.ts';
-import { PeerReportView, type ReportChoice } from '../../../features/peer-report/components/peer-report-view.tsx';
+import {
+  PeerReportView,
+  type ReportChoice,
+} from '../../../features/peer-report/components/peer-report-view.tsx';
 import type { RowNote } from '../../../features/peer-report/components/report-table.tsx';
 import { defaultReportPeriod } from '../../../features/peer-report/utils/default-period.ts';
-import { isFlagged, keyOfRow, reportRowKey, type Severity } from '../../../features/peer-report/utils/report-rows.ts';
+import {
+  isFlagged,
+  keyOfRow,
+  reportRowKey,
+  type Severity,
+} from '../../../features/peer-report/utils/report-rows.ts';
 import { useSession, useUser } from '../../../lib/auth.tsx';
 
 const severities = new Set<string>(['fine', 'acceptable', 'warning', 'action']);
@@ -46,7 +55,11 @@ function searchFromChoice(choice: ReportChoice): Record<string, string | undefin
 function notesByRow(comments: readonly Comment[] | undefined): Map<string, RowNote> {
   const notes = new Map<string, RowNote>();
   for (const comment of comments ?? []) {
-    const key = reportRowKey({ procedureId: comment.procedure.id, controlLotId: comment.controlLot.id, level: comment.level });
+    const key = reportRowKey({
+      procedureId: comment.procedure.id,
+      controlLotId: comment.controlLot.id,
+      level: comment.level,
+    });
     const note = notes.get(key) ?? { count: 0, latest: null };
     // Comments come oldest first: the last one seen is the latest.
     notes.set(key, {
@@ -65,11 +78,20 @@ export default function PeerReportRoute() {
   const choice = choiceFromSearch(search);
   const periods = useQuery(peerReportKeys.periods());
   const period = choice.period ?? defaultReportPeriod(periods.data ?? []);
-  const comments = useQuery({ ...labReviewKeys.comments(labId ?? '', period ?? ''), enabled: labId !== null && period !== null });
+  const comments = useQuery({
+    ...labReviewKeys.comments(labId ?? '', period ?? ''),
+    enabled: labId !== null && period !== null,
+  });
   const notes = useMemo(() => notesByRow(comments.data), [comments.data]);
 
   const onChoiceChange = useCallback(
-    (next: ReportChoice) => setSearch(new URLSearchParams(Object.entries(searchFromChoice(next)).filter((e): e is [string, string] => Boolean(e[1]))), { replace: true }),
+    (next: ReportChoice) =>
+      setSearch(
+        new URLSearchParams(
+          Object.entries(searchFromChoice(next)).filter((e): e is [string, string] => Boolean(e[1])),
+        ),
+        { replace: true },
+      ),
     [setSearch],
   );
   const detailHref = useCallback(
@@ -93,7 +115,9 @@ export default function PeerReportRoute() {
   }
 
   const review = (reviewPeriod: string, report: PeerReport) => {
-    const flaggedWithoutComment = report.rows.filter((row) => isFlagged(row) && !notes.has(keyOfRow(row))).length;
+    const flaggedWithoutComment = report.rows.filter(
+      (row) => isFlagged(row) && !notes.has(keyOfRow(row)),
+    ).length;
     return (
       <SignoffPanel
         labId={labId}
@@ -119,6 +143,7 @@ export default function PeerReportRoute() {
         detailHref={detailHref}
         notes={notes}
         review={review}
+        downloads={(downloadPeriod) => <CommentsCsvButton labId={labId} period={downloadPeriod} />}
       />
     </ContentLayout>
   );

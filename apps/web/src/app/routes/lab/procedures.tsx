@@ -18,7 +18,10 @@ export default function ProceduresRoute() {
       {session && labId ? (
         <TestMenu labId={labId} canManage={canAccess(session.user.role, 'labManagement')} />
       ) : (
-        <EmptyState title="Your account belongs to no lab" description="Ask your network coordinator to add your account to your lab." />
+        <EmptyState
+          title="Your account belongs to no lab"
+          description="Ask your network coordinator to add your account to your lab."
+        />
       )}
     </ContentLayout>
   );

@@ -60,7 +60,10 @@ export default function ReportRowRoute() {
   const data = drilldown.data;
   const title = data ? `${data.analyte.name}, level ${data.level}` : 'Result details';
   const rowComments = (comments.data ?? []).filter(
-    (c) => c.procedure.id === drilldownParams.procedureId && c.controlLot.id === drilldownParams.controlLotId && c.level === level,
+    (c) =>
+      c.procedure.id === drilldownParams.procedureId &&
+      c.controlLot.id === drilldownParams.controlLotId &&
+      c.level === level,
   );
   const signed = signoff.data?.signoff ?? null;
 
@@ -69,7 +72,11 @@ export default function ReportRowRoute() {
       title={title}
       area={`Peer report · ${formatPeriod(period)}`}
       width="wide"
-      description={data ? `Procedure ${data.procedure.code} · control lot ${data.controlLot.lotNumber} · level ${data.level}` : undefined}
+      description={
+        data
+          ? `Procedure ${data.procedure.code} · control lot ${data.controlLot.lotNumber} · level ${data.level}`
+          : undefined
+      }
       actions={backLink}
     >
       {drilldown.isError ? (
@@ -93,7 +100,11 @@ export default function ReportRowRoute() {
           <RowComments
             labId={drilldownParams.labId}
             period={period}
-            row={{ procedureId: drilldownParams.procedureId, controlLotId: drilldownParams.controlLotId, level }}
+            row={{
+              procedureId: drilldownParams.procedureId,
+              controlLotId: drilldownParams.controlLotId,
+              level,
+            }}
             comments={rowComments}
             signed={signed !== null}
             currentUser={{ id: session.user.id, role: session.user.role }}

@@ -9,7 +9,10 @@ export function getUsers(labId: string, signal?: AbortSignal) {
 }
 
 export function getTokens(labId: string, signal?: AbortSignal) {
-  return apiRequest(`/labs/${encodeURIComponent(labId)}/api-tokens`, { schema: labApiTokenListSchema, signal });
+  return apiRequest(`/labs/${encodeURIComponent(labId)}/api-tokens`, {
+    schema: labApiTokenListSchema,
+    signal,
+  });
 }
 
 export const labAdminKeys = {

@@ -5,18 +5,25 @@ import { apiRequest } from '../../../lib/api-client.ts';
 import { labAdminKeys } from './lab-admin-keys.ts';
 
 export function createToken({ labId, body }: { labId: string; body: LabApiTokenCreate }) {
-  return apiRequest(`/labs/${encodeURIComponent(labId)}/api-tokens`, { method: 'POST', body, schema: labApiTokenCreatedSchema });
+  return apiRequest(`/labs/${encodeURIComponent(labId)}/api-tokens`, {
+    method: 'POST',
+    body,
+    schema: labApiTokenCreatedSchema,
+  });
 }
 
 export function revokeToken({ labId, tokenId }: { labId: string; tokenId: string }) {
-  return apiRequest(`/labs/${encodeURIComponent(labId)}/api-tokens/${encodeURIComponent(tokenId)}`, { method: 'DELETE' });
+  return apiRequest(`/labs/${encodeURIComponent(labId)}/api-tokens/${encodeURIComponent(tokenId)}`, {
+    method: 'DELETE',
+  });
 }
 
 export function useCreateToken() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: createToken,
-    onSuccess: (_t, { labId }) => queryClient.invalidateQueries({ queryKey: labAdminKeys.tokens(labId).queryKey }),
+    onSuccess: (_t, { labId }) =>
+      queryClient.invalidateQueries({ queryKey: labAdminKeys.tokens(labId).queryKey }),
   });
 }
 
@@ -24,6 +31,7 @@ export function useRevokeToken() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: revokeToken,
-    onSuccess: (_r, { labId }) => queryClient.invalidateQueries({ queryKey: labAdminKeys.tokens(labId).queryKey }),
+    onSuccess: (_r, { labId }) =>
+      queryClient.invalidateQueries({ queryKey: labAdminKeys.tokens(labId).queryKey }),
   });
 }

@@ -24,7 +24,10 @@ export function ApiTokens({ labId }: { labId: string }) {
   const revoke = useRevokeToken();
   const [creating, setCreating] = useState(false);
   const [revoking, setRevoking] = useState<LabApiToken | null>(null);
-  const list = [...(tokens.data ?? [])].sort((a, b) => Number(a.revokedAt !== null) - Number(b.revokedAt !== null) || b.createdAt.localeCompare(a.createdAt));
+  const list = [...(tokens.data ?? [])].sort(
+    (a, b) =>
+      Number(a.revokedAt !== null) - Number(b.revokedAt !== null) || b.createdAt.localeCompare(a.createdAt),
+  );
   const closeRevoke = () => {
     revoke.reset();
     setRevoking(null);
@@ -37,7 +40,10 @@ export function ApiTokens({ labId }: { labId: string }) {
           <h2 id={headingId} className="text-lg font-semibold text-plumb-950">
             API tokens
           </h2>
-          <p className="text-sm text-slate-600">Your lab’s middleware sends QC files with a token instead of a person’s password. Give each system its own.</p>
+          <p className="text-sm text-slate-600">
+            Your lab’s middleware sends QC files with a token instead of a person’s password. Give each system
+            its own.
+          </p>
         </div>
         <div className="flex gap-2">
           <Button
@@ -47,7 +53,12 @@ export function ApiTokens({ labId }: { labId: string }) {
             onClick={() =>
               saveFile(
                 new Blob(
-                  [tableCsv(['name', 'starts_with', 'created', 'last_used', 'revoked'], list.map((t) => [t.name, t.prefix, t.createdAt, t.lastUsedAt, t.revokedAt]))],
+                  [
+                    tableCsv(
+                      ['name', 'starts_with', 'created', 'last_used', 'revoked'],
+                      list.map((t) => [t.name, t.prefix, t.createdAt, t.lastUsedAt, t.revokedAt]),
+                    ),
+                  ],
                   { type: 'text/csv;charset=utf-8' },
                 ),
                 'lab-api-tokens.csv',
@@ -71,32 +82,68 @@ export function ApiTokens({ labId }: { labId: string }) {
             <caption className="sr-only">API tokens of your lab</caption>
             <thead>
               <tr className="border-b border-slate-200 bg-slate-50 text-left text-xs text-slate-600">
-                <th scope="col" className="px-3 py-2 font-semibold">Name</th>
-                <th scope="col" className="px-3 py-2 font-semibold">Starts with</th>
-                <th scope="col" className="px-3 py-2 font-semibold">Created</th>
-                <th scope="col" className="px-3 py-2 font-semibold">Last used</th>
-                <th scope="col" className="px-3 py-2 font-semibold">State</th>
-                <th scope="col" className="px-3 py-2"><span className="sr-only">Actions</span></th>
+                <th scope="col" className="px-3 py-2 font-semibold">
+                  Name
+                </th>
+                <th scope="col" className="px-3 py-2 font-semibold">
+                  Starts with
+                </th>
+                <th scope="col" className="px-3 py-2 font-semibold">
+                  Created
+                </th>
+                <th scope="col" className="px-3 py-2 font-semibold">
+                  Last used
+                </th>
+                <th scope="col" className="px-3 py-2 font-semibold">
+                  State
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  <span className="sr-only">Actions</span>
+                </th>
               </tr>
             </thead>
             <tbody>
               {tokens.isPending ? (
-                <tr><td colSpan={6} className="px-3 py-6 text-center text-slate-600">Loading…</td></tr>
+                <tr>
+                  <td colSpan={6} className="px-3 py-6 text-center text-slate-600">
+                    Loading…
+                  </td>
+                </tr>
               ) : list.length === 0 ? (
-                <tr><td colSpan={6} className="px-3 py-6 text-center text-slate-600">No token yet. Files are uploaded by people only.</td></tr>
+                <tr>
+                  <td colSpan={6} className="px-3 py-6 text-center text-slate-600">
+                    No token yet. Files are uploaded by people only.
+                  </td>
+                </tr>
               ) : (
                 list.map((token) => (
-                  <tr key={token.id} className={`border-b border-slate-100 ${token.revokedAt ? 'text-slate-500' : ''}`}>
-                    <th scope="row" className="px-3 py-2 text-left font-medium text-slate-900">{token.name}</th>
+                  <tr
+                    key={token.id}
+                    className={`border-b border-slate-100 ${token.revokedAt ? 'text-slate-500' : ''}`}
+                  >
+                    <th scope="row" className="px-3 py-2 text-left font-medium text-slate-900">
+                      {token.name}
+                    </th>
                     <td className="px-3 py-2 font-mono text-xs">{token.prefix}…</td>
                     <td className="px-3 py-2 text-xs whitespace-nowrap">{formatDateTime(token.createdAt)}</td>
-                    <td className="px-3 py-2 text-xs whitespace-nowrap">{token.lastUsedAt ? formatDateTime(token.lastUsedAt) : 'never'}</td>
+                    <td className="px-3 py-2 text-xs whitespace-nowrap">
+                      {token.lastUsedAt ? formatDateTime(token.lastUsedAt) : 'never'}
+                    </td>
                     <td className="px-3 py-2">
-                      {token.revokedAt ? <Badge tone="muted">Revoked {formatDateTime(token.revokedAt)}</Badge> : <Badge tone="plumb">Active</Badge>}
+                      {token.revokedAt ? (
+                        <Badge tone="muted">Revoked {formatDateTime(token.revokedAt)}</Badge>
+                      ) : (
+                        <Badge tone="plumb">Active</Badge>
+                      )}
                     </td>
                     <td className="px-3 py-2 text-right">
                       {token.revokedAt ? null : (
-                        <Button variant="ghost" size="xs" aria-label={`Revoke ${token.name}`} onClick={() => setRevoking(token)}>
+                        <Button
+                          variant="ghost"
+                          size="xs"
+                          aria-label={`Revoke ${token.name}`}
+                          onClick={() => setRevoking(token)}
+                        >
                           Revoke
                         </Button>
                       )}
@@ -130,7 +177,10 @@ export function ApiTokens({ labId }: { labId: string }) {
           );
         }}
       >
-        <p>Any system using this token can no longer send files. This cannot be undone; create a new token if it is needed again.</p>
+        <p>
+          Any system using this token can no longer send files. This cannot be undone; create a new token if
+          it is needed again.
+        </p>
       </ConfirmDialog>
     </section>
   );
@@ -144,12 +194,24 @@ function CreateTokenDialog({ labId, open, onClose }: { labId: string; open: bool
   };
   return (
     <Dialog open={open} onClose={close} title={created ? 'Copy the new token now' : 'Create an API token'}>
-      {created ? <TokenShownOnce token={created} onClose={close} /> : <CreateTokenForm labId={labId} onClose={close} onCreated={setCreated} />}
+      {created ? (
+        <TokenShownOnce token={created} onClose={close} />
+      ) : (
+        <CreateTokenForm labId={labId} onClose={close} onCreated={setCreated} />
+      )}
     </Dialog>
   );
 }
 
-function CreateTokenForm({ labId, onClose, onCreated }: { labId: string; onClose: () => void; onCreated: (t: LabApiTokenCreated) => void }) {
+function CreateTokenForm({
+  labId,
+  onClose,
+  onCreated,
+}: {
+  labId: string;
+  onClose: () => void;
+  onCreated: (t: LabApiTokenCreated) => void;
+}) {
   const create = useCreateToken();
   const [name, setName] = useState('');
   const [error, setError] = useState<string | undefined>();
@@ -201,8 +263,8 @@ function TokenShownOnce({ token, onClose }: { token: LabApiTokenCreated; onClose
   return (
     <div>
       <Alert tone="error" title="This is the only time the token is shown">
-        Copy it into your middleware’s configuration now. Plumbline keeps only a fingerprint of it: if it is lost, revoke it and
-        create a new one. Anyone holding it can send files as your lab.
+        Copy it into your middleware’s configuration now. Plumbline keeps only a fingerprint of it: if it is
+        lost, revoke it and create a new one. Anyone holding it can send files as your lab.
       </Alert>
       <div className="mt-5 flex flex-col gap-1.5">
         <label htmlFor={fieldId} className="text-sm font-medium text-slate-800">

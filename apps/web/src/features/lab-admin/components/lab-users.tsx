@@ -30,7 +30,8 @@ type Change =
   | { user: LabUser; kind: 'reactivate' };
 
 function statusOf(user: LabUser): { label: string; tone: 'plumb' | 'brass' | 'muted' } {
-  if (user.invitationPending && user.active === false) return { label: 'Invited, not yet accepted', tone: 'brass' };
+  if (user.invitationPending && user.active === false)
+    return { label: 'Invited, not yet accepted', tone: 'brass' };
   if (!user.active) return { label: 'Deactivated', tone: 'muted' };
   return { label: 'Active', tone: 'plumb' };
 }
@@ -46,7 +47,9 @@ export function LabUsers({ labId, currentUserId }: { labId: string; currentUserI
     update.reset();
     setChange(null);
   };
-  const list = [...(users.data ?? [])].sort((a, b) => Number(b.active) - Number(a.active) || a.name.localeCompare(b.name));
+  const list = [...(users.data ?? [])].sort(
+    (a, b) => Number(b.active) - Number(a.active) || a.name.localeCompare(b.name),
+  );
 
   return (
     <section aria-labelledby={headingId} className="space-y-3">
@@ -55,7 +58,9 @@ export function LabUsers({ labId, currentUserId }: { labId: string; currentUserI
           <h2 id={headingId} className="text-lg font-semibold text-plumb-950">
             Users
           </h2>
-          <p className="text-sm text-slate-600">Analysts upload data and write comments; supervisors also manage the lab and sign the month off.</p>
+          <p className="text-sm text-slate-600">
+            Analysts upload data and write comments; supervisors also manage the lab and sign the month off.
+          </p>
         </div>
         <div className="flex gap-2">
           <Button
@@ -65,7 +70,12 @@ export function LabUsers({ labId, currentUserId }: { labId: string; currentUserI
             onClick={() =>
               saveFile(
                 new Blob(
-                  [tableCsv(['name', 'email', 'role', 'status', 'since'], list.map((u) => [u.name, u.email, u.role, statusOf(u).label, u.createdAt]))],
+                  [
+                    tableCsv(
+                      ['name', 'email', 'role', 'status', 'since'],
+                      list.map((u) => [u.name, u.email, u.role, statusOf(u).label, u.createdAt]),
+                    ),
+                  ],
                   { type: 'text/csv;charset=utf-8' },
                 ),
                 'lab-users.csv',
@@ -89,45 +99,76 @@ export function LabUsers({ labId, currentUserId }: { labId: string; currentUserI
             <caption className="sr-only">Users of your lab</caption>
             <thead>
               <tr className="border-b border-slate-200 bg-slate-50 text-left text-xs text-slate-600">
-                <th scope="col" className="px-3 py-2 font-semibold">Name</th>
-                <th scope="col" className="px-3 py-2 font-semibold">Role</th>
-                <th scope="col" className="px-3 py-2 font-semibold">Status</th>
-                <th scope="col" className="px-3 py-2 font-semibold">Since</th>
-                <th scope="col" className="px-3 py-2"><span className="sr-only">Actions</span></th>
+                <th scope="col" className="px-3 py-2 font-semibold">
+                  Name
+                </th>
+                <th scope="col" className="px-3 py-2 font-semibold">
+                  Role
+                </th>
+                <th scope="col" className="px-3 py-2 font-semibold">
+                  Status
+                </th>
+                <th scope="col" className="px-3 py-2 font-semibold">
+                  Since
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  <span className="sr-only">Actions</span>
+                </th>
               </tr>
             </thead>
             <tbody>
               {users.isPending ? (
-                <tr><td colSpan={5} className="px-3 py-6 text-center text-slate-600">Loading…</td></tr>
+                <tr>
+                  <td colSpan={5} className="px-3 py-6 text-center text-slate-600">
+                    Loading…
+                  </td>
+                </tr>
               ) : (
                 list.map((user) => {
                   const status = statusOf(user);
                   const self = user.id === currentUserId;
                   const otherRole = user.role === 'analyst' ? 'supervisor' : 'analyst';
                   return (
-                    <tr key={user.id} className={`border-b border-slate-100 ${user.active ? '' : 'text-slate-500'}`}>
+                    <tr
+                      key={user.id}
+                      className={`border-b border-slate-100 ${user.active ? '' : 'text-slate-500'}`}
+                    >
                       <th scope="row" className="px-3 py-2 text-left font-medium">
                         <span className="text-slate-900">{user.name}</span>
                         {self ? <span className="ml-1 text-xs font-normal text-slate-500">(you)</span> : null}
                         <span className="block text-xs font-normal text-slate-600">{user.email}</span>
                       </th>
                       <td className="px-3 py-2">{roleWords[user.role]}</td>
-                      <td className="px-3 py-2"><Badge tone={status.tone}>{status.label}</Badge></td>
+                      <td className="px-3 py-2">
+                        <Badge tone={status.tone}>{status.label}</Badge>
+                      </td>
                       <td className="px-3 py-2 text-xs whitespace-nowrap">{formatDate(user.createdAt)}</td>
                       <td className="px-3 py-2 text-right whitespace-nowrap">
                         {self ? null : (
                           <span className="inline-flex gap-1">
                             {user.active ? (
-                              <Button variant="ghost" size="xs" onClick={() => setChange({ user, kind: 'role', role: otherRole })}>
+                              <Button
+                                variant="ghost"
+                                size="xs"
+                                onClick={() => setChange({ user, kind: 'role', role: otherRole })}
+                              >
                                 Make {roleWords[otherRole].toLowerCase()}
                               </Button>
                             ) : null}
                             {user.active || user.invitationPending ? (
-                              <Button variant="ghost" size="xs" onClick={() => setChange({ user, kind: 'deactivate' })}>
+                              <Button
+                                variant="ghost"
+                                size="xs"
+                                onClick={() => setChange({ user, kind: 'deactivate' })}
+                              >
                                 {user.invitationPending ? 'Withdraw invitation' : 'Deactivate'}
                               </Button>
                             ) : (
-                              <Button variant="ghost" size="xs" onClick={() => setChange({ user, kind: 'reactivate' })}>
+                              <Button
+                                variant="ghost"
+                                size="xs"
+                                onClick={() => setChange({ user, kind: 'reactivate' })}
+                              >
                                 Reactivate
                               </Button>
                             )}
@@ -155,7 +196,15 @@ export function LabUsers({ labId, currentUserId }: { labId: string; currentUserI
                 : `Deactivate ${change.user.name}?`
               : `Reactivate ${change?.user.name ?? ''}?`
         }
-        confirmLabel={change?.kind === 'role' ? 'Change role' : change?.kind === 'deactivate' ? (change.user.invitationPending ? 'Withdraw' : 'Deactivate') : 'Reactivate'}
+        confirmLabel={
+          change?.kind === 'role'
+            ? 'Change role'
+            : change?.kind === 'deactivate'
+              ? change.user.invitationPending
+                ? 'Withdraw'
+                : 'Deactivate'
+              : 'Reactivate'
+        }
         tone={change?.kind === 'deactivate' ? 'danger' : 'primary'}
         reason="optional"
         isPending={update.isPending}
@@ -170,7 +219,9 @@ export function LabUsers({ labId, currentUserId }: { labId: string; currentUserI
             { labId, userId: change.user.id, body },
             {
               onSuccess: () => {
-                showToast(`${change.user.name}: ${change.kind === 'role' ? `now ${roleWords[change.role].toLowerCase()}` : change.kind === 'deactivate' ? 'access removed' : 'access restored'}.`);
+                showToast(
+                  `${change.user.name}: ${change.kind === 'role' ? `now ${roleWords[change.role].toLowerCase()}` : change.kind === 'deactivate' ? 'access removed' : 'access restored'}.`,
+                );
                 closeChange();
               },
             },
@@ -208,12 +259,24 @@ function InviteDialog({ labId, open, onClose }: { labId: string; open: boolean; 
   };
   return (
     <Dialog open={open} onClose={close} title="Invite a user to your lab">
-      {created ? <InvitationLink invitation={created} onClose={close} /> : <InviteForm labId={labId} onClose={close} onCreated={setCreated} />}
+      {created ? (
+        <InvitationLink invitation={created} onClose={close} />
+      ) : (
+        <InviteForm labId={labId} onClose={close} onCreated={setCreated} />
+      )}
     </Dialog>
   );
 }
 
-function InviteForm({ labId, onClose, onCreated }: { labId: string; onClose: () => void; onCreated: (i: InvitationCreated) => void }) {
+function InviteForm({
+  labId,
+  onClose,
+  onCreated,
+}: {
+  labId: string;
+  onClose: () => void;
+  onCreated: (i: InvitationCreated) => void;
+}) {
   const invite = useInviteUser();
   const form = useForm<InviteValues, unknown, z.output<typeof invitationCreateSchema>>({
     resolver: zodResolver(invitationCreateSchema),
@@ -240,7 +303,14 @@ function InviteForm({ labId, onClose, onCreated }: { labId: string; onClose: () 
       ) : null}
       <div className="grid gap-4">
         <TextField label="Name" autoComplete="off" error={errors.name?.message} {...form.register('name')} />
-        <TextField label="E-mail address" type="email" autoComplete="off" spellCheck={false} error={errors.email?.message} {...form.register('email')} />
+        <TextField
+          label="E-mail address"
+          type="email"
+          autoComplete="off"
+          spellCheck={false}
+          error={errors.email?.message}
+          {...form.register('email')}
+        />
         <SelectField label="Role" error={errors.role?.message} {...form.register('role')}>
           <option value="analyst">Analyst: uploads QC data, reads reports, writes comments</option>
           <option value="supervisor">Supervisor: also manages the lab and signs the month off</option>
@@ -263,8 +333,8 @@ function InvitationLink({ invitation, onClose }: { invitation: InvitationCreated
   return (
     <div>
       <Alert tone="info" title="Pass this link on yourself">
-        Plumbline does not send e-mail yet. Send the link to {invitation.user.name} by a channel you trust: whoever opens it can
-        set the password of this account.
+        Plumbline does not send e-mail yet. Send the link to {invitation.user.name} by a channel you trust:
+        whoever opens it can set the password of this account.
       </Alert>
       <div className="mt-5 flex flex-col gap-1.5">
         <label htmlFor={linkId} className="text-sm font-medium text-slate-800">
@@ -281,7 +351,9 @@ function InvitationLink({ invitation, onClose }: { invitation: InvitationCreated
           />
           <CopyButton text={invitation.link} label="Copy link" />
         </div>
-        <p className="text-xs text-slate-600">The link works once, until {formatDateTime(invitation.expiresAt)}.</p>
+        <p className="text-xs text-slate-600">
+          The link works once, until {formatDateTime(invitation.expiresAt)}.
+        </p>
       </div>
       <DialogActions>
         <Button onClick={onClose}>Done</Button>

@@ -1,16 +1,18 @@
 // The lab's home: the period it is submitting for (deadline, submitted, late, signed), its flags by
 // severity, what needs attention next, and its latest uploads.
-import type { ReactNode } from 'react';
+import { useState, type ReactNode } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import type { AttentionItem, LabOverview, UploadSummary } from '@plumbline/contracts';
 import { SeverityIcon, severityLabels, type Severity } from '../../../components/charts/severity.tsx';
 import { Alert } from '../../../components/ui/alert.tsx';
 import { Badge } from '../../../components/ui/badge.tsx';
+import { Button } from '../../../components/ui/button.tsx';
 import { Spinner } from '../../../components/ui/spinner.tsx';
+import { showToast } from '../../../components/ui/toast.tsx';
 import { errorMessage } from '../../../lib/form-errors.ts';
 import { formatDate, formatDateTime, formatPeriod } from '../../../utils/format.ts';
-import { labOverviewKeys } from '../api/lab-overview-keys.ts';
+import { downloadUploadsCsv, labOverviewKeys } from '../api/lab-overview-keys.ts';
 
 export type OverviewLinks = {
   uploads: string;
@@ -19,11 +21,15 @@ export type OverviewLinks = {
   procedures: string | null;
 };
 
-const linkClass = 'font-medium text-plumb-700 underline decoration-plumb-300 underline-offset-2 hover:text-plumb-900';
+const linkClass =
+  'font-medium text-plumb-700 underline decoration-plumb-300 underline-offset-2 hover:text-plumb-900';
 
 function Card({ title, children, footer }: { title: string; children: ReactNode; footer?: ReactNode }) {
   return (
-    <section aria-label={title} className="flex flex-col rounded-lg border border-slate-200 bg-white p-5 shadow-xs">
+    <section
+      aria-label={title}
+      className="flex flex-col rounded-lg border border-slate-200 bg-white p-5 shadow-xs"
+    >
       <h2 className="text-xs font-semibold tracking-[0.12em] text-slate-500 uppercase">{title}</h2>
       <div className="mt-3 flex-1">{children}</div>
       {footer ? <div className="mt-4 text-sm">{footer}</div> : null}
@@ -51,8 +57,13 @@ function CurrentPeriod({ overview, links }: { overview: LabOverview; links: Over
     <Card
       title="This period"
       footer={
-        <Link to={current.submitted ? links.report({ period: current.period }) : links.uploads} className={linkClass}>
-          {current.submitted ? `Open the report of ${formatPeriod(current.period)}` : 'Upload the control data'}
+        <Link
+          to={current.submitted ? links.report({ period: current.period }) : links.uploads}
+          className={linkClass}
+        >
+          {current.submitted
+            ? `Open the report of ${formatPeriod(current.period)}`
+            : 'Upload the control data'}
         </Link>
       }
     >
@@ -66,7 +77,9 @@ function CurrentPeriod({ overview, links }: { overview: LabOverview; links: Over
         <dd className="text-slate-900">
           <time dateTime={current.deadline}>{formatDate(current.deadline)}</time>
           {current.state === 'open' ? (
-            <span className={`ml-1 ${current.daysToDeadline < 0 ? 'font-semibold text-alarm-800' : current.daysToDeadline < 7 ? 'font-medium text-brass-700' : 'text-slate-600'}`}>
+            <span
+              className={`ml-1 ${current.daysToDeadline < 0 ? 'font-semibold text-alarm-800' : current.daysToDeadline < 7 ? 'font-medium text-brass-700' : 'text-slate-600'}`}
+            >
               ({deadlineText(current.daysToDeadline)})
             </span>
           ) : null}
@@ -77,7 +90,9 @@ function CurrentPeriod({ overview, links }: { overview: LabOverview; links: Over
         </dd>
         <dt className="text-slate-500">Sign-off</dt>
         <dd className="text-slate-900">
-          {current.signoff ? `Signed by ${current.signoff.signedBy.name}, ${formatDate(current.signoff.signedAt)}` : 'Not signed'}
+          {current.signoff
+            ? `Signed by ${current.signoff.signedBy.name}, ${formatDate(current.signoff.signedAt)}`
+            : 'Not signed'}
         </dd>
       </dl>
     </Card>
@@ -111,7 +126,8 @@ function FlagSummary({ overview, links }: { overview: LabOverview; links: Overvi
       }
     >
       <p className="text-xs text-slate-600">
-        {flags.rows} results · {flags.published ? 'published figures' : 'provisional figures'} · each result counted by its worst flag
+        {flags.rows} results · {flags.published ? 'published figures' : 'provisional figures'} · each result
+        counted by its worst flag
       </p>
       <dl className="mt-3 grid grid-cols-2 gap-2">
         {order.map((severity) => (
@@ -128,8 +144,16 @@ function FlagSummary({ overview, links }: { overview: LabOverview; links: Overvi
   );
 }
 
-const attentionSeverity: Record<AttentionItem['severity'], Severity> = { info: 'fine', warning: 'warning', action: 'action' };
-const attentionWords: Record<AttentionItem['severity'], string> = { info: 'For information', warning: 'Warning', action: 'Action' };
+const attentionSeverity: Record<AttentionItem['severity'], Severity> = {
+  info: 'fine',
+  warning: 'warning',
+  action: 'action',
+};
+const attentionWords: Record<AttentionItem['severity'], string> = {
+  info: 'For information',
+  warning: 'Warning',
+  action: 'Action',
+};
 
 function attentionLink(item: AttentionItem, links: OverviewLinks): { to: string; label: string } | null {
   switch (item.kind) {
@@ -144,7 +168,10 @@ function attentionLink(item: AttentionItem, links: OverviewLinks): { to: string;
       return { to: links.report({ period: item.period ?? undefined }), label: 'Open the report' };
     case 'action-flags':
     case 'warning-flags':
-      return { to: links.report({ period: item.period ?? undefined, flagged: '1' }), label: 'See the flagged results' };
+      return {
+        to: links.report({ period: item.period ?? undefined, flagged: '1' }),
+        label: 'See the flagged results',
+      };
   }
 }
 
@@ -152,7 +179,9 @@ function Attention({ overview, links }: { overview: LabOverview; links: Overview
   return (
     <Card title="Needs attention">
       {overview.attention.length === 0 ? (
-        <p className="text-sm text-slate-700">Nothing waits for you. Your data is in and no result needs a look.</p>
+        <p className="text-sm text-slate-700">
+          Nothing waits for you. Your data is in and no result needs a look.
+        </p>
       ) : (
         <ul className="divide-y divide-slate-100" aria-label="Things to do, most urgent first">
           {overview.attention.map((item, index) => {
@@ -173,7 +202,10 @@ function Attention({ overview, links }: { overview: LabOverview; links: Overview
                     </Link>
                   ) : null}
                 </div>
-                <span className={`text-xs whitespace-nowrap ${item.severity === 'action' ? 'font-semibold text-alarm-800' : item.severity === 'warning' ? 'text-brass-700' : 'text-slate-500'}`} aria-hidden="true">
+                <span
+                  className={`text-xs whitespace-nowrap ${item.severity === 'action' ? 'font-semibold text-alarm-800' : item.severity === 'warning' ? 'text-brass-700' : 'text-slate-500'}`}
+                  aria-hidden="true"
+                >
                   {attentionWords[item.severity]}
                 </span>
               </li>
@@ -194,9 +226,50 @@ const uploadStatusWords: Record<UploadSummary['status'], string> = {
   cancelled: 'Cancelled',
 };
 
-function RecentUploads({ uploads, links }: { uploads: readonly UploadSummary[]; links: OverviewLinks }) {
+function UploadsCsvButton({ labId }: { labId: string }) {
+  const [busy, setBusy] = useState(false);
   return (
-    <Card title="Recent uploads" footer={<Link to={links.uploads} className={linkClass}>All uploads</Link>}>
+    <Button
+      variant="ghost"
+      size="xs"
+      isLoading={busy}
+      onClick={async () => {
+        setBusy(true);
+        try {
+          await downloadUploadsCsv(labId);
+        } catch (error) {
+          showToast(`The uploads could not be downloaded: ${errorMessage(error)}`, 'error');
+        } finally {
+          setBusy(false);
+        }
+      }}
+    >
+      Every upload as CSV
+    </Button>
+  );
+}
+
+function RecentUploads({
+  labId,
+  uploads,
+  links,
+}: {
+  labId: string;
+  uploads: readonly UploadSummary[];
+  links: OverviewLinks;
+}) {
+  return (
+    <Card
+      title="Recent uploads"
+      footer={
+        <span className="flex flex-wrap items-center justify-between gap-2">
+          <Link to={links.uploads} className={linkClass}>
+            All uploads
+          </Link>
+          {uploads.length > 0 ? <UploadsCsvButton labId={labId} /> : null}
+        </span>
+      }
+    >
       {uploads.length === 0 ? (
         <p className="text-sm text-slate-700">No file has been uploaded yet.</p>
       ) : (
@@ -204,30 +277,54 @@ function RecentUploads({ uploads, links }: { uploads: readonly UploadSummary[]; 
           <caption className="sr-only">The lab's latest uploads</caption>
           <thead>
             <tr className="border-b border-slate-200 text-left text-xs text-slate-500">
-              <th scope="col" className="py-1.5 pr-2 font-medium">File</th>
-              <th scope="col" className="py-1.5 pr-2 font-medium">Status</th>
-              <th scope="col" className="py-1.5 pr-2 text-right font-medium">Rows stored</th>
-              <th scope="col" className="py-1.5 text-right font-medium">Sent</th>
+              <th scope="col" className="py-1.5 pr-2 font-medium">
+                File
+              </th>
+              <th scope="col" className="py-1.5 pr-2 font-medium">
+                Status
+              </th>
+              <th scope="col" className="py-1.5 pr-2 text-right font-medium">
+                Rows stored
+              </th>
+              <th scope="col" className="py-1.5 text-right font-medium">
+                Sent
+              </th>
             </tr>
           </thead>
           <tbody>
             {uploads.map((upload) => (
               <tr key={upload.id} className="border-b border-slate-100">
-                <th scope="row" className="max-w-[14rem] truncate py-1.5 pr-2 text-left font-medium text-slate-900" title={upload.filename}>
+                <th
+                  scope="row"
+                  className="max-w-[14rem] truncate py-1.5 pr-2 text-left font-medium text-slate-900"
+                  title={upload.filename}
+                >
                   {upload.filename}
                   <span className="block text-xs font-normal text-slate-500">
                     {upload.kind === 'qc-summary' ? 'monthly summary' : 'daily values'}
                   </span>
                 </th>
                 <td className="py-1.5 pr-2">
-                  <Badge tone={upload.status === 'stored' ? 'plumb' : upload.status === 'failed' ? 'alarm' : upload.status === 'needs-review' ? 'brass' : 'neutral'}>
+                  <Badge
+                    tone={
+                      upload.status === 'stored'
+                        ? 'plumb'
+                        : upload.status === 'failed'
+                          ? 'alarm'
+                          : upload.status === 'needs-review'
+                            ? 'brass'
+                            : 'neutral'
+                    }
+                  >
                     {uploadStatusWords[upload.status]}
                   </Badge>
                 </td>
                 <td className="py-1.5 pr-2 text-right">
                   {upload.rowsAccepted} of {upload.rowsTotal}
                 </td>
-                <td className="py-1.5 text-right text-xs whitespace-nowrap text-slate-600">{formatDateTime(upload.createdAt)}</td>
+                <td className="py-1.5 text-right text-xs whitespace-nowrap text-slate-600">
+                  {formatDateTime(upload.createdAt)}
+                </td>
               </tr>
             ))}
           </tbody>
@@ -256,7 +353,7 @@ export function LabOverviewDashboard({ labId, links }: { labId: string; links: O
         <Attention overview={data} links={links} />
       </div>
       <div className="md:col-span-2">
-        <RecentUploads uploads={data.recentUploads} links={links} />
+        <RecentUploads labId={labId} uploads={data.recentUploads} links={links} />
       </div>
     </div>
   );

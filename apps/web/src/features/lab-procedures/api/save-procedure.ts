@@ -10,8 +10,20 @@ export function registerProcedure({ labId, body }: { labId: string; body: Proced
   return apiRequest(base(labId), { method: 'POST', body, schema: testMenuItemSchema });
 }
 
-export function editProcedure({ labId, procedureId, body }: { labId: string; procedureId: string; body: ProcedureUpdate }) {
-  return apiRequest(`${base(labId)}/${encodeURIComponent(procedureId)}`, { method: 'PATCH', body, schema: testMenuItemSchema });
+export function editProcedure({
+  labId,
+  procedureId,
+  body,
+}: {
+  labId: string;
+  procedureId: string;
+  body: ProcedureUpdate;
+}) {
+  return apiRequest(`${base(labId)}/${encodeURIComponent(procedureId)}`, {
+    method: 'PATCH',
+    body,
+    schema: testMenuItemSchema,
+  });
 }
 
 export function changeProcedureState({

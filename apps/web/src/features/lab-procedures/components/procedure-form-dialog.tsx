@@ -28,7 +28,10 @@ export function ProcedureFormDialog({
   request: ProcedureDialogRequest;
   onClose: () => void;
 }) {
-  const title = request?.mode === 'edit' ? `Edit procedure ${request.procedure.code}` : 'Register a measurement procedure';
+  const title =
+    request?.mode === 'edit'
+      ? `Edit procedure ${request.procedure.code}`
+      : 'Register a measurement procedure';
   return (
     <Dialog open={request !== null} onClose={onClose} title={title} size="lg">
       {request?.mode === 'edit' ? (
@@ -42,6 +45,15 @@ export function ProcedureFormDialog({
 
 type RegisterValues = z.input<typeof procedureCreateSchema>;
 const registerFields = ['code', 'analyteId', 'instrumentModelId', 'methodId', 'reagentId', 'unit'];
+
+/** A missing choice reads "choose the …"; the API's own message (e.g. a retired entry) is shown as it is. */
+function choiceError(
+  error: { type?: string; message?: string } | undefined,
+  missing: string,
+): string | undefined {
+  if (!error) return undefined;
+  return error.type === 'server' && error.message ? error.message : missing;
+}
 
 function useCatalogue(list: ProcedureCatalogueList) {
   return useQuery(testMenuKeys.catalogue(list));
@@ -70,8 +82,8 @@ function RegisterForm({ labId, onClose }: { labId: string; onClose: () => void }
   if (failed) {
     return (
       <Alert tone="error" title="The catalogue could not be read">
-        {errorMessage(failed.error)} The analytes, instrument models, methods and reagents come from the network’s
-        catalogue; ask your network coordinator if it stays unavailable.
+        {errorMessage(failed.error)} The analytes, instrument models, methods and reagents come from the
+        network’s catalogue; ask your network coordinator if it stays unavailable.
       </Alert>
     );
   }
@@ -89,7 +101,7 @@ function RegisterForm({ labId, onClose }: { labId: string; onClose: () => void }
     ),
   );
 
-  const pick = (label: string) => `Choose the ${label}`;
+  const pick = (label: string) => `Select the ${label}…`;
   return (
     <form noValidate onSubmit={onSubmit}>
       {register.error ? (
@@ -100,15 +112,24 @@ function RegisterForm({ labId, onClose }: { labId: string; onClose: () => void }
         </div>
       ) : null}
       <div className="grid gap-4 sm:grid-cols-2">
-        <SelectField label="Analyte" error={errors.analyteId ? 'choose the analyte' : undefined} {...form.register('analyteId')}>
+        <SelectField
+          label="Analyte"
+          error={choiceError(errors.analyteId, 'choose the analyte')}
+          {...form.register('analyteId')}
+        >
           <option value="">{analytes.isPending ? 'Loading…' : pick('analyte')}</option>
           {analytes.data?.items.map((item) => (
             <option key={item.id} value={item.id}>
-              {item.name} ({item.code}{item.loinc ? `, LOINC ${item.loinc}` : ''})
+              {item.name} ({item.code}
+              {item.loinc ? `, LOINC ${item.loinc}` : ''})
             </option>
           ))}
         </SelectField>
-        <SelectField label="Instrument model" error={errors.instrumentModelId ? 'choose the instrument model' : undefined} {...form.register('instrumentModelId')}>
+        <SelectField
+          label="Instrument model"
+          error={choiceError(errors.instrumentModelId, 'choose the instrument model')}
+          {...form.register('instrumentModelId')}
+        >
           <option value="">{instruments.isPending ? 'Loading…' : pick('instrument model')}</option>
           {instruments.data?.items.map((item) => (
             <option key={item.id} value={item.id}>
@@ -116,7 +137,11 @@ function RegisterForm({ labId, onClose }: { labId: string; onClose: () => void }
             </option>
           ))}
         </SelectField>
-        <SelectField label="Method" error={errors.methodId ? 'choose the method' : undefined} {...form.register('methodId')}>
+        <SelectField
+          label="Method"
+          error={choiceError(errors.methodId, 'choose the method')}
+          {...form.register('methodId')}
+        >
           <option value="">{methods.isPending ? 'Loading…' : pick('method')}</option>
           {methods.data?.items.map((item) => (
             <option key={item.id} value={item.id}>
@@ -124,7 +149,11 @@ function RegisterForm({ labId, onClose }: { labId: string; onClose: () => void }
             </option>
           ))}
         </SelectField>
-        <SelectField label="Reagent" error={errors.reagentId ? 'choose the reagent' : undefined} {...form.register('reagentId')}>
+        <SelectField
+          label="Reagent"
+          error={choiceError(errors.reagentId, 'choose the reagent')}
+          {...form.register('reagentId')}
+        >
           <option value="">{reagents.isPending ? 'Loading…' : pick('reagent')}</option>
           {reagents.data?.items.map((item) => (
             <option key={item.id} value={item.id}>
@@ -134,10 +163,20 @@ function RegisterForm({ labId, onClose }: { labId: string; onClose: () => void }
         </SelectField>
         <TextField
           label="Unit the lab reports in"
-          hint={analyte ? `UCUM; must convert to ${analyte.unit}${analyte.conventionalUnit ? ` (conventional ${analyte.conventionalUnit})` : ''}.` : 'UCUM, e.g. mmol/L.'}
+          hint={
+            analyte
+              ? `UCUM; must convert to ${analyte.unit}${analyte.conventionalUnit ? ` (conventional ${analyte.conventionalUnit})` : ''}.`
+              : 'UCUM, e.g. mmol/L.'
+          }
           autoComplete="off"
           spellCheck={false}
-          error={errors.unit?.message}
+          error={
+            errors.unit
+              ? errors.unit.type === 'too_small'
+                ? 'enter the unit, e.g. mmol/L'
+                : errors.unit.message
+              : undefined
+          }
           {...form.register('unit')}
         />
         <TextField
@@ -169,7 +208,15 @@ const editSchema = z.object({
 type EditValues = z.input<typeof editSchema>;
 const editFields = ['code', 'unit', 'reason'];
 
-function EditForm({ labId, procedure, onClose }: { labId: string; procedure: TestMenuItem; onClose: () => void }) {
+function EditForm({
+  labId,
+  procedure,
+  onClose,
+}: {
+  labId: string;
+  procedure: TestMenuItem;
+  onClose: () => void;
+}) {
   const edit = useEditProcedure();
   const form = useForm<EditValues, unknown, z.output<typeof editSchema>>({
     resolver: zodResolver(editSchema),
@@ -200,8 +247,9 @@ function EditForm({ labId, procedure, onClose }: { labId: string; procedure: Tes
   return (
     <form noValidate onSubmit={onSubmit}>
       <p className="mb-4 text-sm text-slate-700">
-        {procedure.analyte.name} on {procedure.instrumentModel.name}, {procedure.method.name}, {procedure.reagent.name}. To
-        change the analyte, instrument model, method or reagent, retire this procedure and register a new one.
+        {procedure.analyte.name} on {procedure.instrumentModel.name}, {procedure.method.name},{' '}
+        {procedure.reagent.name}. To change the analyte, instrument model, method or reagent, retire this
+        procedure and register a new one.
       </p>
       {edit.error ? (
         <div className="mb-5">
@@ -211,7 +259,13 @@ function EditForm({ labId, procedure, onClose }: { labId: string; procedure: Tes
         </div>
       ) : null}
       <div className="grid gap-4 sm:grid-cols-2">
-        <TextField label="Short code" autoComplete="off" spellCheck={false} error={errors.code?.message} {...form.register('code')} />
+        <TextField
+          label="Short code"
+          autoComplete="off"
+          spellCheck={false}
+          error={errors.code?.message}
+          {...form.register('code')}
+        />
         <TextField
           label="Unit the lab reports in"
           hint={`UCUM; must convert to ${procedure.analyte.unit}.`}
@@ -220,7 +274,12 @@ function EditForm({ labId, procedure, onClose }: { labId: string; procedure: Tes
           error={errors.unit?.message}
           {...form.register('unit')}
         />
-        <TextField className="sm:col-span-2" label="Reason, optional (kept in the audit log)" error={errors.reason?.message} {...form.register('reason')} />
+        <TextField
+          className="sm:col-span-2"
+          label="Reason, optional (kept in the audit log)"
+          error={errors.reason?.message}
+          {...form.register('reason')}
+        />
       </div>
       <DialogActions>
         <Button variant="secondary" onClick={onClose}>

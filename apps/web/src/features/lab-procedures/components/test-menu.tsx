@@ -2,7 +2,13 @@
 // reagent, unit and short code; register, edit, retire and restore (supervisors), CSV export.
 import { useMemo, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
-import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
+import {
+  createColumnHelper,
+  getCoreRowModel,
+  getSortedRowModel,
+  useReactTable,
+  type SortingState,
+} from '@tanstack/react-table';
 import type { TestMenuItem } from '@plumbline/contracts';
 import { Alert } from '../../../components/ui/alert.tsx';
 import { Badge } from '../../../components/ui/badge.tsx';
@@ -48,7 +54,11 @@ export function TestMenu({ labId, canManage }: { labId: string; canManage: boole
     () => [
       column.accessor('code', {
         header: 'Short code',
-        cell: (c) => <span className="font-mono text-sm font-semibold text-plumb-900">{c.getValue()}</span>,
+        cell: (c) => (
+          <span className="font-mono text-sm font-semibold whitespace-nowrap text-plumb-900">
+            {c.getValue()}
+          </span>
+        ),
       }),
       column.accessor((p) => p.analyte.name, {
         id: 'analyte',
@@ -63,10 +73,25 @@ export function TestMenu({ labId, canManage }: { labId: string; canManage: boole
           </span>
         ),
       }),
-      column.accessor((p) => p.instrumentModel.name, { id: 'instrument', header: 'Instrument model', cell: (c) => <Ref {...c.row.original.instrumentModel} /> }),
-      column.accessor((p) => p.method.name, { id: 'method', header: 'Method', cell: (c) => <Ref {...c.row.original.method} /> }),
-      column.accessor((p) => p.reagent.name, { id: 'reagent', header: 'Reagent', cell: (c) => <Ref {...c.row.original.reagent} /> }),
-      column.accessor('unit', { header: 'Unit', cell: (c) => <span className="font-mono text-xs">{c.getValue()}</span> }),
+      column.accessor((p) => p.instrumentModel.name, {
+        id: 'instrument',
+        header: 'Instrument model',
+        cell: (c) => <Ref {...c.row.original.instrumentModel} />,
+      }),
+      column.accessor((p) => p.method.name, {
+        id: 'method',
+        header: 'Method',
+        cell: (c) => <Ref {...c.row.original.method} />,
+      }),
+      column.accessor((p) => p.reagent.name, {
+        id: 'reagent',
+        header: 'Reagent',
+        cell: (c) => <Ref {...c.row.original.reagent} />,
+      }),
+      column.accessor('unit', {
+        header: 'Unit',
+        cell: (c) => <span className="font-mono text-xs">{c.getValue()}</span>,
+      }),
       column.accessor((p) => (p.retiredAt ? 1 : 0), {
         id: 'state',
         header: 'State',
@@ -88,15 +113,30 @@ export function TestMenu({ labId, canManage }: { labId: string; canManage: boole
                   <span className="flex justify-end gap-1 whitespace-nowrap">
                     {p.retiredAt === null ? (
                       <>
-                        <Button variant="ghost" size="xs" aria-label={`Edit ${p.code}`} onClick={() => setDialog({ mode: 'edit', procedure: p })}>
+                        <Button
+                          variant="ghost"
+                          size="xs"
+                          aria-label={`Edit ${p.code}`}
+                          onClick={() => setDialog({ mode: 'edit', procedure: p })}
+                        >
                           Edit
                         </Button>
-                        <Button variant="ghost" size="xs" aria-label={`Retire ${p.code}`} onClick={() => setStateRequest({ procedure: p, action: 'retire' })}>
+                        <Button
+                          variant="ghost"
+                          size="xs"
+                          aria-label={`Retire ${p.code}`}
+                          onClick={() => setStateRequest({ procedure: p, action: 'retire' })}
+                        >
                           Retire
                         </Button>
                       </>
                     ) : (
-                      <Button variant="ghost" size="xs" aria-label={`Restore ${p.code}`} onClick={() => setStateRequest({ procedure: p, action: 'restore' })}>
+                      <Button
+                        variant="ghost"
+                        size="xs"
+                        aria-label={`Restore ${p.code}`}
+                        onClick={() => setStateRequest({ procedure: p, action: 'restore' })}
+                      >
                         Restore
                       </Button>
                     )}
@@ -129,7 +169,12 @@ export function TestMenu({ labId, canManage }: { labId: string; canManage: boole
     <div className="space-y-4">
       <div className="flex flex-wrap items-center justify-between gap-3">
         <label className="inline-flex items-center gap-2 text-sm text-slate-700">
-          <input type="checkbox" checked={showRetired} onChange={(e) => setShowRetired(e.target.checked)} className="accent-plumb-700" />
+          <input
+            type="checkbox"
+            checked={showRetired}
+            onChange={(e) => setShowRetired(e.target.checked)}
+            className="accent-plumb-700"
+          />
           Show retired procedures ({retiredCount})
         </label>
         <div className="flex gap-2">
@@ -165,7 +210,11 @@ export function TestMenu({ labId, canManage }: { labId: string; canManage: boole
         <DataTable
           table={table}
           caption="Your lab's measurement procedures"
-          emptyMessage={menu.isPending ? 'Loading…' : 'No measurement procedure is registered yet. Register one to start sending QC data for it.'}
+          emptyMessage={
+            menu.isPending
+              ? 'Loading…'
+              : 'No measurement procedure is registered yet. Register one to start sending QC data for it.'
+          }
           rowClassName={(p) => (p.retiredAt ? 'text-slate-500' : '')}
         />
       )}
@@ -173,7 +222,11 @@ export function TestMenu({ labId, canManage }: { labId: string; canManage: boole
       <ConfirmDialog
         open={stateRequest !== null}
         onClose={closeState}
-        title={stateRequest?.action === 'retire' ? `Retire ${stateRequest.procedure.code}?` : `Restore ${stateRequest?.procedure.code ?? ''}?`}
+        title={
+          stateRequest?.action === 'retire'
+            ? `Retire ${stateRequest.procedure.code}?`
+            : `Restore ${stateRequest?.procedure.code ?? ''}?`
+        }
         confirmLabel={stateRequest?.action === 'retire' ? 'Retire procedure' : 'Restore procedure'}
         tone={stateRequest?.action === 'retire' ? 'danger' : 'primary'}
         reason="optional"
@@ -195,8 +248,9 @@ export function TestMenu({ labId, canManage }: { labId: string; canManage: boole
       >
         {stateRequest?.action === 'retire' ? (
           <p>
-            Files can no longer send data for <strong className="font-semibold text-slate-900">{stateRequest.procedure.code}</strong>{' '}
-            ({stateRequest.procedure.analyte.name}). Its data and reports stay, and you can restore it later.
+            Files can no longer send data for{' '}
+            <strong className="font-semibold text-slate-900">{stateRequest.procedure.code}</strong> (
+            {stateRequest.procedure.analyte.name}). Its data and reports stay, and you can restore it later.
           </p>
         ) : (
           <p>The procedure can receive QC data again under its short code.</p>

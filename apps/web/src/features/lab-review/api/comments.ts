@@ -6,10 +6,22 @@ import { apiRequest } from '../../../lib/api-client.ts';
 import { labReviewKeys } from './lab-review-keys.ts';
 
 export function createComment({ labId, body }: { labId: string; body: CommentCreate }) {
-  return apiRequest(`/labs/${encodeURIComponent(labId)}/comments`, { method: 'POST', body, schema: commentSchema });
+  return apiRequest(`/labs/${encodeURIComponent(labId)}/comments`, {
+    method: 'POST',
+    body,
+    schema: commentSchema,
+  });
 }
 
-export function updateComment({ labId, commentId, body }: { labId: string; commentId: string; body: string }) {
+export function updateComment({
+  labId,
+  commentId,
+  body,
+}: {
+  labId: string;
+  commentId: string;
+  body: string;
+}) {
   return apiRequest(`/labs/${encodeURIComponent(labId)}/comments/${encodeURIComponent(commentId)}`, {
     method: 'PATCH',
     body: { body },
@@ -18,7 +30,9 @@ export function updateComment({ labId, commentId, body }: { labId: string; comme
 }
 
 export function deleteComment({ labId, commentId }: { labId: string; commentId: string }) {
-  return apiRequest(`/labs/${encodeURIComponent(labId)}/comments/${encodeURIComponent(commentId)}`, { method: 'DELETE' });
+  return apiRequest(`/labs/${encodeURIComponent(labId)}/comments/${encodeURIComponent(commentId)}`, {
+    method: 'DELETE',
+  });
 }
 
 function useInvalidateComments() {

@@ -31,7 +31,11 @@ export function getDrilldown(params: DrilldownParams, signal?: AbortSignal) {
 }
 
 export function getComments(labId: string, period: string, signal?: AbortSignal) {
-  return apiRequest(`/labs/${encodeURIComponent(labId)}/comments`, { schema: commentListSchema, query: { period }, signal });
+  return apiRequest(`/labs/${encodeURIComponent(labId)}/comments`, {
+    schema: commentListSchema,
+    query: { period },
+    signal,
+  });
 }
 
 export function getPeriodSignoff(labId: string, period: string, signal?: AbortSignal) {

@@ -68,27 +68,53 @@ function CsvButton({ label, download }: { label: string; download: () => Promise
 }
 
 function Unavailable({ children }: { children: ReactNode }) {
-  return <p className="rounded-lg border border-dashed border-slate-300 bg-white px-4 py-6 text-sm text-slate-600">{children}</p>;
+  return (
+    <p className="rounded-lg border border-dashed border-slate-300 bg-white px-4 py-6 text-sm text-slate-600">
+      {children}
+    </p>
+  );
 }
 
 export function KeyFigures({ drilldown }: { drilldown: Drilldown }) {
-  const current = drilldown.trend.find((point) => point.period === drilldown.period) ?? drilldown.trend.at(-1);
+  const current =
+    drilldown.trend.find((point) => point.period === drilldown.period) ?? drilldown.trend.at(-1);
   const digits = drilldown.decimals + 1;
   const facts = [
     { label: 'SDI', value: signed(current?.sdi) },
-    { label: 'CVR', value: current?.cvr === null || current?.cvr === undefined ? '—' : current.cvr.toFixed(2) },
-    { label: 'Bias', value: current?.biasPct === null || current?.biasPct === undefined ? '—' : `${signed(current.biasPct, 1)} %` },
+    {
+      label: 'CVR',
+      value: current?.cvr === null || current?.cvr === undefined ? '—' : current.cvr.toFixed(2),
+    },
+    {
+      label: 'Bias',
+      value:
+        current?.biasPct === null || current?.biasPct === undefined ? '—' : `${signed(current.biasPct, 1)} %`,
+    },
     { label: 'Your mean', value: current ? `${current.labMean.toFixed(digits)} ${drilldown.unit}` : '—' },
     { label: 'Your SD', value: current ? current.labSd.toFixed(digits) : '—' },
-    { label: 'Peer mean', value: current?.peerMean === null || current?.peerMean === undefined ? '—' : `${current.peerMean.toFixed(digits)} ${drilldown.unit}` },
-    { label: 'Peer SD', value: current?.peerSd === null || current?.peerSd === undefined ? '—' : current.peerSd.toFixed(digits) },
+    {
+      label: 'Peer mean',
+      value:
+        current?.peerMean === null || current?.peerMean === undefined
+          ? '—'
+          : `${current.peerMean.toFixed(digits)} ${drilldown.unit}`,
+    },
+    {
+      label: 'Peer SD',
+      value: current?.peerSd === null || current?.peerSd === undefined ? '—' : current.peerSd.toFixed(digits),
+    },
   ];
   return (
-    <dl className="grid grid-cols-2 gap-2 sm:grid-cols-4 lg:grid-cols-7" aria-label={`Figures of ${formatPeriod(drilldown.period)}`}>
+    <dl
+      className="grid grid-cols-2 gap-2 sm:grid-cols-4 lg:grid-cols-7"
+      aria-label={`Figures of ${formatPeriod(drilldown.period)}`}
+    >
       {facts.map((fact) => (
         <div key={fact.label} className="rounded-md border border-slate-200 bg-white px-3 py-2 shadow-xs">
           <dt className="text-xs text-slate-500">{fact.label}</dt>
-          <dd className="figures mt-0.5 text-base font-semibold whitespace-nowrap text-slate-900">{fact.value}</dd>
+          <dd className="figures mt-0.5 text-base font-semibold whitespace-nowrap text-slate-900">
+            {fact.value}
+          </dd>
         </div>
       ))}
     </dl>
@@ -134,7 +160,7 @@ export function DrilldownView({
         {drilldown.trend.length === 0 ? (
           <Unavailable>No earlier months with data for this lot and level.</Unavailable>
         ) : (
-          <div className="grid gap-4 xl:grid-cols-2">
+          <div className="grid items-start gap-4 xl:grid-cols-2">
             <TrendChart
               measure="sdi"
               title={`SDI over the last ${drilldown.trend.length} month${drilldown.trend.length === 1 ? '' : 's'}`}
@@ -150,7 +176,7 @@ export function DrilldownView({
       </Section>
 
       <Section title={`The peer group in ${formatPeriod(drilldown.period)}`}>
-        <div className="grid gap-4 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+        <div className="grid items-start gap-4 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
           {drilldown.distribution ? (
             <PeerDistributionChart
               points={labMeanPoints(drilldown)}
@@ -180,7 +206,9 @@ export function DrilldownView({
       <Section
         title="Control chart of the daily values"
         actions={
-          lj.points.length > 0 ? <CsvButton label="Values as CSV" download={() => downloadControlChartCsv(params)} /> : undefined
+          lj.points.length > 0 ? (
+            <CsvButton label="Values as CSV" download={() => downloadControlChartCsv(params)} />
+          ) : undefined
         }
       >
         <fieldset className="flex flex-wrap items-center gap-4 text-sm">
@@ -216,8 +244,11 @@ export function DrilldownView({
         ) : (
           <>
             <p className="text-sm text-slate-700">
-              {lj.runs.length} runs: {lj.runs.length - rejected.length - warned.length} accepted, {warned.length} with a warning,{' '}
-              <span className={rejected.length > 0 ? 'font-semibold text-alarm-800' : undefined}>{rejected.length} rejected</span>
+              {lj.runs.length} runs: {lj.runs.length - rejected.length - warned.length} accepted,{' '}
+              {warned.length} with a warning,{' '}
+              <span className={rejected.length > 0 ? 'font-semibold text-alarm-800' : undefined}>
+                {rejected.length} rejected
+              </span>
               {rejected.length > 0
                 ? ` (${rejected.map((run) => `run ${run.run}: ${run.rules.join(', ')}`).join('; ')})`
                 : ''}
@@ -240,15 +271,19 @@ export function DrilldownView({
         {drilldown.uncertainty ? (
           <>
             <p className="text-sm text-slate-700">
-              Expanded uncertainty <span className="font-semibold">U = {drilldown.uncertainty.U.toFixed(2)} %</span> (k ={' '}
-              {drilldown.uncertainty.k}) from your long-term CV of {drilldown.uncertainty.longTerm.cv.toFixed(2)} % and your bias
-              against the peer groups over {drilldown.uncertainty.comparisons.length} month
+              Expanded uncertainty{' '}
+              <span className="font-semibold">U = {drilldown.uncertainty.U.toFixed(2)} %</span> (k ={' '}
+              {drilldown.uncertainty.k}) from your long-term CV of{' '}
+              {drilldown.uncertainty.longTerm.cv.toFixed(2)} % and your bias against the peer groups over{' '}
+              {drilldown.uncertainty.comparisons.length} month
               {drilldown.uncertainty.comparisons.length === 1 ? '' : 's'} (Nordtest approach).
             </p>
             <UncertaintyChart components={uncertaintyComponents(drilldown.uncertainty)} />
           </>
         ) : (
-          <Unavailable>{drilldown.uncertaintyNote ?? 'Not enough data to estimate the measurement uncertainty.'}</Unavailable>
+          <Unavailable>
+            {drilldown.uncertaintyNote ?? 'Not enough data to estimate the measurement uncertainty.'}
+          </Unavailable>
         )}
       </Section>
     </div>

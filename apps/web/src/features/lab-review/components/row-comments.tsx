@@ -12,15 +12,7 @@ import { formatDateTime } from '../../../utils/format.ts';
 import { useCreateComment, useDeleteComment, useUpdateComment } from '../api/comments.ts';
 import type { ReportRowRef } from '../api/lab-review-keys.ts';
 
-function CommentItem({
-  comment,
-  labId,
-  canChange,
-}: {
-  comment: Comment;
-  labId: string;
-  canChange: boolean;
-}) {
+function CommentItem({ comment, labId, canChange }: { comment: Comment; labId: string; canChange: boolean }) {
   const [editing, setEditing] = useState(false);
   const [text, setText] = useState(comment.body);
   const [deleting, setDeleting] = useState(false);
@@ -44,13 +36,27 @@ function CommentItem({
             );
           }}
         >
-          <TextareaField label="Edit the comment" rows={3} maxLength={COMMENT_MAX_LENGTH} value={text} onChange={(e) => setText(e.target.value)} />
+          <TextareaField
+            label="Edit the comment"
+            rows={3}
+            maxLength={COMMENT_MAX_LENGTH}
+            value={text}
+            onChange={(e) => setText(e.target.value)}
+          />
           {update.isError ? <Alert tone="error">{errorMessage(update.error)}</Alert> : null}
           <div className="flex gap-2">
             <Button type="submit" size="sm" isLoading={update.isPending}>
               Save
             </Button>
-            <Button variant="secondary" size="sm" onClick={() => { setEditing(false); setText(comment.body); update.reset(); }}>
+            <Button
+              variant="secondary"
+              size="sm"
+              onClick={() => {
+                setEditing(false);
+                setText(comment.body);
+                update.reset();
+              }}
+            >
               Cancel
             </Button>
           </div>
@@ -70,7 +76,10 @@ function CommentItem({
       ) : null}
       <ConfirmDialog
         open={deleting}
-        onClose={() => { setDeleting(false); remove.reset(); }}
+        onClose={() => {
+          setDeleting(false);
+          remove.reset();
+        }}
         title="Delete this comment?"
         confirmLabel="Delete"
         tone="danger"
@@ -79,11 +88,19 @@ function CommentItem({
         onConfirm={() =>
           remove.mutate(
             { labId, commentId: comment.id },
-            { onSuccess: () => { setDeleting(false); showToast('Comment deleted'); } },
+            {
+              onSuccess: () => {
+                setDeleting(false);
+                showToast('Comment deleted');
+              },
+            },
           )
         }
       >
-        <p>The comment by {comment.author.name} is removed from the review. The deletion is kept in the audit log.</p>
+        <p>
+          The comment by {comment.author.name} is removed from the review. The deletion is kept in the audit
+          log.
+        </p>
       </ConfirmDialog>
     </li>
   );
@@ -128,7 +145,9 @@ export function RowComments({
         </ol>
       )}
       {signed ? (
-        <p className="text-xs text-slate-600">The period is signed off: existing comments cannot be changed, new ones can be added.</p>
+        <p className="text-xs text-slate-600">
+          The period is signed off: existing comments cannot be changed, new ones can be added.
+        </p>
       ) : null}
       <form
         noValidate

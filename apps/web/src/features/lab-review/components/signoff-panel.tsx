@@ -21,15 +21,24 @@ export function SignedBanner({ signoff }: { signoff: Signoff }) {
       <p className="flex flex-wrap items-center gap-2 text-sm font-semibold text-plumb-900">
         <svg width="16" height="16" viewBox="0 0 16 16" aria-hidden="true" focusable="false">
           <rect x="3" y="7" width="10" height="7" rx="1.5" fill="var(--color-plumb-700)" />
-          <path d="M5.5 7V5a2.5 2.5 0 0 1 5 0v2" fill="none" stroke="var(--color-plumb-700)" strokeWidth="1.5" />
+          <path
+            d="M5.5 7V5a2.5 2.5 0 0 1 5 0v2"
+            fill="none"
+            stroke="var(--color-plumb-700)"
+            strokeWidth="1.5"
+          />
         </svg>
-        Signed off by {signoff.signedBy.name} on <time dateTime={signoff.signedAt}>{formatDateTime(signoff.signedAt)}</time>
+        <span>
+          Signed off by {signoff.signedBy.name} on{' '}
+          <time dateTime={signoff.signedAt}>{formatDateTime(signoff.signedAt)}</time>
+        </span>
       </p>
       <blockquote className="mt-2 border-l-2 border-plumb-300 pl-3 text-sm whitespace-pre-line text-slate-800">
         {signoff.statement}
       </blockquote>
       <p className="mt-2 text-xs text-slate-600">
-        The review of {formatPeriod(signoff.period)} is read-only. New corrective-action comments can still be added.
+        The review of {formatPeriod(signoff.period)} is read-only. New corrective-action comments can still be
+        added.
       </p>
     </div>
   );
@@ -67,7 +76,10 @@ export function SignoffPanel({
 
   if (!canSign) {
     return (
-      <p data-testid="signoff-open" className="rounded-lg border border-dashed border-slate-300 bg-white px-5 py-3 text-sm text-slate-700">
+      <p
+        data-testid="signoff-open"
+        className="rounded-lg border border-dashed border-slate-300 bg-white px-5 py-3 text-sm text-slate-700"
+      >
         <span className="font-semibold text-slate-900">Not signed off yet.</span> Your supervisor signs{' '}
         {formatPeriod(period)} off once the flagged results are looked into and commented.
       </p>
@@ -75,17 +87,22 @@ export function SignoffPanel({
   }
 
   return (
-    <section aria-labelledby={headingId} data-testid="signoff-open" className="rounded-lg border border-slate-200 bg-white px-5 py-4 shadow-xs">
+    <section
+      aria-labelledby={headingId}
+      data-testid="signoff-open"
+      className="rounded-lg border border-slate-200 bg-white px-5 py-4 shadow-xs"
+    >
       <h2 id={headingId} className="text-base font-semibold text-plumb-950">
         Sign off {formatPeriod(period)}
       </h2>
       <p className="mt-1 text-sm text-slate-700">
-        Signing records that you reviewed this month’s results and the corrective actions taken. After signing, the
-        review is read-only; comments can still be added.
+        Signing records that you reviewed this month’s results and the corrective actions taken. After
+        signing, the review is read-only; comments can still be added.
       </p>
       {flaggedWithoutComment > 0 ? (
         <p className="mt-2 text-sm font-medium text-brass-700">
-          {flaggedWithoutComment} flagged result{flaggedWithoutComment === 1 ? ' has' : 's have'} no comment yet.
+          {flaggedWithoutComment} flagged result{flaggedWithoutComment === 1 ? ' has' : 's have'} no comment
+          yet.
         </p>
       ) : null}
       <form
@@ -138,8 +155,13 @@ export function SignoffPanel({
           )
         }
       >
-        <p>Your name and the time are recorded with your statement, and the review becomes read-only. This cannot be undone.</p>
-        <blockquote className="border-l-2 border-plumb-300 pl-3 text-sm whitespace-pre-line">{statement.trim()}</blockquote>
+        <p>
+          Your name and the time are recorded with your statement, and the review becomes read-only. This
+          cannot be undone.
+        </p>
+        <blockquote className="border-l-2 border-plumb-300 pl-3 text-sm whitespace-pre-line">
+          {statement.trim()}
+        </blockquote>
       </ConfirmDialog>
     </section>
   );

@@ -8,7 +8,7 @@ import type { UncertaintyComponent } from '../../../components/charts/uncertaint
 export const tierWords: Record<PeerTier, string> = {
   instrument: 'same instrument model, method and reagent',
   method: 'same method, any instrument model',
-  analyte: 'every procedure for the analyte',
+  analyte: 'all methods for the analyte',
 };
 
 type Target = NonNullable<Drilldown['leveyJennings']['target']>;
@@ -21,7 +21,12 @@ export const targetBasisWords: Record<Target['basis'], string> = {
 };
 
 export function twoLevelPoints(drilldown: Drilldown): TwoLevelPoint[] {
-  return (drilldown.twoLevel?.points ?? []).map((p, index) => ({ key: `lab-${index}`, x: p.sdi1, y: p.sdi2, isOwnLab: p.own }));
+  return (drilldown.twoLevel?.points ?? []).map((p, index) => ({
+    key: `lab-${index}`,
+    x: p.sdi1,
+    y: p.sdi2,
+    isOwnLab: p.own,
+  }));
 }
 
 export function labMeanPoints(drilldown: Drilldown): LabMeanPoint[] {
@@ -51,7 +56,12 @@ export function uncertaintyComponents(u: NonNullable<Drilldown['uncertainty']>):
       valuePct: u.uRw,
       basis: `your CV over ${u.longTerm.periods} period${u.longTerm.periods === 1 ? '' : 's'} (n = ${u.longTerm.n})`,
     },
-    { key: 'rmsBias', label: 'RMS of bias', valuePct: u.rmsBias, basis: `${u.comparisons.length} peer comparison${u.comparisons.length === 1 ? '' : 's'}` },
+    {
+      key: 'rmsBias',
+      label: 'RMS of bias',
+      valuePct: u.rmsBias,
+      basis: `${u.comparisons.length} peer comparison${u.comparisons.length === 1 ? '' : 's'}`,
+    },
     { key: 'uRef', label: 'u(Cref) peer mean', valuePct: u.uRef, basis: 'peer CV / √labs, averaged' },
     { key: 'uBias', label: 'u(bias)', valuePct: u.uBias, basis: '√(RMS bias² + u(Cref)²)' },
     { key: 'uc', label: 'uc combined', valuePct: u.uc, basis: '√(u(Rw)² + u(bias)²)', result: true },

@@ -10,7 +10,11 @@ export function reportFileName({ period }: PeerReportParams, kind: ReportFileKin
   return `${labCode ? `${labCode}-` : ''}peer-report-${period}.${kind}`;
 }
 
-export async function downloadReportFile(params: PeerReportParams, kind: ReportFileKind, labCode?: string): Promise<void> {
+export async function downloadReportFile(
+  params: PeerReportParams,
+  kind: ReportFileKind,
+  labCode?: string,
+): Promise<void> {
   const { blob, filename } = await apiDownload(
     `/labs/${encodeURIComponent(params.labId)}/peer-report.${kind}`,
     { query: { period: params.period, units: params.units } },

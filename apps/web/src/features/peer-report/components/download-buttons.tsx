@@ -21,10 +21,10 @@ export function ReportDownloadButtons({ params, labCode }: { params: PeerReportP
   return (
     <div className="flex gap-2">
       <Button variant="secondary" size="sm" isLoading={busy === 'csv'} onClick={() => void download('csv')}>
-        Download CSV
+        Report CSV
       </Button>
       <Button variant="secondary" size="sm" isLoading={busy === 'pdf'} onClick={() => void download('pdf')}>
-        Download PDF report
+        Monthly report (PDF)
       </Button>
     </div>
   );

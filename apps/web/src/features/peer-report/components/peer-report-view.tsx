@@ -11,7 +11,14 @@ import { errorMessage } from '../../../lib/form-errors.ts';
 import { formatDate, formatPeriod } from '../../../utils/format.ts';
 import { peerReportKeys } from '../api/peer-report-keys.ts';
 import { defaultReportPeriod } from '../utils/default-period.ts';
-import { analytesOf, filterRows, isFlagged, worstFlag, type ReportFilters, type Severity } from '../utils/report-rows.ts';
+import {
+  analytesOf,
+  filterRows,
+  isFlagged,
+  worstFlag,
+  type ReportFilters,
+  type Severity,
+} from '../utils/report-rows.ts';
 import { ReportCaution } from './report-caution.tsx';
 import { ReportDownloadButtons } from './download-buttons.tsx';
 import { ReportStatus } from './report-status.tsx';
@@ -36,7 +43,8 @@ function FlagCounts({ report }: { report: PeerReport }) {
       <div>
         <dt className="text-xs text-slate-500">Results</dt>
         <dd className="figures font-semibold text-slate-900">
-          {report.rows.length} <span className="text-xs font-normal text-slate-500">({compared} compared with peers)</span>
+          {report.rows.length}{' '}
+          <span className="text-xs font-normal text-slate-500">({compared} compared with peers)</span>
         </dd>
       </div>
       {(['action', 'warning', 'acceptable', 'fine'] as const).map((severity) => (
@@ -122,6 +130,7 @@ export function PeerReportView({
   detailHref,
   notes,
   review,
+  downloads,
 }: {
   labId: string;
   labCode?: string;
@@ -132,6 +141,8 @@ export function PeerReportView({
   notes?: ReadonlyMap<string, RowNote>;
   /** The review of the period (sign-off), shown above the table. */
   review?: (period: string, report: PeerReport) => ReactNode;
+  /** More downloads of the period, shown beside the report's own. */
+  downloads?: (period: string) => ReactNode;
 }) {
   const periodId = useId();
   const periods = useQuery(peerReportKeys.periods());
@@ -143,11 +154,19 @@ export function PeerReportView({
     enabled: period !== null,
     refetchInterval: (query) => (query.state.data?.statisticsPending ? STATISTICS_POLL_MS : false),
   });
-  const rows = useMemo(() => (report.data ? filterRows(report.data.rows, choice.filters) : []), [report.data, choice.filters]);
+  const rows = useMemo(
+    () => (report.data ? filterRows(report.data.rows, choice.filters) : []),
+    [report.data, choice.filters],
+  );
   const periodInfo = list.find((p) => p.period === period);
   const href = useMemo(() => (row: PeerReportRow) => detailHref(row, period ?? ''), [detailHref, period]);
 
-  if (periods.isError) return <Alert tone="error" title="The periods could not be loaded">{errorMessage(periods.error)}</Alert>;
+  if (periods.isError)
+    return (
+      <Alert tone="error" title="The periods could not be loaded">
+        {errorMessage(periods.error)}
+      </Alert>
+    );
   if (periods.isPending) return <Spinner label="Loading the periods" />;
   if (period === null) {
     return (
@@ -217,7 +236,10 @@ export function PeerReportView({
             </p>
           ) : null}
         </div>
-        <ReportDownloadButtons params={params} labCode={labCode} />
+        <div className="flex flex-wrap gap-2">
+          {downloads ? downloads(period) : null}
+          <ReportDownloadButtons params={params} labCode={labCode} />
+        </div>
       </div>
 
       {report.isError ? (
@@ -240,10 +262,16 @@ export function PeerReportView({
             />
           ) : (
             <section aria-label="Report table" className="space-y-3">
-              <Filters report={report.data} filters={choice.filters} onChange={(filters) => onChoiceChange({ ...choice, filters })} />
+              <Filters
+                report={report.data}
+                filters={choice.filters}
+                onChange={(filters) => onChoiceChange({ ...choice, filters })}
+              />
               <p className="text-sm text-slate-700" aria-live="polite">
-                Showing <span className="font-semibold">{rows.length}</span> of {report.data.rows.length} results
-                {flaggedCount > 0 ? ` · ${flaggedCount} flagged` : ''}. Open a procedure for its charts and comments.
+                Showing <span className="font-semibold">{rows.length}</span> of {report.data.rows.length}{' '}
+                results
+                {flaggedCount > 0 ? ` · ${flaggedCount} flagged` : ''}. Open a procedure for its charts and
+                comments.
               </p>
               <ReportTable
                 rows={rows}

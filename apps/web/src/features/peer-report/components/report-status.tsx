@@ -23,7 +23,15 @@ export function ReportStatus({ report }: { report: PeerReport }) {
           className="inline-flex items-center gap-2 rounded-md border border-dashed border-brass-500 bg-brass-100 px-3 py-1.5 text-sm font-medium text-brass-700"
         >
           <svg width="12" height="12" viewBox="0 0 12 12" aria-hidden="true" focusable="false">
-            <circle cx="6" cy="6" r="4.5" fill="none" stroke="currentColor" strokeWidth="1.5" strokeDasharray="2 1.5" />
+            <circle
+              cx="6"
+              cy="6"
+              r="4.5"
+              fill="none"
+              stroke="currentColor"
+              strokeWidth="1.5"
+              strokeDasharray="2 1.5"
+            />
           </svg>
           Provisional: the peer figures may change until the network publishes the month
         </p>

@@ -30,7 +30,10 @@ function sigmaTitle(row: PeerReportRow): string {
   return `Sigma = (TEa − |bias %|) / CV %, with TEa ${teaPct} %${teaSource ? ` from ${teaSource}` : ''}.`;
 }
 
-function buildColumns(detailHref: (row: PeerReportRow) => string, notes: ReadonlyMap<string, RowNote> | undefined) {
+function buildColumns(
+  detailHref: (row: PeerReportRow) => string,
+  notes: ReadonlyMap<string, RowNote> | undefined,
+) {
   return [
     column.group({
       id: 'what',
@@ -40,7 +43,7 @@ function buildColumns(detailHref: (row: PeerReportRow) => string, notes: Readonl
           id: 'procedure',
           header: 'Procedure',
           cell: ({ row: { original: row } }) => (
-            <span className="block w-[10.5rem]">
+            <span className="block w-[9rem]">
               <Link
                 to={detailHref(row)}
                 className="font-semibold text-plumb-800 underline decoration-plumb-300 underline-offset-2 hover:text-plumb-950"
@@ -49,10 +52,14 @@ function buildColumns(detailHref: (row: PeerReportRow) => string, notes: Readonl
                 {row.analyte.name}
               </Link>
               <span className="block text-xs text-slate-600">
-                {row.procedure.code} · lot {row.controlLot.lotNumber}
+                {row.procedure.code} · {row.unit}
               </span>
-              <span className="block text-xs text-slate-500">in {row.unit}</span>
-              {row.late ? <span className="mt-0.5 inline-block rounded bg-brass-100 px-1 text-[0.7rem] font-medium text-brass-700">arrived late</span> : null}
+              <span className="block text-xs text-slate-500">lot {row.controlLot.lotNumber}</span>
+              {row.late ? (
+                <span className="mt-0.5 inline-block rounded bg-brass-100 px-1 text-[0.7rem] font-medium text-brass-700">
+                  arrived late
+                </span>
+              ) : null}
             </span>
           ),
         }),
@@ -95,12 +102,14 @@ function buildColumns(detailHref: (row: PeerReportRow) => string, notes: Readonl
           sortUndefined: 'last',
           cell: ({ row: { original: row } }) =>
             row.peer ? (
-              <span className="block w-[8.5rem] text-xs leading-snug" title={row.peerNote}>
+              <span className="block w-[7.5rem] text-xs leading-snug" title={row.peerNote}>
                 <span className="font-medium text-slate-800">{row.peer.labs} labs</span>
                 <span className="text-slate-600">, {peerTierWords[row.peer.tier]}</span>
               </span>
             ) : (
-              <span className="block w-[8.5rem] text-xs leading-snug text-slate-600">No peer group: {row.peerNote}</span>
+              <span className="block w-[7.5rem] text-xs leading-snug text-slate-600">
+                No peer group: {row.peerNote}
+              </span>
             ),
         }),
         column.accessor((row) => row.peer?.mean, {
@@ -165,7 +174,9 @@ function buildColumns(detailHref: (row: PeerReportRow) => string, notes: Readonl
         }),
         column.accessor((row) => row.cumulative.sdi ?? undefined, {
           id: 'cumulativeSdi',
-          header: () => <abbr title="SDI of the lot to date: all periods of this control lot pooled">Cum. SDI</abbr>,
+          header: () => (
+            <abbr title="SDI of the lot to date: all periods of this control lot pooled">Cum. SDI</abbr>
+          ),
           meta: { align: 'right' },
           sortUndefined: 'last',
           cell: ({ row: { original: row } }) => signed(row.cumulative.sdi),
@@ -187,13 +198,20 @@ function buildColumns(detailHref: (row: PeerReportRow) => string, notes: Readonl
                 <FlagChips flags={row.flags} />
                 {row.excluded ? (
                   <span className="mt-1 block text-xs text-slate-600">
-                    Left out of the peer figures ({row.excluded.reason === 'outlier' ? 'an outlier' : 'by the coordinator'}
+                    Left out of the peer figures (
+                    {row.excluded.reason === 'outlier' ? 'an outlier' : 'by the coordinator'}
                     {row.excluded.note ? `: ${row.excluded.note}` : ''})
                   </span>
                 ) : null}
-                <Link to={detailHref(row)} className="mt-1 block text-xs font-medium text-plumb-700 underline decoration-plumb-300 underline-offset-2 hover:text-plumb-900">
+                <Link
+                  to={detailHref(row)}
+                  className="mt-1 block text-xs font-medium text-plumb-700 underline decoration-plumb-300 underline-offset-2 hover:text-plumb-900"
+                >
                   {count === 0 ? 'Charts and comment' : `${count} comment${count === 1 ? '' : 's'}, charts`}
-                  <span className="sr-only"> for {row.analyte.name} level {row.level}</span>
+                  <span className="sr-only">
+                    {' '}
+                    for {row.analyte.name} level {row.level}
+                  </span>
                 </Link>
               </span>
             );
@@ -208,15 +226,19 @@ function HeaderCell({ header }: { header: Header<PeerReportRow, unknown> }) {
   const meta = header.column.columnDef.meta;
   const right = meta?.align === 'right';
   const sorted = header.column.getIsSorted();
-  const content = header.isPlaceholder ? null : flexRender(header.column.columnDef.header, header.getContext());
+  const content = header.isPlaceholder
+    ? null
+    : flexRender(header.column.columnDef.header, header.getContext());
   const isGroup = header.subHeaders.length > 0;
   return (
     <th
       scope={isGroup ? 'colgroup' : 'col'}
       colSpan={header.colSpan}
       aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}
-      className={`border-b border-slate-200 px-1.5 py-1.5 text-xs font-semibold whitespace-nowrap ${
-        isGroup ? 'border-x border-x-white bg-plumb-50 text-center text-plumb-900' : `bg-slate-50 text-slate-600 ${right ? 'text-right' : 'text-left'}`
+      className={`border-b border-slate-200 px-1 py-1.5 text-xs first:pl-2 font-semibold whitespace-nowrap ${
+        isGroup
+          ? 'border-x border-x-white bg-plumb-50 text-center text-plumb-900'
+          : `bg-slate-50 text-slate-600 ${right ? 'text-right' : 'text-left'}`
       }`}
     >
       {!isGroup && header.column.getCanSort() ? (
@@ -241,7 +263,12 @@ function HeaderCell({ header }: { header: Header<PeerReportRow, unknown> }) {
 }
 
 const rowTint = { fine: '', acceptable: '', warning: 'bg-brass-100/40', action: 'bg-alarm-50/70' } as const;
-const rowEdge = { fine: 'border-l-transparent', acceptable: 'border-l-transparent', warning: 'border-l-brass-400', action: 'border-l-alarm-700' } as const;
+const rowEdge = {
+  fine: 'border-l-transparent',
+  acceptable: 'border-l-transparent',
+  warning: 'border-l-brass-400',
+  action: 'border-l-alarm-700',
+} as const;
 
 export function ReportTable({
   rows,
@@ -273,7 +300,7 @@ export function ReportTable({
     // The table scrolls inside its box instead of widening the page (contain), and the screen-reader
     // texts, positioned absolutely, stay inside it too (relative).
     <div className="relative overflow-x-auto rounded-lg border border-slate-200 bg-white shadow-xs [contain:inline-size]">
-      <table className="w-full border-collapse text-sm">
+      <table className="w-full border-collapse text-[0.8125rem]">
         <caption className="sr-only">{caption}</caption>
         <thead>
           {table.getHeaderGroups().map((group) => (
@@ -305,16 +332,17 @@ export function ReportTable({
                     {row.getVisibleCells().map((cell) => (
                       <td
                         key={cell.id}
-                        className={`px-1.5 py-2 align-top ${cell.column.columnDef.meta?.align === 'right' ? 'text-right whitespace-nowrap' : ''}`}
+                        className={`px-1 py-2 align-top first:pl-2 last:pr-2 ${cell.column.columnDef.meta?.align === 'right' ? 'text-right whitespace-nowrap' : ''}`}
                       >
                         {flexRender(cell.column.columnDef.cell, cell.getContext())}
                       </td>
                     ))}
                   </tr>
                   {note?.latest ? (
-                    <tr className={`border-b border-slate-100 border-l-4 ${rowEdge[worst]} ${rowTint[worst]}`}>
-                      <td />
-                      <td colSpan={leafCount - 1} className="px-2 pb-2 text-xs text-slate-700">
+                    <tr
+                      className={`border-b border-slate-100 border-l-4 ${rowEdge[worst]} ${rowTint[worst]}`}
+                    >
+                      <td colSpan={leafCount} className="px-2 pb-2 pl-6 text-xs text-slate-700">
                         <span className="font-semibold text-plumb-900">Corrective action</span>{' '}
                         <span className="text-slate-500">
                           ({note.latest.author}, {formatDate(note.latest.createdAt)}

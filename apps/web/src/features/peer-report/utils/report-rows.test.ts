@@ -13,7 +13,10 @@ const warning = rowWith([
   { kind: 'sdi', severity: 'acceptable', message: 'SDI within 2' },
   { kind: 'cvr', severity: 'warning', message: 'CVR above 1.5' },
 ]);
-const action = rowWith([{ kind: 'sdi', severity: 'action', message: 'SDI beyond 3' }], { code: 'GLU', name: 'Glucose' });
+const action = rowWith([{ kind: 'sdi', severity: 'action', message: 'SDI beyond 3' }], {
+  code: 'GLU',
+  name: 'Glucose',
+});
 const unflagged = rowWith([], { code: 'GLU', name: 'Glucose' });
 
 describe('report rows', () => {
@@ -24,13 +27,21 @@ describe('report rows', () => {
   });
 
   it('when filtering to flagged rows, then only warning and action rows remain', () => {
-    expect(filterRows([fine, warning, action, unflagged], { flaggedOnly: true, analyte: '', severity: '' })).toEqual([warning, action]);
+    expect(
+      filterRows([fine, warning, action, unflagged], { flaggedOnly: true, analyte: '', severity: '' }),
+    ).toEqual([warning, action]);
   });
 
   it('when filtering by analyte and severity, then both apply; a row without flags counts as fine', () => {
     const rows = [fine, warning, action, unflagged];
-    expect(filterRows(rows, { flaggedOnly: false, analyte: 'GLU', severity: '' })).toEqual([action, unflagged]);
-    expect(filterRows(rows, { flaggedOnly: false, analyte: '', severity: 'fine' })).toEqual([fine, unflagged]);
+    expect(filterRows(rows, { flaggedOnly: false, analyte: 'GLU', severity: '' })).toEqual([
+      action,
+      unflagged,
+    ]);
+    expect(filterRows(rows, { flaggedOnly: false, analyte: '', severity: 'fine' })).toEqual([
+      fine,
+      unflagged,
+    ]);
     expect(filterRows(rows, { flaggedOnly: false, analyte: 'K', severity: 'action' })).toEqual([]);
   });
 
@@ -42,6 +53,11 @@ describe('report rows', () => {
   });
 
   it('when a figure is signed, then it carries + or a true minus sign, and zero none', () => {
-    expect([signed(1.234), signed(-0.4), signed(0.001), signed(null)]).toEqual(['+1.23', '\u22120.40', '0.00', '—']);
+    expect([signed(1.234), signed(-0.4), signed(0.001), signed(null)]).toEqual([
+      '+1.23',
+      '\u22120.40',
+      '0.00',
+      '—',
+    ]);
   });
 });

@@ -4,9 +4,9 @@ import type { PeerReportRow, PeerTier, ReportFlag } from '@plumbline/contracts';
 
 /** What the lab is compared with, in words. */
 export const peerTierWords: Record<PeerTier, string> = {
-  instrument: 'same instrument model, method and reagent',
-  method: 'same method, any instrument model',
-  analyte: 'every procedure for the analyte',
+  instrument: 'same instrument, method and reagent',
+  method: 'same method, any instrument',
+  analyte: 'all methods for the analyte',
 };
 
 export type Severity = ReportFlag['severity'];
