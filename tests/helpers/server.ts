@@ -2,11 +2,15 @@ import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { randomBytes } from 'node:crypto';
 import { fileURLToPath } from 'node:url';
-import { existsSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { Redis } from 'ioredis';
 import { createScratchDatabase, type ScratchDatabase } from '@plumbline/db/testing';
 import { createApp } from '../../apps/api/src/app.ts';
 import { loadEnv, type Env } from '../../apps/api/src/config/env.ts';
+import { LocalFileStorage } from '../../apps/api/src/storage/local-storage.ts';
+import { createIngestQueue } from '../../apps/api/src/queues/ingest-queue.ts';
 
 export const WEB_DIST = fileURLToPath(new URL('../../apps/web/dist', import.meta.url));
 
@@ -24,16 +28,24 @@ export async function startServer(
   }
   const scratch = await createScratchDatabase(label);
   if (prepare) await prepare(scratch);
+  // Own storage directory and queue prefix: browser tests never share files or jobs with other tests.
+  const storageDir = mkdtempSync(join(tmpdir(), `plumbline-e2e-${label.replace(/[^a-z0-9]/gi, '')}-`));
+  const queuePrefix = `plumbline-e2e-${label.replace(/[^a-z0-9]/gi, '')}-${randomBytes(4).toString('hex')}`;
   const env: Env = loadEnv({
     ...process.env,
     NODE_ENV: 'test',
     DATABASE_URL: scratch.url,
     JWT_SECRET: randomBytes(32).toString('hex'),
     WEB_DIST_DIR: WEB_DIST,
+    STORAGE_DIR: storageDir,
+    QUEUE_PREFIX: queuePrefix,
+    S3_BUCKET: '',
     ...extraEnv,
   });
   const redis = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
-  const app = createApp({ env, db: scratch.db, redis } as Parameters<typeof createApp>[0]);
+  const ingestQueue = createIngestQueue(redis, queuePrefix);
+  const storage = new LocalFileStorage(storageDir);
+  const app = createApp({ env, db: scratch.db, redis, storage, ingestQueue });
   const server: Server = await new Promise((resolve) => {
     const s = app.listen(0, '127.0.0.1', () => resolve(s));
   });
@@ -43,10 +55,14 @@ export async function startServer(
     env,
     scratch,
     db: scratch.db,
+    storageDir,
+    queuePrefix,
     close: async () => {
       await new Promise<void>((resolve) => server.close(() => resolve()));
+      await ingestQueue.close().catch(() => {});
       redis.disconnect();
       await scratch.drop();
+      rmSync(storageDir, { recursive: true, force: true });
     },
   };
 }

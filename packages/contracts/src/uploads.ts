@@ -69,6 +69,7 @@ export const rowErrorCodes = [
   'required',
   'invalid_period',
   'unknown_period',
+  'period_signed_off',
   'unknown_procedure',
   'unknown_control_lot',
   'unknown_level',

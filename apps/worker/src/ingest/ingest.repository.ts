@@ -1,5 +1,6 @@
 import { and, eq, inArray, isNull, sql } from 'drizzle-orm';
 import {
+  periodSignoffs,
   analytes,
   columnMappings,
   controlLots,
@@ -119,7 +120,15 @@ export async function loadRowLookups(db: Executor, labId: string) {
   const lots = new Map<string, LotInfo>(lotRows.map((l) => [l.lotNumber, l]));
 
   const periodRows = await db.select({ period: periods.period, state: periods.state }).from(periods);
-  const periodMap = new Map<string, PeriodInfo>(periodRows.map((p) => [p.period, p]));
+  // A month the lab has signed off is read-only: its rows are rejected (comments stay possible elsewhere).
+  const signed = await db
+    .select({ period: periodSignoffs.period })
+    .from(periodSignoffs)
+    .where(eq(periodSignoffs.labId, labId));
+  const signedPeriods = new Set(signed.map((s) => s.period));
+  const periodMap = new Map<string, PeriodInfo>(
+    periodRows.map((p) => [p.period, { ...p, signedOff: signedPeriods.has(p.period) }]),
+  );
 
   return { procedures: procedureMap, lots, periods: periodMap };
 }

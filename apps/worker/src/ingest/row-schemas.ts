@@ -16,7 +16,8 @@ export type ProcedureInfo = {
   molarMass: number | null;
 };
 export type LotInfo = { id: string; lotNumber: string; levels: readonly number[] };
-export type PeriodInfo = { period: string; state: 'open' | 'closed' | 'published' };
+/** `signedOff`: the uploading lab's supervisor has signed this month off, so its data is read-only. */
+export type PeriodInfo = { period: string; state: 'open' | 'closed' | 'published'; signedOff?: boolean };
 
 /** What the rows are checked against: the lab's procedures, the known lots and periods, the file's number style. */
 export type RowContext = {
@@ -107,6 +108,9 @@ function lotCell(ctx: Ctx, text: string, context: RowContext): LotInfo | undefin
   return lot;
 }
 
+const signedOffMessage = (period: string) =>
+  `${period} has been signed off by your lab's supervisor; its data can no longer change`;
+
 function periodCell(ctx: Ctx, text: string, context: RowContext): PeriodInfo | undefined {
   const value = requiredText(ctx, 'period', text);
   if (value === undefined) return undefined;
@@ -114,6 +118,7 @@ function periodCell(ctx: Ctx, text: string, context: RowContext): PeriodInfo | u
     return reject(ctx, 'period', 'invalid_period', `period "${value}" is not a month written as YYYY-MM`);
   const period = context.periods.get(value);
   if (!period) return reject(ctx, 'period', 'unknown_period', `${value} is not a cycle of the network`);
+  if (period.signedOff) return reject(ctx, 'period', 'period_signed_off', signedOffMessage(value));
   return period;
 }
 
@@ -255,6 +260,7 @@ function measuredAtCell(
       `${parsed.period} (the month of ${value}) is not a cycle of the network`,
     );
   }
+  if (period.signedOff) return reject(ctx, 'measured_at', 'period_signed_off', signedOffMessage(parsed.period));
   return { ms: parsed.ms, period };
 }
 

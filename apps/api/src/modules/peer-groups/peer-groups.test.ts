@@ -9,6 +9,7 @@ import {
   peerGroups,
   peerStatistics,
   qcSummaries,
+  publishPeriod,
   recomputeAllPeerStatistics,
 } from '@plumbline/db';
 import { createQcCatalogue, type QcCatalogue } from '@plumbline/db/testing';
@@ -355,6 +356,36 @@ describe('merging two groups', () => {
 
     const again = await asCoordinator().post(`/peer-groups/adjustments/${res.body.id}/undo`, {});
     expect(again.status).toBe(409);
+  });
+
+  it('when a month is published and groups are merged afterwards, then the published report keeps its frozen peer figures', async () => {
+    await publishPeriod(t.db, '2026-01', { actorLabel: 'test' });
+    const reportOfD = async () => {
+      const res = await request(t.app)
+        .get(`/api/labs/${labs.D.id}/peer-report?period=2026-01`)
+        .set('Authorization', labs.D.auth);
+      expect(res.status).toBe(200);
+      expect(res.body.published).toMatchObject({ version: 1 });
+      return res.body.rows.find((r: PeerReportRow) => r.level === 1) as PeerReportRow;
+    };
+    const before = await reportOfD();
+    // D–E alone are too few at the instrument tier, so D was compared with its method group.
+    expect(before.peer?.tier).toBe('method');
+
+    const abc = await groupOf('A', 'instrument');
+    const de = await groupOf('D', 'instrument');
+    const merged = await asCoordinator().post('/peer-groups/merge', {
+      sourceGroupId: de.id,
+      targetGroupId: abc.id,
+      reason: 'checking that publications stay frozen',
+    });
+    expect(merged.status).toBe(201);
+    const after = await reportOfD();
+    expect(after.peer).toEqual(before.peer);
+    expect(after.sdi).toBe(before.sdi);
+
+    const undone = await asCoordinator().post(`/peer-groups/adjustments/${merged.body.id}/undo`, {});
+    expect(undone.status).toBe(200);
   });
 
   it('when the merge request is wrong, then 400 for its shape and 422 naming the field for groups that cannot merge', async () => {

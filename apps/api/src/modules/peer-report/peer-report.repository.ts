@@ -3,6 +3,7 @@ import {
   analytes,
   controlLots,
   labs,
+  peerGroups,
   peerStatistics,
   procedures,
   publications,
@@ -96,4 +97,25 @@ export async function peerStatisticsFor(db: Executor, groupIds: string[], period
         inArray(peerStatistics.version, versions),
       ),
     );
+}
+
+/**
+ * The rows of a published snapshot for these control lots, with each group's tier: a published report
+ * places a procedure in the group whose snapshot lists it as a member, so later merges or moves do not
+ * change what was published.
+ */
+export async function publishedSnapshot(db: Executor, lotIds: string[], period: string, version: number) {
+  if (lotIds.length === 0 || version === 0) return [];
+  const rows = await db
+    .select({ stat: peerStatistics, tier: peerGroups.tier, controlLotId: peerGroups.controlLotId })
+    .from(peerStatistics)
+    .innerJoin(peerGroups, eq(peerGroups.id, peerStatistics.peerGroupId))
+    .where(
+      and(
+        inArray(peerGroups.controlLotId, lotIds),
+        eq(peerStatistics.period, period),
+        eq(peerStatistics.version, version),
+      ),
+    );
+  return rows.map((r) => ({ ...r.stat, tier: r.tier, controlLotId: r.controlLotId }));
 }

@@ -65,6 +65,18 @@ export async function buildPeerReport(
     return scope === 'period' ? at(version) : (at(version) ?? at(0));
   };
 
+  // A published version is read by the membership frozen in its snapshot, not today's grouping.
+  const snapshot = await repo.publishedSnapshot(db, [...memberships.keys()], period, version);
+  const snapshotRow = (s: { controlLotId: string; procedureId: string; level: number }, tier: string, scope: string) =>
+    snapshot.find(
+      (r) =>
+        r.controlLotId === s.controlLotId &&
+        r.tier === tier &&
+        r.level === s.level &&
+        r.scope === scope &&
+        r.members.includes(s.procedureId),
+    );
+
   const toDate = await repo.summariesToDate(db, [...new Set(summaries.map((s) => s.procedureId))], period);
 
   const rows: PeerReportRow[] = summaries.map((s) => {
@@ -72,7 +84,7 @@ export async function buildPeerReport(
     const choose = (scope: 'period' | 'cumulative') => {
       const candidates: (TierCandidate & { row: repo.PeerStatisticsRow | undefined })[] = PEER_TIERS.map((tier) => {
         const group = groups[tier];
-        const row = group ? statisticsOf(group.id, s.level, scope) : undefined;
+        const row = snapshotRow(s, tier, scope) ?? (group ? statisticsOf(group.id, s.level, scope) : undefined);
         return { tier, labs: row ? row.labs : null, sufficient: Boolean(row?.sufficient && row.mean !== null && row.sd !== null), row };
       });
       return { candidates, chosen: candidates.find((c) => c.sufficient) };

@@ -187,6 +187,50 @@ describe('result details page', () => {
     });
   });
 
+  it('when the target of the control chart is switched to the peer group, then the chart is asked for and drawn against it', async () => {
+    const api = mockApi({
+      'GET /api/me': { status: 200, body: buildMe('analyst') },
+      [`GET ${rowPath}`]: (request) => {
+        const peer = request.query.get('target') === 'peer';
+        const drilldown = buildDrilldown();
+        return {
+          status: 200,
+          body: {
+            ...drilldown,
+            leveyJennings: {
+              ...drilldown.leveyJennings,
+              target: peer
+                ? { kind: 'peer', basis: 'peer-to-date', mean: 4.15, sd: 0.06 }
+                : drilldown.leveyJennings.target,
+            },
+          },
+        };
+      },
+      [`GET ${lab}/comments`]: { status: 200, body: [] },
+      [`GET ${lab}/signoffs/2026-11`]: { status: 200, body: { period: '2026-11', signoff: null } },
+    });
+    const { user, router } = renderApp(detailUrl, { signedInAs: 'analyst' });
+    const chart = await screen.findByTestId('levey-jennings-level-1');
+    expect(chart.textContent).toContain(
+      "against your lab's cumulative figures from earlier periods of this lot (mean 4.400",
+    );
+
+    await user.click(screen.getByLabelText("The peer group's figures"));
+
+    await waitFor(() =>
+      expect(screen.getByTestId('levey-jennings-level-1').textContent).toContain(
+        "against the peer group's figures for this lot to date (mean 4.150, SD 0.060)",
+      ),
+    );
+    expect(
+      api.requests
+        .filter((r) => r.path === rowPath)
+        .at(-1)
+        ?.query.get('target'),
+    ).toBe('peer');
+    expect(router.state.location.search).toContain('target=peer');
+  });
+
   it('when the period is not signed, then the author may edit their comment, and the charts show with their tables', async () => {
     mockApi({
       'GET /api/me': { status: 200, body: buildMe('analyst') },

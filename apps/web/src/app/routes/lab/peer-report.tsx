@@ -1,7 +1,7 @@
 // The lab's peer report (journey 3): the period's table with flags, filters and downloads, the
 // comments under the rows they are about, and the monthly sign-off. Period, units and filters live in
 // the URL, so coming back from a row's details keeps them.
-import { useCallback, useMemo } from 'react';
+import { useCallback, useMemo, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { useSearchParams } from 'react-router-dom';
 import type { Comment, PeerReport, PeerReportRow, UnitSystem } from '@plumbline/contracts';
@@ -42,6 +42,10 @@ function choiceFromSearch(search: URLSearchParams): ReportChoice {
   };
 }
 
+function definedEntries(record: Record<string, string | undefined>): [string, string][] {
+  return Object.entries(record).filter((entry): entry is [string, string] => Boolean(entry[1]));
+}
+
 function searchFromChoice(choice: ReportChoice): Record<string, string | undefined> {
   return {
     period: choice.period ?? undefined,
@@ -75,7 +79,9 @@ export default function PeerReportRoute() {
   const user = useUser();
   const [search, setSearch] = useSearchParams();
   const labId = session?.user.labId ?? null;
-  const choice = choiceFromSearch(search);
+  // The choice shows at once from state; the URL follows (it is what brings it back after a row's
+  // details), updated in a transition that may land a moment later.
+  const [choice, setChoice] = useState(() => choiceFromSearch(search));
   const periods = useQuery(peerReportKeys.periods());
   const period = choice.period ?? defaultReportPeriod(periods.data ?? []);
   const comments = useQuery({
@@ -85,22 +91,26 @@ export default function PeerReportRoute() {
   const notes = useMemo(() => notesByRow(comments.data), [comments.data]);
 
   const onChoiceChange = useCallback(
-    (next: ReportChoice) =>
-      setSearch(
-        new URLSearchParams(
-          Object.entries(searchFromChoice(next)).filter((e): e is [string, string] => Boolean(e[1])),
-        ),
-        { replace: true },
-      ),
+    (next: ReportChoice) => {
+      setChoice(next);
+      setSearch(new URLSearchParams(definedEntries(searchFromChoice(next))), { replace: true });
+    },
     [setSearch],
   );
   const detailHref = useCallback(
     (row: PeerReportRow, rowPeriod: string) =>
       paths.lab.reportRow.getHref(
         { procedureId: row.procedure.id, controlLotId: row.controlLot.id, level: row.level },
-        { period: rowPeriod, units: choice.units ?? undefined, back: search.toString() || undefined },
+        {
+          period: rowPeriod,
+          units: choice.units ?? undefined,
+          // The way back: this period, units and filters.
+          back: new URLSearchParams(
+            definedEntries(searchFromChoice({ ...choice, period: rowPeriod })),
+          ).toString(),
+        },
       ),
-    [choice.units, search],
+    [choice],
   );
 
   if (!session || !labId) {

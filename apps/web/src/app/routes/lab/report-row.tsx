@@ -1,5 +1,6 @@
 // One result of the peer report in depth (journey 3): trend, peer distribution, two-level plot,
 // control chart with multirule results, measurement uncertainty, and the corrective-action comments.
+import { useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { ContentLayout } from '../../../components/layouts/content-layout.tsx';
@@ -23,13 +24,15 @@ export default function ReportRowRoute() {
   const period = search.get('period') ?? '';
   const unitsParam = search.get('units');
   const level = Number(params.level);
+  // Shown at once from state; the URL (kept for reloads and links) follows in a transition.
+  const [target, setTarget] = useState<'lab' | 'peer'>(search.get('target') === 'peer' ? 'peer' : 'lab');
   const drilldownParams: DrilldownParams = {
     labId: labId ?? '',
     procedureId: params.procedureId ?? '',
     controlLotId: params.controlLotId ?? '',
     level,
     period,
-    target: search.get('target') === 'peer' ? 'peer' : 'lab',
+    target,
     units: unitsParam === 'si' || unitsParam === 'conventional' ? unitsParam : undefined,
   };
   const valid = labId !== null && /^\d{4}-\d{2}$/.test(period) && Number.isInteger(level);
@@ -91,9 +94,10 @@ export default function ReportRowRoute() {
           <DrilldownView
             drilldown={data}
             params={drilldownParams}
-            onTargetChange={(target) => {
+            onTargetChange={(nextTarget) => {
+              setTarget(nextTarget);
               const next = new URLSearchParams(search);
-              next.set('target', target);
+              next.set('target', nextTarget);
               setSearch(next, { replace: true });
             }}
           />
