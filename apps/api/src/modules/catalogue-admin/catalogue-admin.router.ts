@@ -34,8 +34,11 @@ export function catalogueAdminRouter(deps: AppDeps, requireUser: RequestHandler)
   const router = Router();
   const coordinatorOnly = [requireUser, requireRole('coordinator')];
 
-  router.get('/catalogue/:list', ...coordinatorOnly, async (req, res) => {
-    res.json(await listCatalogue(deps.db, listOf(req), req.query));
+  // The catalogue is shared by the network: lab members may read its active entries (to register a
+  // procedure); retired entries and every change stay with the coordinator.
+  router.get('/catalogue/:list', requireUser, async (req, res) => {
+    const query = principalOf(req).role === 'coordinator' ? req.query : { ...req.query, state: 'active' };
+    res.json(await listCatalogue(deps.db, listOf(req), query));
   });
 
   router.post('/catalogue/:list', ...coordinatorOnly, async (req, res) => {

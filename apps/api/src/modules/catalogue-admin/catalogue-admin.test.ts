@@ -74,10 +74,24 @@ async function makeMaterial() {
 describe('catalogue roles', () => {
   const lists = ['analytes', 'methods', 'instrument-models', 'reagents', 'control-materials', 'control-lots'];
 
-  it('when an analyst or a supervisor reads or writes any catalogue list, then 403', async () => {
+  it('when an analyst or a supervisor reads a catalogue list, then only active entries come back', async () => {
+    expect((await post('/catalogue/methods', { code: 'KEEP-ME', name: 'Method in use' }, coordinator.auth)).status).toBe(201);
+    const created = await post('/catalogue/methods', { code: 'RET-ME', name: 'Method to retire' }, coordinator.auth);
+    expect(created.status).toBe(201);
+    expect((await post(`/catalogue/methods/${created.body.id}/retire`, {}, coordinator.auth)).status).toBe(200);
+    const asCoordinator = await get('/catalogue/methods?state=all&limit=500', coordinator.auth);
+    expect(asCoordinator.body.items.map((m: { code: string }) => m.code)).toContain('RET-ME');
+    for (const user of [analyst, supervisor]) {
+      const res = await get('/catalogue/methods?state=all&limit=500', user.auth);
+      expect(res.status).toBe(200);
+      expect(res.body.items.map((m: { code: string }) => m.code)).toContain('KEEP-ME');
+      expect(res.body.items.map((m: { code: string }) => m.code)).not.toContain('RET-ME');
+    }
+  });
+
+  it('when an analyst or a supervisor writes any catalogue list, then 403', async () => {
     for (const user of [analyst, supervisor]) {
       for (const list of lists) {
-        expect((await get(`/catalogue/${list}`, user.auth)).status).toBe(403);
         expect((await post(`/catalogue/${list}`, { code: 'X', name: 'X' }, user.auth)).status).toBe(403);
       }
       const id = '00000000-0000-4000-8000-000000000000';
