@@ -10,7 +10,11 @@ export function chromiumAvailable(): boolean {
   return existsSync(CHROMIUM_PATH);
 }
 
-export async function launchBrowser(): Promise<{ context: BrowserContext; page: Page; close: () => Promise<void> }> {
+export async function launchBrowser(): Promise<{
+  context: BrowserContext;
+  page: Page;
+  close: () => Promise<void>;
+}> {
   const userDataDir = mkdtempSync(join(tmpdir(), 'plumbline-chromium-'));
   const context = await chromium.launchPersistentContext(userDataDir, {
     executablePath: CHROMIUM_PATH,

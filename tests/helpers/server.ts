@@ -24,7 +24,9 @@ export async function startServer(
   extraEnv: Record<string, string> = {},
 ) {
   if (!existsSync(`${WEB_DIST}/index.html`)) {
-    throw new Error(`The web app is not built (${WEB_DIST}/index.html missing): run npm test, or npm run build first.`);
+    throw new Error(
+      `The web app is not built (${WEB_DIST}/index.html missing): run npm test, or npm run build first.`,
+    );
   }
   const scratch = await createScratchDatabase(label);
   if (prepare) await prepare(scratch);

@@ -52,7 +52,10 @@ async function ensureTemplate(): Promise<string> {
 export async function createScratchDatabase(label = 'test'): Promise<ScratchDatabase> {
   templateReady ??= ensureTemplate();
   const template = await templateReady;
-  const name = `pl_${label.replace(/[^a-z0-9]/gi, '').toLowerCase().slice(0, 20)}_${randomBytes(4).toString('hex')}`;
+  const name = `pl_${label
+    .replace(/[^a-z0-9]/gi, '')
+    .toLowerCase()
+    .slice(0, 20)}_${randomBytes(4).toString('hex')}`;
   await admin(async (client) => {
     await client.query('select pg_advisory_lock(4242)');
     try {

@@ -14,7 +14,11 @@ export function configurePassport(db: Database, secret: string): passport.Passpo
   const instance = new passport.Passport() as unknown as passport.PassportStatic;
   instance.use(
     new JwtStrategy(
-      { jwtFromRequest: ExtractJwt.fromAuthHeaderAsBearerToken(), secretOrKey: secret, algorithms: ['HS256'] },
+      {
+        jwtFromRequest: ExtractJwt.fromAuthHeaderAsBearerToken(),
+        secretOrKey: secret,
+        algorithms: ['HS256'],
+      },
       (claims: SessionClaims, done: (err: unknown, user?: Express.User | false, info?: unknown) => void) => {
         userFromClaims(db, claims).then(
           (principal) => done(null, principal ? { principal } : false, principal ? undefined : 'revoked'),
@@ -27,7 +31,11 @@ export function configurePassport(db: Database, secret: string): passport.Passpo
 }
 
 async function userFromClaims(db: Database, claims: SessionClaims): Promise<Principal | null> {
-  const [revoked] = await db.select().from(revokedSessions).where(eq(revokedSessions.jti, claims.jti)).limit(1);
+  const [revoked] = await db
+    .select()
+    .from(revokedSessions)
+    .where(eq(revokedSessions.jti, claims.jti))
+    .limit(1);
   if (revoked) return null;
   const [row] = await db
     .select({ user: users, labActive: labs.active })
@@ -87,21 +95,25 @@ export function authenticate(
       }, next);
       return;
     }
-    instance.authenticate('jwt', { session: false }, (err: unknown, user: Express.User | false, info: unknown) => {
-      if (err) return next(err);
-      if (!user) {
-        const name = info instanceof Error ? info.name : '';
-        const message =
-          name === 'TokenExpiredError'
-            ? 'Your session has expired. Sign in again.'
-            : info === 'revoked'
-              ? 'This session has ended. Sign in again.'
-              : 'Your session token is not valid. Sign in again.';
-        return next(unauthenticated(message));
-      }
-      req.user = user;
-      next();
-    })(req, res, next);
+    instance.authenticate(
+      'jwt',
+      { session: false },
+      (err: unknown, user: Express.User | false, info: unknown) => {
+        if (err) return next(err);
+        if (!user) {
+          const name = info instanceof Error ? info.name : '';
+          const message =
+            name === 'TokenExpiredError'
+              ? 'Your session has expired. Sign in again.'
+              : info === 'revoked'
+                ? 'This session has ended. Sign in again.'
+                : 'Your session token is not valid. Sign in again.';
+          return next(unauthenticated(message));
+        }
+        req.user = user;
+        next();
+      },
+    )(req, res, next);
   };
 }
 

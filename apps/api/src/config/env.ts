@@ -8,14 +8,22 @@ const envSchema = z.object({
   DATABASE_URL: z.string().default('postgres://postgres@127.0.0.1:54329/plumbline'),
   REDIS_URL: z.string().default('redis://127.0.0.1:63790'),
   JWT_SECRET: z.string().min(32, 'JWT_SECRET must be at least 32 characters').optional(),
-  JWT_TTL_SECONDS: z.coerce.number().int().positive().default(8 * 3600),
+  JWT_TTL_SECONDS: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(8 * 3600),
   STORAGE_DIR: z.string().default('.data/uploads'),
   S3_BUCKET: z.string().optional(),
   S3_ENDPOINT: z.string().optional(),
   S3_REGION: z.string().default('us-east-1'),
   S3_ACCESS_KEY_ID: z.string().optional(),
   S3_SECRET_ACCESS_KEY: z.string().optional(),
-  MAX_UPLOAD_BYTES: z.coerce.number().int().positive().default(100 * 1024 * 1024),
+  MAX_UPLOAD_BYTES: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(100 * 1024 * 1024),
   /** Redis key prefix of the BullMQ queues; the API and the worker must agree on it. */
   QUEUE_PREFIX: z.string().min(1).default('plumbline'),
   WEB_DIST_DIR: z.string().optional(),
@@ -34,7 +42,8 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
   }
   const env = parsed.data;
   if (!env.JWT_SECRET) {
-    if (env.NODE_ENV === 'production') throw new Error('Invalid configuration:\n  JWT_SECRET: required in production');
+    if (env.NODE_ENV === 'production')
+      throw new Error('Invalid configuration:\n  JWT_SECRET: required in production');
     return { ...env, JWT_SECRET: DEV_SECRET };
   }
   return env as Env;

@@ -29,10 +29,12 @@ export class AppError extends Error {
   }
 }
 
-export const badRequest = (message: string, details?: unknown) => new AppError('bad_request', message, details);
+export const badRequest = (message: string, details?: unknown) =>
+  new AppError('bad_request', message, details);
 export const validationFailed = (message: string, details?: unknown) =>
   new AppError('validation_failed', message, details);
 export const unauthenticated = (message = 'Sign in to continue.') => new AppError('unauthenticated', message);
-export const forbidden = (message = 'Your role does not allow this action.') => new AppError('forbidden', message);
+export const forbidden = (message = 'Your role does not allow this action.') =>
+  new AppError('forbidden', message);
 export const notFound = (what = 'Resource') => new AppError('not_found', `${what} not found.`);
 export const conflict = (message: string, details?: unknown) => new AppError('conflict', message, details);

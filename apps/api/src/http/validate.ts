@@ -9,5 +9,9 @@ export function parseInput<S extends z.ZodType>(schema: S, input: unknown, where
     path: issue.path.length ? issue.path.join('.') : where,
     message: issue.message,
   }));
-  throw new AppError('bad_request', `Invalid ${where}: ${details.map((d) => `${d.path}: ${d.message}`).join('; ')}`, details);
+  throw new AppError(
+    'bad_request',
+    `Invalid ${where}: ${details.map((d) => `${d.path}: ${d.message}`).join('; ')}`,
+    details,
+  );
 }

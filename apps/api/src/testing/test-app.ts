@@ -34,16 +34,29 @@ export async function createTestApp(label: string, options: { env?: Record<strin
   });
   const redis = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null, lazyConnect: false });
   const ingestQueue = createIngestQueue(redis, queuePrefix);
-  const deps: AppDeps = { env, db: scratch.db, redis, storage: new LocalFileStorage(storageDir), ingestQueue };
+  const deps: AppDeps = {
+    env,
+    db: scratch.db,
+    redis,
+    storage: new LocalFileStorage(storageDir),
+    ingestQueue,
+  };
   const app = createApp(deps);
   let passwordHash: string | null = null;
 
   async function makeLab(code = `T-${randomBytes(3).toString('hex')}`) {
-    const [lab] = await scratch.db.insert(labs).values({ code, name: `Test lab ${code}` }).returning();
+    const [lab] = await scratch.db
+      .insert(labs)
+      .values({ code, name: `Test lab ${code}` })
+      .returning();
     return lab;
   }
 
-  async function makeUser(role: Role, labId: string | null, overrides: { email?: string; active?: boolean } = {}) {
+  async function makeUser(
+    role: Role,
+    labId: string | null,
+    overrides: { email?: string; active?: boolean } = {},
+  ) {
     passwordHash ??= await hashPassword(TEST_PASSWORD);
     const [user] = await scratch.db
       .insert(users)
@@ -68,7 +81,18 @@ export async function createTestApp(label: string, options: { env?: Record<strin
     rmSync(storageDir, { recursive: true, force: true });
   }
 
-  return { app, deps, env, db: scratch.db, databaseUrl: scratch.url, storageDir, queuePrefix, makeLab, makeUser, close };
+  return {
+    app,
+    deps,
+    env,
+    db: scratch.db,
+    databaseUrl: scratch.url,
+    storageDir,
+    queuePrefix,
+    makeLab,
+    makeUser,
+    close,
+  };
 }
 export type TestApp = Awaited<ReturnType<typeof createTestApp>>;
 

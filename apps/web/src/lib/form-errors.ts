@@ -26,19 +26,28 @@ export function applyServerFieldErrors<T extends FieldValues>(
   const unplaced: FieldError[] = [];
   let focused = false;
   for (const fieldError of fieldErrorsOf(error)) {
-    const known = fieldNames.some((name) => fieldError.path === name || fieldError.path.startsWith(`${name}.`));
+    const known = fieldNames.some(
+      (name) => fieldError.path === name || fieldError.path.startsWith(`${name}.`),
+    );
     if (!known) {
       unplaced.push(fieldError);
       continue;
     }
-    setError(fieldError.path as Path<T>, { type: 'server', message: fieldError.message }, { shouldFocus: !focused });
+    setError(
+      fieldError.path as Path<T>,
+      { type: 'server', message: fieldError.message },
+      { shouldFocus: !focused },
+    );
     focused = true;
   }
   return unplaced;
 }
 
 /** One sentence for a failed request, for an alert or a toast. */
-export function errorMessage(error: unknown, fallback = 'That did not work for an unexpected reason. Try again.'): string {
+export function errorMessage(
+  error: unknown,
+  fallback = 'That did not work for an unexpected reason. Try again.',
+): string {
   return isApiError(error) ? error.message : fallback;
 }
 

@@ -37,7 +37,11 @@ export function buildAnalyte(overrides: Partial<AnalyteItem> = {}): AnalyteItem 
 export function buildControlLot(overrides: Partial<ControlLotItem> = {}): ControlLotItem {
   return controlLotItemSchema.parse({
     id: '9a1b2c3d-4e5f-4a6b-8c7d-0e1f2a3b4c51',
-    material: { id: '9a1b2c3d-4e5f-4a6b-8c7d-0e1f2a3b4c41', code: 'TCM', name: 'Tri-level chemistry control' },
+    material: {
+      id: '9a1b2c3d-4e5f-4a6b-8c7d-0e1f2a3b4c41',
+      code: 'TCM',
+      name: 'Tri-level chemistry control',
+    },
     lotNumber: 'TCM-2611',
     expiresOn: '2027-06-30',
     expired: false,
@@ -62,9 +66,24 @@ export function buildImportResult(rows: ImportResult['rows']): ImportResult {
 }
 
 export const testLabs: LabListItem[] = labListSchema.parse([
-  { id: '2f0c1d3e-5a6b-4c7d-8e9f-0a1b2c3d4e01', code: 'L03', name: 'Harrow Fen Demo Laboratory', active: true },
-  { id: '2f0c1d3e-5a6b-4c7d-8e9f-0a1b2c3d4e02', code: 'L07', name: 'Kestrel Vale Demo Laboratory', active: true },
-  { id: '2f0c1d3e-5a6b-4c7d-8e9f-0a1b2c3d4e03', code: 'L11', name: 'Otterburn Mill Demo Laboratory', active: false },
+  {
+    id: '2f0c1d3e-5a6b-4c7d-8e9f-0a1b2c3d4e01',
+    code: 'L03',
+    name: 'Harrow Fen Demo Laboratory',
+    active: true,
+  },
+  {
+    id: '2f0c1d3e-5a6b-4c7d-8e9f-0a1b2c3d4e02',
+    code: 'L07',
+    name: 'Kestrel Vale Demo Laboratory',
+    active: true,
+  },
+  {
+    id: '2f0c1d3e-5a6b-4c7d-8e9f-0a1b2c3d4e03',
+    code: 'L11',
+    name: 'Otterburn Mill Demo Laboratory',
+    active: false,
+  },
 ]);
 
 export function buildLabUser(overrides: Partial<LabUser> = {}): LabUser {
@@ -84,7 +103,11 @@ export function buildAuditEvent(overrides: Partial<AuditEvent> = {}): AuditEvent
   return auditEventSchema.parse({
     id: 1,
     at: '2026-12-02T10:15:00.000Z',
-    actor: { id: '0b5a2c1e-8f7d-4e6b-a1c3-5d9e7f2a4b03', name: 'Demo Coordinator', email: 'coordinator@network.example' },
+    actor: {
+      id: '0b5a2c1e-8f7d-4e6b-a1c3-5d9e7f2a4b03',
+      name: 'Demo Coordinator',
+      email: 'coordinator@network.example',
+    },
     actorLabel: null,
     lab: { id: testLabs[0].id, code: testLabs[0].code },
     kind: 'lab.update',

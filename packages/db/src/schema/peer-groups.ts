@@ -95,10 +95,7 @@ export const peerStatistics = pgTable(
     members: jsonb().$type<string[]>().notNull().default([]),
     computedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [
-    unique().on(t.peerGroupId, t.level, t.period, t.scope, t.version),
-    index().on(t.period, t.version),
-  ],
+  (t) => [unique().on(t.peerGroupId, t.level, t.period, t.scope, t.version), index().on(t.period, t.version)],
 );
 
 /** A coordinator's exclusion of one procedure's data from peer figures for a period, with a reason. */

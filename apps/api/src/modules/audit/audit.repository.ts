@@ -8,11 +8,15 @@ function filters(query: AuditQuery): SQL | undefined {
   if (query.labId) conditions.push(eq(auditEvents.labId, query.labId));
   if (query.kind) conditions.push(eq(auditEvents.kind, query.kind));
   if (query.from) conditions.push(gte(auditEvents.at, new Date(`${query.from}T00:00:00Z`)));
-  if (query.to) conditions.push(lt(auditEvents.at, new Date(new Date(`${query.to}T00:00:00Z`).getTime() + 86_400_000)));
+  if (query.to)
+    conditions.push(lt(auditEvents.at, new Date(new Date(`${query.to}T00:00:00Z`).getTime() + 86_400_000)));
   return conditions.length ? and(...conditions) : undefined;
 }
 
-export async function listAuditEvents(db: Executor, query: AuditQuery): Promise<{ total: number; items: AuditEvent[] }> {
+export async function listAuditEvents(
+  db: Executor,
+  query: AuditQuery,
+): Promise<{ total: number; items: AuditEvent[] }> {
   const where = filters(query);
   const [{ total }] = await db.select({ total: count() }).from(auditEvents).where(where);
   const rows = await db

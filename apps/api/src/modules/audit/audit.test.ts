@@ -32,8 +32,14 @@ describe('audit log', () => {
       .set('Authorization', coordinator.auth);
     expect(res.status).toBe(200);
     expect(res.body.total).toBe(1);
-    expect(res.body.items[0]).toMatchObject({ kind: 'test.one', lab: { id: a.id, code: a.code }, details: { n: 1 } });
-    const csv = await request(t.app).get(`/api/audit-events.csv?labId=${a.id}`).set('Authorization', coordinator.auth);
+    expect(res.body.items[0]).toMatchObject({
+      kind: 'test.one',
+      lab: { id: a.id, code: a.code },
+      details: { n: 1 },
+    });
+    const csv = await request(t.app)
+      .get(`/api/audit-events.csv?labId=${a.id}`)
+      .set('Authorization', coordinator.auth);
     expect(csv.headers['content-type']).toMatch(/text\/csv/);
     const lines = csv.text.trim().split('\r\n');
     expect(lines[0]).toBe('at,actor,actor_email,actor_label,lab,kind,entity,entity_id,details');
@@ -42,7 +48,9 @@ describe('audit log', () => {
 
   it('when a filter is malformed, then 400 naming the field', async () => {
     const coordinator = await t.makeUser('coordinator', null);
-    const res = await request(t.app).get('/api/audit-events?from=yesterday').set('Authorization', coordinator.auth);
+    const res = await request(t.app)
+      .get('/api/audit-events?from=yesterday')
+      .set('Authorization', coordinator.auth);
     expect(res.status).toBe(400);
     expect(res.body.error.details[0].path).toBe('from');
   });

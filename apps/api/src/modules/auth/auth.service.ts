@@ -18,7 +18,11 @@ export async function signIn(
     .where(eq(users.email, input.email.toLowerCase()))
     .limit(1);
   const user = row?.user;
-  const ok = user && user.active && row.labActive !== false && (await verifyPassword(user.passwordHash, input.password));
+  const ok =
+    user &&
+    user.active &&
+    row.labActive !== false &&
+    (await verifyPassword(user.passwordHash, input.password));
   if (!user || !ok) throw unauthenticated('The e-mail address or password is incorrect.');
   const { token, expiresAt } = signSession(user, jwtSecret, ttlSeconds);
   await recordAudit(db, { kind: 'auth.sign-in', actorId: user.id, labId: user.labId });
@@ -30,7 +34,10 @@ export async function signIn(
 }
 
 export async function signOut(db: Database, session: { userId: string; jti: string; expiresAt: Date }) {
-  await db.insert(revokedSessions).values({ jti: session.jti, expiresAt: session.expiresAt }).onConflictDoNothing();
+  await db
+    .insert(revokedSessions)
+    .values({ jti: session.jti, expiresAt: session.expiresAt })
+    .onConflictDoNothing();
   await recordAudit(db, { kind: 'auth.sign-out', actorId: session.userId });
 }
 
@@ -43,5 +50,12 @@ export async function currentUser(db: Database, userId: string): Promise<MeRespo
     .limit(1);
   if (!row) throw notFound('User');
   const { user, lab } = row;
-  return { id: user.id, email: user.email, name: user.name, role: user.role, labId: user.labId, lab: lab ?? null };
+  return {
+    id: user.id,
+    email: user.email,
+    name: user.name,
+    role: user.role,
+    labId: user.labId,
+    lab: lab ?? null,
+  };
 }

@@ -13,9 +13,17 @@ describe('sign-in', () => {
   it('when the password is right, then 200 with a token and the user', async () => {
     const lab = await t.makeLab();
     const user = await t.makeUser('analyst', lab.id);
-    const res = await request(t.app).post('/api/auth/login').send({ email: user.email, password: TEST_PASSWORD });
+    const res = await request(t.app)
+      .post('/api/auth/login')
+      .send({ email: user.email, password: TEST_PASSWORD });
     expect(res.status).toBe(200);
-    expect(res.body.user).toEqual({ id: user.id, email: user.email, name: user.name, role: 'analyst', labId: lab.id });
+    expect(res.body.user).toEqual({
+      id: user.id,
+      email: user.email,
+      name: user.name,
+      role: 'analyst',
+      labId: lab.id,
+    });
     const me = await request(t.app).get('/api/me').set('Authorization', `Bearer ${res.body.token}`);
     expect(me.status).toBe(200);
     expect(me.body.lab).toEqual({ id: lab.id, code: lab.code, name: lab.name });
@@ -39,7 +47,9 @@ describe('sign-in', () => {
 
   it('when the account is deactivated, then 401', async () => {
     const user = await t.makeUser('analyst', (await t.makeLab()).id, { active: false });
-    const res = await request(t.app).post('/api/auth/login').send({ email: user.email, password: TEST_PASSWORD });
+    const res = await request(t.app)
+      .post('/api/auth/login')
+      .send({ email: user.email, password: TEST_PASSWORD });
     expect(res.status).toBe(401);
   });
 
@@ -77,13 +87,19 @@ describe('session tokens', () => {
     const [header, payload, signature] = user.token.split('.');
     const claims = JSON.parse(Buffer.from(payload, 'base64url').toString());
     const forged = Buffer.from(JSON.stringify({ ...claims, role: 'coordinator' })).toString('base64url');
-    const res = await request(t.app).get('/api/me').set('Authorization', `Bearer ${header}.${forged}.${signature}`);
+    const res = await request(t.app)
+      .get('/api/me')
+      .set('Authorization', `Bearer ${header}.${forged}.${signature}`);
     expect(res.status).toBe(401);
   });
 
   it('when the token is signed with another secret, then 401', async () => {
     const user = await t.makeUser('analyst', (await t.makeLab()).id);
-    const other = jwt.sign({ role: 'coordinator' }, 'x'.repeat(40), { subject: user.id, jwtid: 'j', expiresIn: 60 });
+    const other = jwt.sign({ role: 'coordinator' }, 'x'.repeat(40), {
+      subject: user.id,
+      jwtid: 'j',
+      expiresIn: 60,
+    });
     const res = await request(t.app).get('/api/me').set('Authorization', `Bearer ${other}`);
     expect(res.status).toBe(401);
   });
@@ -103,7 +119,9 @@ describe('lab scoping', () => {
     const own = await t.makeLab();
     const other = await t.makeLab();
     const analyst = await t.makeUser('analyst', own.id);
-    expect((await request(t.app).get(`/api/labs/${own.id}`).set('Authorization', analyst.auth)).status).toBe(200);
+    expect((await request(t.app).get(`/api/labs/${own.id}`).set('Authorization', analyst.auth)).status).toBe(
+      200,
+    );
     const res = await request(t.app).get(`/api/labs/${other.id}`).set('Authorization', analyst.auth);
     expect(res.status).toBe(404);
     expect(res.body.error.code).toBe('not_found');
@@ -136,13 +154,15 @@ describe('health', () => {
 });
 
 describe('deactivated labs', () => {
-  it("when a lab is deactivated, then its users can neither sign in nor use an existing session", async () => {
+  it('when a lab is deactivated, then its users can neither sign in nor use an existing session', async () => {
     const { labs } = await import('@plumbline/db');
     const { eq } = await import('drizzle-orm');
     const lab = await t.makeLab();
     const user = await t.makeUser('analyst', lab.id);
     await t.db.update(labs).set({ active: false }).where(eq(labs.id, lab.id));
-    const login = await request(t.app).post('/api/auth/login').send({ email: user.email, password: TEST_PASSWORD });
+    const login = await request(t.app)
+      .post('/api/auth/login')
+      .send({ email: user.email, password: TEST_PASSWORD });
     expect(login.status).toBe(401);
     expect((await request(t.app).get('/api/me').set('Authorization', user.auth)).status).toBe(401);
   });

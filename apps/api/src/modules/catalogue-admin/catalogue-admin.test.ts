@@ -75,10 +75,18 @@ describe('catalogue roles', () => {
   const lists = ['analytes', 'methods', 'instrument-models', 'reagents', 'control-materials', 'control-lots'];
 
   it('when an analyst or a supervisor reads a catalogue list, then only active entries come back', async () => {
-    expect((await post('/catalogue/methods', { code: 'KEEP-ME', name: 'Method in use' }, coordinator.auth)).status).toBe(201);
-    const created = await post('/catalogue/methods', { code: 'RET-ME', name: 'Method to retire' }, coordinator.auth);
+    expect(
+      (await post('/catalogue/methods', { code: 'KEEP-ME', name: 'Method in use' }, coordinator.auth)).status,
+    ).toBe(201);
+    const created = await post(
+      '/catalogue/methods',
+      { code: 'RET-ME', name: 'Method to retire' },
+      coordinator.auth,
+    );
     expect(created.status).toBe(201);
-    expect((await post(`/catalogue/methods/${created.body.id}/retire`, {}, coordinator.auth)).status).toBe(200);
+    expect((await post(`/catalogue/methods/${created.body.id}/retire`, {}, coordinator.auth)).status).toBe(
+      200,
+    );
     const asCoordinator = await get('/catalogue/methods?state=all&limit=500', coordinator.auth);
     expect(asCoordinator.body.items.map((m: { code: string }) => m.code)).toContain('RET-ME');
     for (const user of [analyst, supervisor]) {

@@ -23,5 +23,8 @@ export function healthRouter(deps: AppDeps): Router {
 }
 
 function withTimeout<T>(promise: Promise<T>, ms = 2000): Promise<T> {
-  return Promise.race([promise, new Promise<T>((_, reject) => setTimeout(() => reject(new Error('timeout')), ms))]);
+  return Promise.race([
+    promise,
+    new Promise<T>((_, reject) => setTimeout(() => reject(new Error('timeout')), ms)),
+  ]);
 }

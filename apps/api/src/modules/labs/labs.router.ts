@@ -12,7 +12,9 @@ export function labsRouter(deps: AppDeps, requireUser: RequestHandler): Router {
 
   router.get('/labs', requireUser, async (req, res) => {
     const principal = principalOf(req);
-    const base = deps.db.select({ id: labs.id, code: labs.code, name: labs.name, active: labs.active }).from(labs);
+    const base = deps.db
+      .select({ id: labs.id, code: labs.code, name: labs.name, active: labs.active })
+      .from(labs);
     const rows =
       principal.role === 'coordinator'
         ? await base.orderBy(asc(labs.code))
@@ -30,7 +32,13 @@ export function labsRouter(deps: AppDeps, requireUser: RequestHandler): Router {
       ? await deps.db.select().from(labs).where(eq(labs.id, labId)).limit(1)
       : [];
     if (!lab) throw notFound('Lab');
-    res.json({ id: lab.id, code: lab.code, name: lab.name, active: lab.active, preferredUnits: lab.preferredUnits });
+    res.json({
+      id: lab.id,
+      code: lab.code,
+      name: lab.name,
+      active: lab.active,
+      preferredUnits: lab.preferredUnits,
+    });
   });
 
   return router;

@@ -85,7 +85,12 @@ export async function summariesToDate(db: Executor, procedureIds: string[], peri
 
 export type PeerStatisticsRow = typeof peerStatistics.$inferSelect;
 
-export async function peerStatisticsFor(db: Executor, groupIds: string[], period: string, versions: number[]) {
+export async function peerStatisticsFor(
+  db: Executor,
+  groupIds: string[],
+  period: string,
+  versions: number[],
+) {
   if (groupIds.length === 0) return [];
   return db
     .select()

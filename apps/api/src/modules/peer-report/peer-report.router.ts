@@ -9,7 +9,11 @@ export function peerReportRouter(deps: AppDeps, requireUser: RequestHandler): Ro
   const router = Router();
   router.get('/labs/:labId/peer-report', requireUser, async (req, res) => {
     const query = parseInput(peerReportQuerySchema, req.query, 'query');
-    res.json(await buildPeerReport(deps.db, principalOf(req), String(req.params.labId), query.period, { units: query.units }));
+    res.json(
+      await buildPeerReport(deps.db, principalOf(req), String(req.params.labId), query.period, {
+        units: query.units,
+      }),
+    );
   });
   return router;
 }

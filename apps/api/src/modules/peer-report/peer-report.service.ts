@@ -7,7 +7,14 @@ import {
   type Database,
   type PeerMembership,
 } from '@plumbline/db';
-import type { LabFigures, PeerFigures, PeerReport, PeerReportRow, ReportFlag, UnitSystem } from '@plumbline/contracts';
+import type {
+  LabFigures,
+  PeerFigures,
+  PeerReport,
+  PeerReportRow,
+  ReportFlag,
+  UnitSystem,
+} from '@plumbline/contracts';
 import type { Principal } from '../../auth/principal.ts';
 import { assertLabAccess } from '../../auth/authenticate.ts';
 import { notFound } from '../../errors/app-error.ts';
@@ -49,25 +56,34 @@ export async function buildPeerReport(
   // Peer group of each procedure at each tier, per control lot.
   const memberships = new Map<string, PeerMembership>();
   for (const lotId of new Set(summaries.map((s) => s.controlLotId))) {
-    const procedureIds = [...new Set(summaries.filter((x) => x.controlLotId === lotId).map((x) => x.procedureId))];
+    const procedureIds = [
+      ...new Set(summaries.filter((x) => x.controlLotId === lotId).map((x) => x.procedureId)),
+    ];
     const parts = await loadPeerKeyParts(db, procedureIds);
     memberships.set(lotId, await resolvePeerMembership(db, lotId, parts, { create: false }));
   }
   const groupIds = new Set<string>();
   for (const membership of memberships.values()) {
-    for (const groups of membership.values()) for (const g of Object.values(groups)) if (g) groupIds.add(g.id);
+    for (const groups of membership.values())
+      for (const g of Object.values(groups)) if (g) groupIds.add(g.id);
   }
   const statistics = await repo.peerStatisticsFor(db, [...groupIds], period, [...new Set([0, version])]);
   const statisticsOf = (groupId: string, level: number, scope: 'period' | 'cumulative') => {
     const at = (v: number) =>
-      statistics.find((r) => r.peerGroupId === groupId && r.level === level && r.scope === scope && r.version === v);
+      statistics.find(
+        (r) => r.peerGroupId === groupId && r.level === level && r.scope === scope && r.version === v,
+      );
     // Lot-to-date figures fall back to the provisional ones when a snapshot holds none.
     return scope === 'period' ? at(version) : (at(version) ?? at(0));
   };
 
   // A published version is read by the membership frozen in its snapshot, not today's grouping.
   const snapshot = await repo.publishedSnapshot(db, [...memberships.keys()], period, version);
-  const snapshotRow = (s: { controlLotId: string; procedureId: string; level: number }, tier: string, scope: string) =>
+  const snapshotRow = (
+    s: { controlLotId: string; procedureId: string; level: number },
+    tier: string,
+    scope: string,
+  ) =>
     snapshot.find(
       (r) =>
         r.controlLotId === s.controlLotId &&
@@ -82,11 +98,19 @@ export async function buildPeerReport(
   const rows: PeerReportRow[] = summaries.map((s) => {
     const groups = memberships.get(s.controlLotId)?.get(s.procedureId) ?? {};
     const choose = (scope: 'period' | 'cumulative') => {
-      const candidates: (TierCandidate & { row: repo.PeerStatisticsRow | undefined })[] = PEER_TIERS.map((tier) => {
-        const group = groups[tier];
-        const row = snapshotRow(s, tier, scope) ?? (group ? statisticsOf(group.id, s.level, scope) : undefined);
-        return { tier, labs: row ? row.labs : null, sufficient: Boolean(row?.sufficient && row.mean !== null && row.sd !== null), row };
-      });
+      const candidates: (TierCandidate & { row: repo.PeerStatisticsRow | undefined })[] = PEER_TIERS.map(
+        (tier) => {
+          const group = groups[tier];
+          const row =
+            snapshotRow(s, tier, scope) ?? (group ? statisticsOf(group.id, s.level, scope) : undefined);
+          return {
+            tier,
+            labs: row ? row.labs : null,
+            sufficient: Boolean(row?.sufficient && row.mean !== null && row.sd !== null),
+            row,
+          };
+        },
+      );
       return { candidates, chosen: candidates.find((c) => c.sufficient) };
     };
 
@@ -98,13 +122,19 @@ export async function buildPeerReport(
     const labToDateParts = toDate.filter(
       (t) => t.procedureId === s.procedureId && t.controlLotId === s.controlLotId && t.level === s.level,
     );
-    const labToDate = labToDateParts.length ? figuresOf(labToDateParts.length === 1 ? labToDateParts[0] : pool(labToDateParts)) : null;
+    const labToDate = labToDateParts.length
+      ? figuresOf(labToDateParts.length === 1 ? labToDateParts[0] : pool(labToDateParts))
+      : null;
     const cumulative = choose('cumulative');
-    const peerToDate = cumulative.chosen ? peerFiguresOf(cumulative.chosen.tier, cumulative.chosen.row!) : null;
+    const peerToDate = cumulative.chosen
+      ? peerFiguresOf(cumulative.chosen.tier, cumulative.chosen.row!)
+      : null;
     const positionToDate = labToDate && peerToDate ? safeStanding(labToDate, peerToDate) : null;
 
     const excludedEntry = current.chosen?.row?.excluded.find((e) => e.id === s.procedureId);
-    const excluded = excludedEntry ? { reason: excludedEntry.reason, note: excludedEntry.note ?? null } : null;
+    const excluded = excludedEntry
+      ? { reason: excludedEntry.reason, note: excludedEntry.note ?? null }
+      : null;
 
     const sigma =
       position && s.analyte.teaPct !== null && labFigures.cv !== null && labFigures.cv > 0
@@ -116,7 +146,10 @@ export async function buildPeerReport(
     if (excluded) flags.push(exclusionFlag(excluded));
 
     // Everything is computed in the canonical unit; only the means and SDs shown are converted.
-    const shown = displayUnitFor({ ...s.analyte, conventionalUnit: s.conventionalUnit, molarMass: s.molarMass }, units);
+    const shown = displayUnitFor(
+      { ...s.analyte, conventionalUnit: s.conventionalUnit, molarMass: s.molarMass },
+      units,
+    );
     return {
       procedure: { id: s.procedureId, code: s.procedureCode },
       analyte: s.analyte,
@@ -149,7 +182,9 @@ export async function buildPeerReport(
     period,
     lab: { id: lab.id, code: lab.code, name: lab.name },
     units,
-    published: publication ? { version: publication.version, publishedAt: publication.publishedAt.toISOString() } : null,
+    published: publication
+      ? { version: publication.version, publishedAt: publication.publishedAt.toISOString() }
+      : null,
     statisticsPending: await hasPendingPeerStatistics(db, period),
     rows,
   };
@@ -173,7 +208,13 @@ function peerFiguresOf(tier: PeerFigures['tier'], row: repo.PeerStatisticsRow): 
 
 /** SDI, CVR and bias when the figures allow them (a peer SD or within-lab CV of 0 does not). */
 function safeStanding(lab: LabFigures, peer: PeerFigures) {
-  if (!(peer.sd > 0) || !(peer.mean > 0) || !(peer.withinCv !== null && peer.withinCv > 0) || lab.mean === 0 || lab.n < 2) {
+  if (
+    !(peer.sd > 0) ||
+    !(peer.mean > 0) ||
+    !(peer.withinCv !== null && peer.withinCv > 0) ||
+    lab.mean === 0 ||
+    lab.n < 2
+  ) {
     return null;
   }
   return standing(lab, { mean: peer.mean, sd: peer.sd, withinCv: peer.withinCv });

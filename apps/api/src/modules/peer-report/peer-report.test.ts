@@ -190,15 +190,13 @@ describe('the peer report', () => {
       .select()
       .from(peerStatistics)
       .where(and(eq(peerStatistics.period, '2026-02'), eq(peerStatistics.version, 0)));
-    await t.db
-      .insert(peerStatistics)
-      .values(
-        provisional.map(({ id: _id, ...row }) => ({
-          ...row,
-          version: 1,
-          mean: row.mean === null ? null : row.mean + 0.01,
-        })),
-      );
+    await t.db.insert(peerStatistics).values(
+      provisional.map(({ id: _id, ...row }) => ({
+        ...row,
+        version: 1,
+        mean: row.mean === null ? null : row.mean + 0.01,
+      })),
+    );
     const res = await report(labs.A);
     expect(res.body.published).toMatchObject({ version: 1 });
     const peer = computePeerStatistics(inputsOf(february, ['A', 'B', 'C', 'D']), { minLabs: 3 });

@@ -39,7 +39,8 @@ export default function AcceptInvitationRoute() {
           <div className="mb-6" />
         ) : (
           <p className="mt-2 mb-6 text-sm leading-relaxed text-slate-600">
-            You have been invited to your lab&rsquo;s Plumbline account. Choose a password to finish setting it up.
+            You have been invited to your lab&rsquo;s Plumbline account. Choose a password to finish setting
+            it up.
           </p>
         )}
         {invitation.isPending ? (
@@ -64,7 +65,9 @@ export default function AcceptInvitationRoute() {
             invitation={invitation.data}
             onSignedIn={() => {
               const session = getSession();
-              navigate(session ? homePathForRole(session.user.role) : paths.auth.signIn.getHref(), { replace: true });
+              navigate(session ? homePathForRole(session.user.role) : paths.auth.signIn.getHref(), {
+                replace: true,
+              });
             }}
           />
         )}

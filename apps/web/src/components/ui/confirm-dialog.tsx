@@ -102,7 +102,12 @@ function ConfirmBody({
         <Button variant="secondary" onClick={onClose} data-autofocus={tone === 'danger' || undefined}>
           Cancel
         </Button>
-        <Button type="submit" variant={tone} isLoading={isPending} data-autofocus={tone !== 'danger' || undefined}>
+        <Button
+          type="submit"
+          variant={tone}
+          isLoading={isPending}
+          data-autofocus={tone !== 'danger' || undefined}
+        >
           {confirmLabel}
         </Button>
       </DialogActions>

@@ -18,7 +18,11 @@ export function CopyButton({ text, label = 'Copy' }: { text: string; label?: str
         {label}
       </Button>
       <span role="status" className="text-xs text-slate-600">
-        {state === 'copied' ? 'Copied' : state === 'failed' ? 'Copying is not allowed here; select the text instead' : ''}
+        {state === 'copied'
+          ? 'Copied'
+          : state === 'failed'
+            ? 'Copying is not allowed here; select the text instead'
+            : ''}
       </span>
     </span>
   );

@@ -26,7 +26,9 @@ function HeaderCell<T>({ header }: { header: Header<T, unknown> }) {
   const meta = header.column.columnDef.meta;
   const right = meta?.align === 'right';
   const sorted = header.column.getIsSorted();
-  const content = header.isPlaceholder ? null : flexRender(header.column.columnDef.header, header.getContext());
+  const content = header.isPlaceholder
+    ? null
+    : flexRender(header.column.columnDef.header, header.getContext());
   return (
     <th
       scope="col"
@@ -84,7 +86,10 @@ export function DataTable<T>({
             </tr>
           ))}
         </thead>
-        <tbody className={isFetching ? 'opacity-60 transition-opacity' : undefined} aria-busy={isFetching || undefined}>
+        <tbody
+          className={isFetching ? 'opacity-60 transition-opacity' : undefined}
+          aria-busy={isFetching || undefined}
+        >
           {rows.length === 0 ? (
             <tr>
               <td colSpan={columnCount} className="px-3 py-8 text-center text-sm text-slate-600">
@@ -96,7 +101,9 @@ export function DataTable<T>({
               const detail = renderDetail?.(row.original);
               return (
                 <RowWithDetail key={row.id} columnCount={columnCount} detail={detail}>
-                  <tr className={`border-b border-slate-100 last:border-b-0 hover:bg-plumb-50/40 ${rowClassName?.(row.original) ?? ''}`}>
+                  <tr
+                    className={`border-b border-slate-100 last:border-b-0 hover:bg-plumb-50/40 ${rowClassName?.(row.original) ?? ''}`}
+                  >
                     {row.getVisibleCells().map((cell) => {
                       const meta = cell.column.columnDef.meta;
                       return (
@@ -119,7 +126,15 @@ export function DataTable<T>({
   );
 }
 
-function RowWithDetail({ children, detail, columnCount }: { children: ReactNode; detail: ReactNode; columnCount: number }) {
+function RowWithDetail({
+  children,
+  detail,
+  columnCount,
+}: {
+  children: ReactNode;
+  detail: ReactNode;
+  columnCount: number;
+}) {
   if (!detail) return <>{children}</>;
   return (
     <>

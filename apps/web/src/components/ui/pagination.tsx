@@ -20,7 +20,10 @@ export function Pagination({
   const first = offset + 1;
   const last = Math.min(offset + limit, total);
   return (
-    <nav aria-label={label} className="mt-3 flex flex-wrap items-center justify-between gap-3 text-sm text-slate-600">
+    <nav
+      aria-label={label}
+      className="mt-3 flex flex-wrap items-center justify-between gap-3 text-sm text-slate-600"
+    >
       <p className="figures">
         Rows {formatCount(first)}–{formatCount(last)} of {formatCount(total)}
       </p>

@@ -8,7 +8,15 @@ type SelectFieldProps = ComponentProps<'select'> & {
 };
 
 /** A labelled <select>, styled and wired (hint, error, aria-invalid) like TextField. */
-export function SelectField({ label, error, hint, id, className = '', children, ...selectProps }: SelectFieldProps) {
+export function SelectField({
+  label,
+  error,
+  hint,
+  id,
+  className = '',
+  children,
+  ...selectProps
+}: SelectFieldProps) {
   const generatedId = useId();
   const selectId = id ?? generatedId;
   const hintId = hint ? `${selectId}-hint` : undefined;

@@ -3,7 +3,14 @@ import { useId, type ComponentProps } from 'react';
 type TextareaFieldProps = ComponentProps<'textarea'> & { label: string; error?: string; hint?: string };
 
 /** A labelled multi-line field, styled and wired like TextField (used for reasons kept in the audit log). */
-export function TextareaField({ label, error, hint, id, className = '', ...textareaProps }: TextareaFieldProps) {
+export function TextareaField({
+  label,
+  error,
+  hint,
+  id,
+  className = '',
+  ...textareaProps
+}: TextareaFieldProps) {
   const generatedId = useId();
   const textareaId = id ?? generatedId;
   const hintId = hint ? `${textareaId}-hint` : undefined;

@@ -23,13 +23,20 @@ export default function AuditLogRoute() {
   const offset = Math.max(0, Number(searchParams.get('offset')) || 0);
 
   const labs = useQuery(networkLabsKeys.labs());
-  const labUsers = useQuery({ ...networkLabsKeys.users(filters.labId ?? ''), enabled: Boolean(filters.labId) });
+  const labUsers = useQuery({
+    ...networkLabsKeys.users(filters.labId ?? ''),
+    enabled: Boolean(filters.labId),
+  });
 
-  const labOptions: AuditOption[] = (labs.data ?? []).map((lab) => ({ id: lab.id, label: `${lab.code} · ${lab.name}` }));
+  const labOptions: AuditOption[] = (labs.data ?? []).map((lab) => ({
+    id: lab.id,
+    label: `${lab.code} · ${lab.name}`,
+  }));
   const actorOptions: AuditOption[] = [];
   if (session) actorOptions.push({ id: session.user.id, label: `You (${session.user.name})` });
   if (filters.labId) {
-    for (const user of labUsers.data ?? []) actorOptions.push({ id: user.id, label: `${user.name} (${user.email})` });
+    for (const user of labUsers.data ?? [])
+      actorOptions.push({ id: user.id, label: `${user.name} (${user.email})` });
   }
 
   const onChange = (next: AuditFilters, nextOffset: number) => {
@@ -53,7 +60,13 @@ export default function AuditLogRoute() {
       width="wide"
       description="A record of what was done, by whom and when: uploads, changes to the catalogue, labs, users and periods, sign-ins."
     >
-      <AuditLog filters={filters} offset={offset} onChange={onChange} labs={labOptions} actors={actorOptions} />
+      <AuditLog
+        filters={filters}
+        offset={offset}
+        onChange={onChange}
+        labs={labOptions}
+        actors={actorOptions}
+      />
     </ContentLayout>
   );
 }

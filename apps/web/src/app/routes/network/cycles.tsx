@@ -7,7 +7,10 @@ import { Alert } from '../../../components/ui/alert.tsx';
 import { Button } from '../../../components/ui/button.tsx';
 import { PageLoading } from '../../../components/ui/page-loading.tsx';
 import { cyclesKeys } from '../../../features/cycles/api/cycles-keys.ts';
-import { PeriodFormDialog, type PeriodFormState } from '../../../features/cycles/components/period-form-dialog.tsx';
+import {
+  PeriodFormDialog,
+  type PeriodFormState,
+} from '../../../features/cycles/components/period-form-dialog.tsx';
 import {
   PeriodTransitionDialog,
   type PeriodTransition,
@@ -27,7 +30,10 @@ export default function CyclesRoute() {
   const [form, setForm] = useState<PeriodFormState>(null);
   const [transition, setTransition] = useState<PeriodTransition>(null);
 
-  const latest = periods.data?.reduce<string | null>((max, p) => (max === null || p.period > max ? p.period : max), null);
+  const latest = periods.data?.reduce<string | null>(
+    (max, p) => (max === null || p.period > max ? p.period : max),
+    null,
+  );
   const suggested = latest ? nextPeriod(latest) : periodOf(new Date());
 
   return (
@@ -39,7 +45,10 @@ export default function CyclesRoute() {
     >
       <ol className="mb-6 grid gap-3 sm:grid-cols-3">
         {lifeCycle.map((step, index) => (
-          <li key={step.state} className="flex gap-3 rounded-lg border border-slate-200 bg-white px-4 py-3 text-sm shadow-xs">
+          <li
+            key={step.state}
+            className="flex gap-3 rounded-lg border border-slate-200 bg-white px-4 py-3 text-sm shadow-xs"
+          >
             <span className="figures flex size-6 shrink-0 items-center justify-center rounded-full bg-plumb-100 text-xs font-semibold text-plumb-800">
               {index + 1}
             </span>

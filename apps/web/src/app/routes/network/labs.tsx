@@ -9,8 +9,14 @@ import { Button } from '../../../components/ui/button.tsx';
 import { EmptyState } from '../../../components/ui/empty-state.tsx';
 import { PageLoading } from '../../../components/ui/page-loading.tsx';
 import { networkLabsKeys } from '../../../features/network-labs/api/network-labs-keys.ts';
-import { LabFormDialog, type LabFormState } from '../../../features/network-labs/components/lab-form-dialog.tsx';
-import { LabStateDialog, type LabStateRequest } from '../../../features/network-labs/components/lab-state-dialog.tsx';
+import {
+  LabFormDialog,
+  type LabFormState,
+} from '../../../features/network-labs/components/lab-form-dialog.tsx';
+import {
+  LabStateDialog,
+  type LabStateRequest,
+} from '../../../features/network-labs/components/lab-state-dialog.tsx';
 import { LabPanel } from '../../../features/network-labs/components/lab-panel.tsx';
 import { LabsTable } from '../../../features/network-labs/components/labs-table.tsx';
 import { errorMessage } from '../../../lib/form-errors.ts';
