@@ -10,6 +10,11 @@ export const DEFAULT_DATABASE_URL = 'postgres://postgres@127.0.0.1:54329/plumbli
 
 export function createDb(url: string = process.env.DATABASE_URL ?? DEFAULT_DATABASE_URL) {
   const pool = new pg.Pool({ connectionString: url, max: 10 });
+  // An idle connection can be closed by the server (a restart, or a test dropping its database);
+  // pg reports that on the pool, and an unhandled 'error' event would end the process.
+  pool.on('error', (err: Error & { code?: string }) => {
+    if (err.code !== '57P01') console.error('database: idle connection error:', err.message);
+  });
   const db = drizzle(pool, { schema, casing: 'snake_case' });
   return { db, pool };
 }

@@ -5,7 +5,14 @@ import { resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const repositoryRoot = resolve(fileURLToPath(new URL('.', import.meta.url)), '../../../..');
-export const referenceDataRoot = resolve(repositoryRoot, '../shared/reference-data');
+// REFERENCE_DATA_DIR overrides; otherwise ../shared/reference-data beside the checkout, then the
+// workplace's shared folder (a clone elsewhere still finds it).
+const candidates = [
+  process.env.REFERENCE_DATA_DIR,
+  resolve(repositoryRoot, '../shared/reference-data'),
+  '/work/shared/reference-data',
+].filter((p): p is string => Boolean(p));
+export const referenceDataRoot = candidates.find((p) => existsSync(p)) ?? candidates[0];
 
 /** Absolute path of a reference-data folder and whether it is present. */
 export function referenceFolder(name: string): { path: string; present: boolean; skipReason: string } {
