@@ -64,88 +64,211 @@ export function evaluateMultirule(
 ): MultiruleResult {
   const fn = 'evaluateMultirule';
   if (!Array.isArray(points)) fail(fn, 'points must be an array');
-  const evaluated: EvaluatedPoint[] = points.map((point, i) => {
+  const count = points.length;
+
+  // z of every point; each level's target is checked once, at its first point.
+  const z = new Float64Array(count);
+  const checkedTargets = new Map<number, { mean: number; sd: number }>();
+  for (let i = 0; i < count; i++) {
+    const point = points[i];
     if (typeof point.run !== 'string' || point.run === '') fail(fn, `point ${i} has no run`);
     if (!Number.isFinite(point.value))
       fail(fn, `point ${i} (run '${point.run}') value is not a finite number`);
-    const target = Object.hasOwn(targets, point.level) ? targets[point.level] : undefined;
-    if (!target) fail(fn, `no target for level ${point.level} (point ${i}, run '${point.run}')`);
-    if (!Number.isFinite(target.mean)) fail(fn, `target mean of level ${point.level} is not a finite number`);
-    if (!(Number.isFinite(target.sd) && target.sd > 0)) {
-      fail(fn, `target sd of level ${point.level} must be greater than 0, got ${target.sd}`);
-    }
-    return { ...point, z: (point.value - target.mean) / target.sd, rules: [] };
-  });
-
-  // Runs in order of first appearance; a run's points must be contiguous (chronological input).
-  const runOrder: string[] = [];
-  const runPoints = new Map<string, number[]>();
-  evaluated.forEach((point, i) => {
-    const current = runOrder[runOrder.length - 1];
-    if (point.run !== current) {
-      if (runPoints.has(point.run)) {
-        fail(
-          fn,
-          `run '${point.run}' appears again at point ${i} after other runs; give points in chronological order`,
-        );
+    let target = checkedTargets.get(point.level);
+    if (target === undefined) {
+      target = Object.hasOwn(targets, point.level) ? targets[point.level] : undefined;
+      if (!target) fail(fn, `no target for level ${point.level} (point ${i}, run '${point.run}')`);
+      if (!Number.isFinite(target.mean))
+        fail(fn, `target mean of level ${point.level} is not a finite number`);
+      if (!(Number.isFinite(target.sd) && target.sd > 0)) {
+        fail(fn, `target sd of level ${point.level} must be greater than 0, got ${target.sd}`);
       }
-      runOrder.push(point.run);
-      runPoints.set(point.run, []);
+      checkedTargets.set(point.level, target);
     }
-    runPoints.get(point.run)!.push(i);
-  });
-
-  const ruleSets = evaluated.map(() => new Set<MultiruleRule>());
-  // Attach a rule to the members of a violating group that lie in the run where it completes.
-  const attach = (rule: MultiruleRule, group: number[], run: string) => {
-    for (const i of group) if (evaluated[i].run === run) ruleSets[i].add(rule);
-  };
-  const sameSide = (group: number[], limit: number) =>
-    group.every((i) => evaluated[i].z > limit) || group.every((i) => evaluated[i].z < -limit);
-
-  const history: number[] = [];
-  const levelHistory = new Map<number, number[]>();
-  for (const run of runOrder) {
-    const members = runPoints.get(run)!;
-    for (const i of members) {
-      const { z, level } = evaluated[i];
-      if (Math.abs(z) > 2) ruleSets[i].add('1-2s');
-      if (Math.abs(z) > 3) ruleSets[i].add('1-3s');
-
-      history.push(i);
-      const ofLevel = levelHistory.get(level) ?? [];
-      ofLevel.push(i);
-      levelHistory.set(level, ofLevel);
-
-      // Consecutive points of one level (across runs, or replicates in one run).
-      const lastTwo = ofLevel.slice(-2);
-      if (lastTwo.length === 2 && sameSide(lastTwo, 2)) attach('2-2s', lastTwo, run);
-      for (const sequence of [ofLevel, history]) {
-        const lastFour = sequence.slice(-4);
-        if (lastFour.length === 4 && sameSide(lastFour, 1)) attach('4-1s', lastFour, run);
-        const lastTen = sequence.slice(-10);
-        if (lastTen.length === 10 && sameSide(lastTen, 0)) attach('10-x', lastTen, run);
-      }
-    }
-
-    // Within the run, across levels.
-    const high = members.filter((i) => evaluated[i].z > 2);
-    const low = members.filter((i) => evaluated[i].z < -2);
-    for (const side of [high, low]) {
-      const levels = new Set(side.map((i) => evaluated[i].level));
-      if (levels.size >= 2) attach('2-2s', side, run);
-    }
-    if (high.length > 0 && low.length > 0) attach('R-4s', [...high, ...low], run);
+    z[i] = (point.value - target.mean) / target.sd;
   }
 
-  const ordered = (rules: Set<MultiruleRule>) => MULTIRULE_RULES.filter((rule) => rules.has(rule));
-  evaluated.forEach((point, i) => (point.rules = ordered(ruleSets[i])));
-  const runs: RunVerdict[] = runOrder.map((run) => {
-    const rules = new Set<MultiruleRule>();
-    for (const i of runPoints.get(run)!) for (const rule of ruleSets[i]) rules.add(rule);
-    const list = ordered(rules);
-    const verdict = list.some((rule) => rule !== '1-2s') ? 'reject' : list.length > 0 ? 'warn' : 'accept';
-    return { run, verdict, rules: list };
-  });
+  // Runs in order of first appearance, as [start, end) index ranges; a run's points must be
+  // contiguous (chronological input).
+  const runNames: string[] = [];
+  const runStarts: number[] = [];
+  const seenRuns = new Set<string>();
+  for (let i = 0; i < count; i++) {
+    const run = points[i].run;
+    if (i > 0 && run === points[i - 1].run) continue;
+    if (seenRuns.has(run)) {
+      fail(
+        fn,
+        `run '${run}' appears again at point ${i} after other runs; give points in chronological order`,
+      );
+    }
+    seenRuns.add(run);
+    runNames.push(run);
+    runStarts.push(i);
+  }
+  runStarts.push(count);
+
+  // Rules of each point as bits of RULE_BIT. A rule is attached only to points of the run in which
+  // the violating group completes, i.e. points with an index at or after that run's start.
+  const ruleBits = new Uint8Array(count);
+  const all = new Streak();
+  const byLevel = new Map<number, Streak>();
+  const attachToLatest = (streak: Streak, length: number, bit: number, runStart: number) => {
+    for (let back = 1; back <= length; back++) {
+      const index = streak.latest(back);
+      if (index < runStart) break;
+      ruleBits[index] |= bit;
+    }
+  };
+
+  for (let r = 0; r < runNames.length; r++) {
+    const runStart = runStarts[r];
+    const runEnd = runStarts[r + 1];
+    // Within the run, across levels: which sides beyond 2s have points, and of how many levels.
+    let highCount = 0;
+    let lowCount = 0;
+    let highLevel = 0;
+    let lowLevel = 0;
+    let highLevels = 0;
+    let lowLevels = 0;
+
+    for (let i = runStart; i < runEnd; i++) {
+      const zi = z[i];
+      const level = points[i].level;
+      if (Math.abs(zi) > 2) ruleBits[i] |= RULE_BIT['1-2s'];
+      if (Math.abs(zi) > 3) ruleBits[i] |= RULE_BIT['1-3s'];
+
+      let ofLevel = byLevel.get(level);
+      if (ofLevel === undefined) {
+        ofLevel = new Streak();
+        byLevel.set(level, ofLevel);
+      }
+      ofLevel.add(i, zi);
+      all.add(i, zi);
+
+      // Consecutive points of one level (across runs, or replicates in one run).
+      if (ofLevel.beyond2 >= 2) attachToLatest(ofLevel, 2, RULE_BIT['2-2s'], runStart);
+      // Four beyond 1s and ten on one side: within the level and across levels.
+      if (ofLevel.beyond1 >= 4) attachToLatest(ofLevel, 4, RULE_BIT['4-1s'], runStart);
+      if (ofLevel.sameSide >= 10) attachToLatest(ofLevel, 10, RULE_BIT['10-x'], runStart);
+      if (all.beyond1 >= 4) attachToLatest(all, 4, RULE_BIT['4-1s'], runStart);
+      if (all.sameSide >= 10) attachToLatest(all, 10, RULE_BIT['10-x'], runStart);
+
+      if (zi > 2) {
+        if (highCount === 0) {
+          highLevel = level;
+          highLevels = 1;
+        } else if (highLevels === 1 && !sameLevel(level, highLevel)) highLevels = 2;
+        highCount += 1;
+      } else if (zi < -2) {
+        if (lowCount === 0) {
+          lowLevel = level;
+          lowLevels = 1;
+        } else if (lowLevels === 1 && !sameLevel(level, lowLevel)) lowLevels = 2;
+        lowCount += 1;
+      }
+    }
+
+    const highBits = (highLevels >= 2 ? RULE_BIT['2-2s'] : 0) | (lowCount > 0 ? RULE_BIT['R-4s'] : 0);
+    const lowBits = (lowLevels >= 2 ? RULE_BIT['2-2s'] : 0) | (highCount > 0 ? RULE_BIT['R-4s'] : 0);
+    if (highBits !== 0 || lowBits !== 0) {
+      for (let i = runStart; i < runEnd; i++) {
+        if (z[i] > 2) ruleBits[i] |= highBits;
+        else if (z[i] < -2) ruleBits[i] |= lowBits;
+      }
+    }
+  }
+
+  const evaluated: EvaluatedPoint[] = new Array(count);
+  for (let i = 0; i < count; i++) {
+    evaluated[i] = withResult(points[i], z[i], rulesOf(ruleBits[i]));
+  }
+  const runs: RunVerdict[] = new Array(runNames.length);
+  for (let r = 0; r < runNames.length; r++) {
+    let bits = 0;
+    for (let i = runStarts[r]; i < runStarts[r + 1]; i++) bits |= ruleBits[i];
+    const list = rulesOf(bits);
+    const verdict = (bits & ~RULE_BIT['1-2s']) !== 0 ? 'reject' : bits !== 0 ? 'warn' : 'accept';
+    runs[r] = { run: runNames[r], verdict, rules: list };
+  }
   return { points: evaluated, runs };
+}
+
+/** One bit per rule, in reporting order. */
+const RULE_BIT: Readonly<Record<MultiruleRule, number>> = {
+  '1-2s': 1,
+  '1-3s': 2,
+  '2-2s': 4,
+  'R-4s': 8,
+  '4-1s': 16,
+  '10-x': 32,
+};
+
+/** The rules of a bit set, in reporting order (a new array each time: callers may change it). */
+function rulesOf(bits: number): MultiruleRule[] {
+  if (bits === 0) return [];
+  return MULTIRULE_RULES.filter((rule) => (bits & RULE_BIT[rule]) !== 0);
+}
+
+/**
+ * `{ ...point, z, rules }`. A point with just run, level and value is copied field by field, which
+ * gives the same object and is many times faster than the spread of an object with a double field.
+ */
+function withResult(point: ControlPoint, z: number, rules: MultiruleRule[]): EvaluatedPoint {
+  const keys = Object.keys(point);
+  if (
+    keys.length === 3 &&
+    keys[0] === 'run' &&
+    keys[1] === 'level' &&
+    keys[2] === 'value' &&
+    Object.getOwnPropertySymbols(point).length === 0
+  ) {
+    return { run: point.run, level: point.level, value: point.value, z, rules };
+  }
+  return { ...point, z, rules };
+}
+
+/** Level equality as a Map or Set sees it (NaN equals NaN). */
+const sameLevel = (a: number, b: number) => a === b || (a !== a && b !== b);
+
+/**
+ * Running counts over a sequence of points (all points, or one level's): how many of the latest
+ * points in a row lie beyond the same 2s limit, beyond the same 1s limit, and on the same side of
+ * the mean, and the indices of the latest ten points. A rule over the last k points holds exactly
+ * when its count is at least k, so each point costs O(1).
+ */
+class Streak {
+  beyond2 = 0;
+  beyond1 = 0;
+  sameSide = 0;
+  private above2 = 0;
+  private below2 = 0;
+  private above1 = 0;
+  private below1 = 0;
+  private above0 = 0;
+  private below0 = 0;
+  private readonly recent = new Int32Array(10);
+  private size = 0;
+  private next = 0;
+
+  add(index: number, z: number): void {
+    this.above2 = z > 2 ? this.above2 + 1 : 0;
+    this.below2 = z < -2 ? this.below2 + 1 : 0;
+    this.above1 = z > 1 ? this.above1 + 1 : 0;
+    this.below1 = z < -1 ? this.below1 + 1 : 0;
+    this.above0 = z > 0 ? this.above0 + 1 : 0;
+    this.below0 = z < 0 ? this.below0 + 1 : 0;
+    this.beyond2 = Math.max(this.above2, this.below2);
+    this.beyond1 = Math.max(this.above1, this.below1);
+    this.sameSide = Math.max(this.above0, this.below0);
+    this.recent[this.next] = index;
+    this.next = (this.next + 1) % 10;
+    if (this.size < 10) this.size += 1;
+  }
+
+  /** Index of the point `back` places from the end (1 = the latest), or -1 when there are fewer. */
+  latest(back: number): number {
+    if (back > this.size) return -1;
+    return this.recent[(this.next - back + 10) % 10];
+  }
 }

@@ -1,14 +1,5 @@
 import { and, eq, inArray, isNull, sql } from 'drizzle-orm';
-import {
-  periodSignoffs,
-  analytes,
-  columnMappings,
-  controlLots,
-  periods,
-  procedures,
-  uploads,
-  type Executor,
-} from '@plumbline/db';
+import { uploads, type Executor } from '@plumbline/db';
 import type { ColumnMapping, RowError, UploadKind } from '@plumbline/contracts';
 import type { LotInfo, PeriodInfo, ProcedureInfo } from './row-schemas.ts';
 
@@ -19,8 +10,11 @@ export async function loadUpload(db: Executor, id: string): Promise<UploadRecord
   return row ?? null;
 }
 
-/** queued (or a processing run that died) → processing; false when the upload is no longer waiting. */
-export async function markProcessing(db: Executor, id: string): Promise<boolean> {
+/**
+ * queued (or a processing run that died) → processing, returning the upload; null when it is no longer
+ * waiting (or does not exist).
+ */
+export async function claimUpload(db: Executor, id: string): Promise<UploadRecord | null> {
   const rows = await db
     .update(uploads)
     .set({
@@ -33,8 +27,8 @@ export async function markProcessing(db: Executor, id: string): Promise<boolean>
     .where(
       and(eq(uploads.id, id), inArray(uploads.status, ['queued', 'processing']), isNull(uploads.storedAt)),
     )
-    .returning({ id: uploads.id });
-  return rows.length === 1;
+    .returning();
+  return rows[0] ?? null;
 }
 
 /** Progress of a processing upload (a cancelled one is left alone). */
@@ -73,34 +67,33 @@ export async function markFailed(
     );
 }
 
-export async function savedColumnMapping(
-  db: Executor,
-  labId: string,
-  kind: UploadKind,
-): Promise<ColumnMapping | null> {
-  const [row] = await db
-    .select({ mapping: columnMappings.mapping })
-    .from(columnMappings)
-    .where(and(eq(columnMappings.labId, labId), eq(columnMappings.kind, kind)))
-    .limit(1);
-  return row?.mapping ?? null;
-}
-
-/** What rows are checked against: the lab's procedures by code, the lots by number, the periods. */
-export async function loadRowLookups(db: Executor, labId: string) {
-  const procedureRows = await db
-    .select({
-      id: procedures.id,
-      code: procedures.code,
-      labId: procedures.labId,
-      analyteId: analytes.id,
-      analyteName: analytes.name,
-      analyteUnit: analytes.unit,
-      molarMass: analytes.molarMass,
-    })
-    .from(procedures)
-    .innerJoin(analytes, eq(analytes.id, procedures.analyteId))
-    .where(and(eq(procedures.labId, labId), isNull(procedures.retiredAt)));
+/**
+ * What rows are checked against — the lab's procedures by code, the lots by number, the periods (marked
+ * when the lab has signed them off) — and the lab's saved column mapping for the kind, in one round trip
+ * (it runs for every upload).
+ */
+export async function loadRowLookups(db: Executor, labId: string, kind: UploadKind) {
+  const result = await db.execute<{
+    procedures: ProcedureInfo[];
+    lots: LotInfo[];
+    periods: PeriodInfo[];
+    signed: string[];
+    mapping: ColumnMapping | null;
+  }>(sql`
+    select
+      (select coalesce(json_agg(json_build_object(
+                'id', p.id, 'code', p.code, 'labId', p.lab_id, 'analyteId', a.id, 'analyteName', a.name,
+                'analyteUnit', a.unit, 'molarMass', a.molar_mass)), '[]'::json)
+         from procedures p join analytes a on a.id = p.analyte_id
+        where p.lab_id = ${labId} and p.retired_at is null) as procedures,
+      (select coalesce(json_agg(json_build_object('id', id, 'lotNumber', lot_number, 'levels', levels)), '[]'::json)
+         from control_lots) as lots,
+      (select coalesce(json_agg(json_build_object('period', period, 'state', state)), '[]'::json)
+         from periods) as periods,
+      (select coalesce(json_agg(period), '[]'::json) from period_signoffs where lab_id = ${labId}) as signed,
+      (select mapping from column_mappings where lab_id = ${labId} and kind = ${kind} limit 1) as mapping`);
+  const row = result.rows[0];
+  const procedureRows = row.procedures;
   const procedureMap = new Map<string, ProcedureInfo>();
   for (const p of procedureRows) procedureMap.set(p.code, p);
   // Codes are matched exactly first, then ignoring case (when that is unambiguous).
@@ -113,24 +106,13 @@ export async function loadRowLookups(db: Executor, labId: string) {
       procedureMap.set(upper, p);
     }
   }
-
-  const lotRows = await db
-    .select({ id: controlLots.id, lotNumber: controlLots.lotNumber, levels: controlLots.levels })
-    .from(controlLots);
-  const lots = new Map<string, LotInfo>(lotRows.map((l) => [l.lotNumber, l]));
-
-  const periodRows = await db.select({ period: periods.period, state: periods.state }).from(periods);
+  const lots = new Map<string, LotInfo>(row.lots.map((l) => [l.lotNumber, l]));
   // A month the lab has signed off is read-only: its rows are rejected (comments stay possible elsewhere).
-  const signed = await db
-    .select({ period: periodSignoffs.period })
-    .from(periodSignoffs)
-    .where(eq(periodSignoffs.labId, labId));
-  const signedPeriods = new Set(signed.map((s) => s.period));
+  const signedPeriods = new Set(row.signed);
   const periodMap = new Map<string, PeriodInfo>(
-    periodRows.map((p) => [p.period, { ...p, signedOff: signedPeriods.has(p.period) }]),
+    row.periods.map((p) => [p.period, { ...p, signedOff: signedPeriods.has(p.period) }]),
   );
-
-  return { procedures: procedureMap, lots, periods: periodMap };
+  return { procedures: procedureMap, lots, periods: periodMap, mapping: row.mapping ?? null };
 }
 
 /** Uploads the worker must (re)start: left queued, or processing when a worker died. */

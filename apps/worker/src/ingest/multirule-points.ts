@@ -1,4 +1,4 @@
-import { evaluateMultirule, pool, summarize } from '@plumbline/stats';
+import { MULTIRULE_RULES, evaluateMultirule, pool, summarize, type ControlPoint } from '@plumbline/stats';
 import type { ValuesBuffer } from './values-buffer.ts';
 
 /** Target mean and SD of a level, and where they come from. */
@@ -34,6 +34,22 @@ export function chooseTarget(
 
 export type PointResult = { z: number | null; rules: string[] };
 
+/** Bit of each multirule rule in GroupResults.rules (the order in which the rules are reported). */
+export const RULE_BITS: ReadonlyMap<string, number> = new Map(
+  MULTIRULE_RULES.map((rule, k) => [rule, 1 << k]),
+);
+
+/** The rules of a bit set, in reporting order. */
+export function rulesOfBits(bits: number): string[] {
+  return MULTIRULE_RULES.filter((rule) => (bits & RULE_BITS.get(rule)!) !== 0);
+}
+
+/**
+ * Multirule results of a group's rows, by position in the `indices` given: z (NaN for a level without a
+ * target) and the rules as RULE_BITS; `timeOrder` lists the positions by time, then level, then row.
+ */
+export type GroupResults = { z: Float64Array; rules: Uint8Array; timeOrder: Int32Array };
+
 /**
  * Multirule results of the values of one procedure, control lot and period (all levels together, as the
  * across-level rules need). Points are put in chronological order of runs: a run's points stay together
@@ -45,57 +61,125 @@ export function evaluateGroup(
   indices: readonly number[],
   targets: ReadonlyMap<number, Target>,
 ): Map<number, PointResult> {
+  const { z, rules } = evaluateGroupRows(buffer, indices, targets);
   const results = new Map<number, PointResult>();
-  // Each row's run key, computed once (the sort below compares them many times).
-  const runKey = new Map<number, string>();
-  const runStart = new Map<string, number>();
-  for (const i of indices) {
-    const run = buffer.run(i) ?? `at:${buffer.measuredAt(i)}`;
-    runKey.set(i, run);
-    const start = runStart.get(run);
-    if (start === undefined || buffer.measuredAt(i) < start) runStart.set(run, buffer.measuredAt(i));
-  }
-  const runOf = (i: number) => runKey.get(i)!;
-  const levelOf = (i: number) => buffer.series[buffer.seriesOf(i)].level;
-  const evaluated = indices.filter((i) => targets.has(levelOf(i)));
-  for (const i of indices) if (!targets.has(levelOf(i))) results.set(i, { z: null, rules: [] });
-  if (evaluated.length === 0) return results;
-
-  const ordered = [...evaluated].sort((a, b) => {
-    const ra = runOf(a);
-    const rb = runOf(b);
-    if (ra !== rb) {
-      const sa = runStart.get(ra)!;
-      const sb = runStart.get(rb)!;
-      return sa !== sb ? sa - sb : ra < rb ? -1 : 1;
-    }
-    return buffer.measuredAt(a) - buffer.measuredAt(b) || levelOf(a) - levelOf(b) || a - b;
-  });
-  const targetRecord: Record<number, { mean: number; sd: number }> = {};
-  for (const [level, t] of targets) targetRecord[level] = { mean: t.mean, sd: t.sd };
-  const outcome = evaluateMultirule(
-    ordered.map((i) => ({ run: runOf(i), level: levelOf(i), value: buffer.value(i) })),
-    targetRecord,
+  indices.forEach((i, k) =>
+    results.set(i, Number.isNaN(z[k]) ? { z: null, rules: [] } : { z: z[k], rules: rulesOfBits(rules[k]) }),
   );
-  outcome.points.forEach((point, k) => results.set(ordered[k], { z: point.z, rules: [...point.rules] }));
   return results;
 }
 
-/** n, mean, SD of each series of the buffer with at least two values (indices grouped by series). */
+/** evaluateGroup with its results in typed columns (a group can hold hundreds of thousands of rows). */
+export function evaluateGroupRows(
+  buffer: ValuesBuffer,
+  indices: ArrayLike<number>,
+  targets: ReadonlyMap<number, Target>,
+): GroupResults {
+  const count = indices.length;
+  const row = Int32Array.from(indices);
+  const at = new Float64Array(count);
+  const level = new Float64Array(count);
+  for (let k = 0; k < count; k++) {
+    at[k] = buffer.measuredAt(row[k]);
+    level[k] = buffer.series[buffer.seriesOf(row[k])].level;
+  }
+
+  // Each row's run: its run id, or "at:<time>" without one (a run id may be written that way too; then
+  // they are one run). Runs are numbered within the group; a run starts at the time of its first point.
+  const run = new Int32Array(count);
+  const runKeys: string[] = [];
+  const runStarts: number[] = [];
+  const localRunOf = new Map<number, number>();
+  const unnamed = new Map<number, number>();
+  for (let k = 0; k < count; k++) {
+    let id = buffer.runNumber(row[k]);
+    if (id === -1) {
+      const time = at[k];
+      const known = unnamed.get(time);
+      if (known !== undefined) id = known;
+      else {
+        id = buffer.numberOfRun(`at:${time}`);
+        if (id === -1) id = -2 - unnamed.size; // a run of its own, outside the file's run ids
+        unnamed.set(time, id);
+      }
+    }
+    let local = localRunOf.get(id);
+    if (local === undefined) {
+      local = runKeys.length;
+      localRunOf.set(id, local);
+      runKeys.push(id >= 0 ? buffer.runName(id) : `at:${at[k]}`);
+      runStarts.push(at[k]);
+    } else if (at[k] < runStarts[local]) runStarts[local] = at[k];
+    run[k] = local;
+  }
+
+  const byTime = (a: number, b: number) => at[a] - at[b] || level[a] - level[b] || row[a] - row[b];
+  const byRun = (a: number, b: number) => {
+    if (run[a] !== run[b]) {
+      const sa = runStarts[run[a]];
+      const sb = runStarts[run[b]];
+      return sa !== sb ? sa - sb : runKeys[run[a]] < runKeys[run[b]] ? -1 : 1;
+    }
+    return byTime(a, b);
+  };
+  const timeOrder = sortedPositions(count, byTime);
+
+  const z = new Float64Array(count).fill(Number.NaN);
+  const rules = new Uint8Array(count);
+  const evaluated: number[] = [];
+  for (let k = 0; k < count; k++) if (targets.has(level[k])) evaluated.push(k);
+  if (evaluated.length === 0) return { z, rules, timeOrder };
+  if (!isSorted(evaluated, byRun)) evaluated.sort(byRun);
+
+  const targetRecord: Record<number, { mean: number; sd: number }> = {};
+  for (const [lvl, t] of targets) targetRecord[lvl] = { mean: t.mean, sd: t.sd };
+  const points: ControlPoint[] = new Array(evaluated.length);
+  for (let e = 0; e < evaluated.length; e++) {
+    const k = evaluated[e];
+    points[e] = { run: runKeys[run[k]], level: level[k], value: buffer.value(row[k]) };
+  }
+  const outcome = evaluateMultirule(points, targetRecord);
+  for (let e = 0; e < evaluated.length; e++) {
+    const k = evaluated[e];
+    const point = outcome.points[e];
+    z[k] = point.z;
+    let bits = 0;
+    for (const rule of point.rules) bits |= RULE_BITS.get(rule)!;
+    rules[k] = bits;
+  }
+  return { z, rules, timeOrder };
+}
+
+/** Positions 0…count−1 in the comparator's order (often already in order: then no sort). */
+function sortedPositions(count: number, compare: (a: number, b: number) => number): Int32Array {
+  const positions = new Int32Array(count);
+  for (let k = 0; k < count; k++) positions[k] = k;
+  let sorted = true;
+  for (let k = 1; k < count && sorted; k++) if (compare(k - 1, k) > 0) sorted = false;
+  if (!sorted) positions.sort(compare);
+  return positions;
+}
+
+function isSorted(list: readonly number[], compare: (a: number, b: number) => number): boolean {
+  for (let k = 1; k < list.length; k++) if (compare(list[k - 1], list[k]) > 0) return false;
+  return true;
+}
+
+/** n, mean, SD of each series of the buffer with at least two values (rows of each series, in file order). */
 export function seriesFigures(
   buffer: ValuesBuffer,
-  indicesBySeries: ReadonlyMap<number, number[]>,
+  rowsOfSeries: readonly ArrayLike<number>[],
 ): Map<number, MonthFigures> {
   const figures = new Map<number, MonthFigures>();
-  for (const [seriesIndex, indices] of indicesBySeries) {
-    if (indices.length < 2) continue;
-    const s = summarize(indices.map((i) => buffer.value(i)));
+  rowsOfSeries.forEach((rows, seriesIndex) => {
+    if (rows.length < 2) return;
+    const s = summarize(Array.from(rows, (i) => buffer.value(i)));
     figures.set(seriesIndex, {
       period: buffer.series[seriesIndex].period.period,
       n: s.n,
       mean: s.mean,
       sd: s.sd,
     });
-  }
+  });
   return figures;
 }

@@ -35,8 +35,21 @@ const PERIOD = /^(\d{4})-(0[1-9]|1[0-2])$/;
  * The rows are checked with one zod schema per file kind: an object of text cells, then one transform
  * that checks every cell (in column order, all problems of a row reported) and resolves codes to the
  * catalogue. Field-by-field zod pipes cost several times more per row; a file can have a million rows.
+ *
+ * The transform's body is `checkValueCells` / `checkSummaryCells`, which only ever call `addIssue` on
+ * their context. The ingest worker calls them directly with an `IssueFlag` for every row (no zod
+ * object is built per row), and runs the zod schema only for a row that got an issue, to report it:
+ * the same checks decide in both cases.
  */
-type Ctx = z.RefinementCtx;
+type Ctx = Pick<z.RefinementCtx, 'addIssue'>;
+
+/** A context that only notes whether a check added an issue (see above). */
+export class IssueFlag implements Ctx {
+  failed = false;
+  addIssue(): void {
+    this.failed = true;
+  }
+}
 
 /** Adds an issue carrying our row error code and the column; returns undefined for the caller's value. */
 function reject(ctx: Ctx, column: string, code: RowErrorCode, message: string): undefined {
@@ -181,42 +194,47 @@ const summaryCells = z.object({
   unit: z.string(),
 });
 
+export type SummaryCells = z.infer<typeof summaryCells>;
+
 /** A qc-summary row: period, procedure, control_lot, level, n, mean, sd, unit. */
 export function summaryRowSchema(context: RowContext) {
-  return summaryCells.transform((cells, ctx): SummaryRow => {
-    const period = periodCell(ctx, cells.period, context);
-    const procedure = procedureCell(ctx, cells.procedure, context);
-    const lot = lotCell(ctx, cells.control_lot, context);
-    const level = wholeNumberCell(ctx, 'level', cells.level, 1, 'invalid_integer');
-    const n = wholeNumberCell(ctx, 'n', cells.n, 2, 'n_too_small');
-    const mean = decimalCell(ctx, 'mean', cells.mean, context);
-    let sd = decimalCell(ctx, 'sd', cells.sd, context);
-    const unit = unitCell(ctx, cells.unit, context);
-    if (sd !== undefined && !(sd > 0))
-      sd = reject(ctx, 'sd', 'sd_not_positive', `sd must be greater than 0, got ${sd}`);
-    if (
-      !period ||
-      !procedure ||
-      !lot ||
-      level === undefined ||
-      n === undefined ||
-      mean === undefined ||
-      unit === undefined
-    ) {
-      return z.NEVER;
-    }
-    const conversion = levelAndUnit(ctx, { procedure, lot, level, unit }, context);
-    if (!conversion || sd === undefined) return z.NEVER;
-    return {
-      procedure,
-      lot,
-      level,
-      period,
-      n,
-      mean: conversion.factor * mean + conversion.offset,
-      sd: Math.abs(conversion.factor) * sd,
-    };
-  });
+  return summaryCells.transform((cells, ctx): SummaryRow => checkSummaryCells(cells, ctx, context));
+}
+
+/** The checks of a qc-summary row; after an issue the result is not a row (z.NEVER). */
+export function checkSummaryCells(cells: SummaryCells, ctx: Ctx, context: RowContext): SummaryRow {
+  const period = periodCell(ctx, cells.period, context);
+  const procedure = procedureCell(ctx, cells.procedure, context);
+  const lot = lotCell(ctx, cells.control_lot, context);
+  const level = wholeNumberCell(ctx, 'level', cells.level, 1, 'invalid_integer');
+  const n = wholeNumberCell(ctx, 'n', cells.n, 2, 'n_too_small');
+  const mean = decimalCell(ctx, 'mean', cells.mean, context);
+  let sd = decimalCell(ctx, 'sd', cells.sd, context);
+  const unit = unitCell(ctx, cells.unit, context);
+  if (sd !== undefined && !(sd > 0))
+    sd = reject(ctx, 'sd', 'sd_not_positive', `sd must be greater than 0, got ${sd}`);
+  if (
+    !period ||
+    !procedure ||
+    !lot ||
+    level === undefined ||
+    n === undefined ||
+    mean === undefined ||
+    unit === undefined
+  ) {
+    return z.NEVER;
+  }
+  const conversion = levelAndUnit(ctx, { procedure, lot, level, unit }, context);
+  if (!conversion || sd === undefined) return z.NEVER;
+  return {
+    procedure,
+    lot,
+    level,
+    period,
+    n,
+    mean: conversion.factor * mean + conversion.offset,
+    sd: Math.abs(conversion.factor) * sd,
+  };
 }
 
 export type ValueRow = {
@@ -260,48 +278,54 @@ function measuredAtCell(
       `${parsed.period} (the month of ${value}) is not a cycle of the network`,
     );
   }
-  if (period.signedOff) return reject(ctx, 'measured_at', 'period_signed_off', signedOffMessage(parsed.period));
+  if (period.signedOff)
+    return reject(ctx, 'measured_at', 'period_signed_off', signedOffMessage(parsed.period));
   return { ms: parsed.ms, period };
 }
 
+export type ValueCells = z.infer<typeof valueCells>;
+
 /** A qc-values row: measured_at, procedure, control_lot, level, value, unit, run, comment. */
 export function valueRowSchema(context: RowContext) {
-  return valueCells.transform((cells, ctx): ValueRow => {
-    const measuredAt = measuredAtCell(ctx, cells.measured_at, context);
-    const procedure = procedureCell(ctx, cells.procedure, context);
-    const lot = lotCell(ctx, cells.control_lot, context);
-    const level = wholeNumberCell(ctx, 'level', cells.level, 1, 'invalid_integer');
-    const value = decimalCell(ctx, 'value', cells.value, context);
-    const unit = unitCell(ctx, cells.unit, context);
-    const run = cells.run.trim() || null;
-    let comment: string | null | undefined = cells.comment.trim() || null;
-    if (comment && comment.length > MAX_COMMENT_LENGTH) {
-      comment = reject(ctx, 'comment', 'too_long', `comment is longer than ${MAX_COMMENT_LENGTH} characters`);
-    }
-    if (
-      !measuredAt ||
-      !procedure ||
-      !lot ||
-      level === undefined ||
-      value === undefined ||
-      unit === undefined ||
-      comment === undefined
-    ) {
-      return z.NEVER;
-    }
-    const conversion = levelAndUnit(ctx, { procedure, lot, level, unit }, context);
-    if (!conversion) return z.NEVER;
-    return {
-      procedure,
-      lot,
-      level,
-      period: measuredAt.period,
-      measuredAtMs: measuredAt.ms,
-      value: conversion.factor * value + conversion.offset,
-      run,
-      comment,
-    };
-  });
+  return valueCells.transform((cells, ctx): ValueRow => checkValueCells(cells, ctx, context));
+}
+
+/** The checks of a qc-values row; after an issue the result is not a row (z.NEVER). */
+export function checkValueCells(cells: ValueCells, ctx: Ctx, context: RowContext): ValueRow {
+  const measuredAt = measuredAtCell(ctx, cells.measured_at, context);
+  const procedure = procedureCell(ctx, cells.procedure, context);
+  const lot = lotCell(ctx, cells.control_lot, context);
+  const level = wholeNumberCell(ctx, 'level', cells.level, 1, 'invalid_integer');
+  const value = decimalCell(ctx, 'value', cells.value, context);
+  const unit = unitCell(ctx, cells.unit, context);
+  const run = cells.run.trim() || null;
+  let comment: string | null | undefined = cells.comment.trim() || null;
+  if (comment && comment.length > MAX_COMMENT_LENGTH) {
+    comment = reject(ctx, 'comment', 'too_long', `comment is longer than ${MAX_COMMENT_LENGTH} characters`);
+  }
+  if (
+    !measuredAt ||
+    !procedure ||
+    !lot ||
+    level === undefined ||
+    value === undefined ||
+    unit === undefined ||
+    comment === undefined
+  ) {
+    return z.NEVER;
+  }
+  const conversion = levelAndUnit(ctx, { procedure, lot, level, unit }, context);
+  if (!conversion) return z.NEVER;
+  return {
+    procedure,
+    lot,
+    level,
+    period: measuredAt.period,
+    measuredAtMs: measuredAt.ms,
+    value: conversion.factor * value + conversion.offset,
+    run,
+    comment,
+  };
 }
 
 /** zod issues of one row → row errors naming the file's own column header. */

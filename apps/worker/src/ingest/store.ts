@@ -2,14 +2,11 @@ import type pg from 'pg';
 import copyStreams from 'pg-copy-streams';
 import { Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
-import { and, eq, inArray, lt } from 'drizzle-orm';
+import { sql } from 'drizzle-orm';
 import {
   PEER_TIERS,
   loadPeerKeyParts,
-  peerStatistics,
-  qcSummaries,
   recordAudit,
-  requestPeerStatistics,
   resolvePeerMembership,
   type Database,
   type PeerStatisticsTarget,
@@ -18,12 +15,14 @@ import type { SummaryRow } from './row-schemas.ts';
 import { seriesKey, type ValuesBuffer } from './values-buffer.ts';
 import {
   chooseTarget,
-  evaluateGroup,
+  evaluateGroupRows,
   labTargetBefore,
+  rulesOfBits,
   seriesFigures,
   type MonthFigures,
   type Target,
 } from './multirule-points.ts';
+import { BinaryCopyWriter, textArrayBytes, uuidBytes } from './copy-binary.ts';
 
 /** A monthly summary ready to store (canonical unit). */
 type SummaryToStore = {
@@ -50,10 +49,7 @@ export type StoreContext = {
 const isLate = (state: string) => state !== 'open';
 
 /** Stores the valid rows of a summary file: each row replaces the lab's data for its key. */
-export async function storeSummaries(
-  ctx: StoreContext,
-  rows: readonly SummaryRow[],
-): Promise<{ replaced: number }> {
+export async function storeSummaries(ctx: StoreContext, rows: readonly SummaryRow[]): Promise<Stored> {
   return replaceSummaries(
     ctx,
     rows.map((r) => ({
@@ -73,33 +69,28 @@ export async function storeSummaries(
 /**
  * Stores the valid rows of a daily-values file: the values of each lab series (procedure, lot, level,
  * period) replace the earlier ones, their monthly summaries are derived, and each value carries its
- * multirule result. Values go in with COPY.
+ * multirule result. Values go in with binary COPY, each procedure, lot and period in time order (the
+ * order of the table's main index, which keeps its maintenance cheap).
  */
 export async function storeValues(
   ctx: StoreContext,
   buffer: ValuesBuffer,
   onProgress: (fraction: number) => Promise<void>,
-): Promise<{ replaced: number }> {
-  const indicesBySeries = new Map<number, number[]>();
-  for (let i = 0; i < buffer.length; i++) {
-    const list = indicesBySeries.get(buffer.seriesOf(i));
-    if (list) list.push(i);
-    else indicesBySeries.set(buffer.seriesOf(i), [i]);
-  }
-  const figures = seriesFigures(buffer, indicesBySeries);
+): Promise<Stored> {
+  const rowsOfSeries = rowsBySeries(buffer);
+  const figures = seriesFigures(buffer, rowsOfSeries);
   const targets = await multiruleTargets(ctx.tx, buffer, figures);
 
   // One multirule evaluation per procedure, lot and period (levels together).
   const groups = new Map<string, number[]>();
-  for (const [seriesIndex, indices] of indicesBySeries) {
-    const s = buffer.series[seriesIndex];
+  buffer.series.forEach((s, seriesIndex) => {
     const key = `${s.procedure.id}|${s.lot.id}|${s.period.period}`;
     const list = groups.get(key);
-    if (list) list.push(...indices);
-    else groups.set(key, [...indices]);
-  }
+    if (list) list.push(seriesIndex);
+    else groups.set(key, [seriesIndex]);
+  });
 
-  const { replaced } = await replaceSummaries(
+  const stored = await replaceSummaries(
     ctx,
     buffer.series.map((s, index) => ({
       labId: ctx.upload.labId,
@@ -116,57 +107,130 @@ export async function storeValues(
 
   const copy = ctx.client.query(
     copyStreams.from(
-      'COPY qc_values (lab_id, procedure_id, control_lot_id, level, period, measured_at, value, run, comment, z, rules, upload_id) FROM STDIN',
+      'COPY qc_values (lab_id, procedure_id, control_lot_id, level, period, measured_at, value, run, comment, z, rules, upload_id) FROM STDIN (FORMAT binary)',
     ),
   );
-  const uploadId = ctx.upload.id;
-  const labId = ctx.upload.labId;
+  const uploadId = uuidBytes(ctx.upload.id);
+  const labId = uuidBytes(ctx.upload.labId);
   const total = buffer.length;
-  async function* lines(): AsyncGenerator<string> {
-    let chunk = '';
+  const runBytes = new Map<number, Buffer>();
+  const idBytes = new Map<string, Buffer>();
+  const idOf = (id: string) => {
+    let bytes = idBytes.get(id);
+    if (!bytes) {
+      bytes = uuidBytes(id);
+      idBytes.set(id, bytes);
+    }
+    return bytes;
+  };
+  const groupKeys = [...groups.keys()].sort();
+
+  async function* chunks(): AsyncGenerator<Buffer> {
+    const writer = new BinaryCopyWriter();
     let written = 0;
-    for (const [key, indices] of groups) {
-      const results = evaluateGroup(buffer, indices, targets.get(key) ?? new Map());
-      for (const i of indices) {
-        const s = buffer.series[buffer.seriesOf(i)];
-        const result = results.get(i);
-        const run = buffer.run(i);
-        const comment = buffer.comments.get(i);
-        chunk +=
-          `${labId}\t${s.procedure.id}\t${s.lot.id}\t${s.level}\t${s.period.period}\t` +
-          `${new Date(buffer.measuredAt(i)).toISOString()}\t${buffer.value(i)}\t` +
-          `${run === null ? '\\N' : copyText(run)}\t${comment === undefined ? '\\N' : copyText(comment)}\t` +
-          `${result?.z === null || result?.z === undefined || !Number.isFinite(result.z) ? '\\N' : result.z}\t` +
-          `{${(result?.rules ?? []).join(',')}}\t${uploadId}\n`;
-        written += 1;
-        if (chunk.length > 256 * 1024) {
-          yield chunk;
-          chunk = '';
-          if (written % 50_000 < 3000) await onProgress(written / total);
+    let reported = 0;
+    for (const key of groupKeys) {
+      const seriesIndices = groups.get(key)!;
+      const first = buffer.series[seriesIndices[0]];
+      const rows = concatRows(seriesIndices.map((index) => rowsOfSeries[index]));
+      const { z, rules, timeOrder } = evaluateGroupRows(buffer, rows, targets.get(key) ?? new Map());
+      const procedureId = idOf(first.procedure.id);
+      const lotId = idOf(first.lot.id);
+      const period = first.period.period;
+      for (let t = 0; t < timeOrder.length; t++) {
+        const k = timeOrder[t];
+        const i = rows[k];
+        const level = buffer.series[buffer.seriesOf(i)].level;
+        const runNumber = buffer.runNumber(i);
+        let run: Buffer | null = null;
+        if (runNumber !== -1) {
+          run = runBytes.get(runNumber) ?? null;
+          if (!run) {
+            run = Buffer.from(buffer.runName(runNumber), 'utf8');
+            runBytes.set(runNumber, run);
+          }
         }
+        const comment = buffer.comments.get(i);
+        writer.row(12, FIXED_ROW_BYTES + (run?.length ?? 0) + 3 * (period.length + (comment?.length ?? 0)));
+        writer.bytes(labId);
+        writer.bytes(procedureId);
+        writer.bytes(lotId);
+        writer.int4(level);
+        writer.text(period);
+        writer.timestamptz(buffer.measuredAt(i));
+        writer.float8(buffer.value(i));
+        if (run) writer.bytes(run);
+        else writer.null();
+        if (comment === undefined) writer.null();
+        else writer.text(comment);
+        if (Number.isFinite(z[k])) writer.float8(z[k]);
+        else writer.null();
+        writer.bytes(RULES_BYTES[rules[k]]);
+        writer.bytes(uploadId);
+      }
+      written += rows.length;
+      if (writer.pendingBytes > 0) yield* writer.take();
+      if (written - reported >= 50_000) {
+        reported = written;
+        await onProgress(written / total);
       }
     }
-    if (chunk) yield chunk;
+    yield* writer.finish();
   }
-  await pipeline(Readable.from(lines()), copy);
-  return { replaced };
+  await pipeline(Readable.from(chunks()), copy);
+  return stored;
 }
 
-/** COPY text format: backslash, tab and line breaks are escaped. */
-function copyText(value: string): string {
-  return value.replace(/\\/g, '\\\\').replace(/\t/g, '\\t').replace(/\n/g, '\\n').replace(/\r/g, '\\r');
+/** Bytes of a row apart from its period, run and comment texts: 12 field lengths and fixed-size fields. */
+const FIXED_ROW_BYTES = 12 * 4 + 16 * 4 + 4 + 8 + 8 + 8 + 64;
+
+/** The rules column (text[]) for every combination of RULE_BITS. */
+const RULES_BYTES: readonly Buffer[] = Array.from({ length: 64 }, (_, bits) =>
+  textArrayBytes(rulesOfBits(bits)),
+);
+
+/** Rows of each series of the buffer, in file order. */
+function rowsBySeries(buffer: ValuesBuffer): Int32Array[] {
+  const counts = new Int32Array(buffer.series.length);
+  for (let i = 0; i < buffer.length; i++) counts[buffer.seriesOf(i)] += 1;
+  const rows = Array.from(counts, (count) => new Int32Array(count));
+  const filled = new Int32Array(buffer.series.length);
+  for (let i = 0; i < buffer.length; i++) {
+    const s = buffer.seriesOf(i);
+    rows[s][filled[s]++] = i;
+  }
+  return rows;
+}
+
+function concatRows(parts: Int32Array[]): Int32Array {
+  if (parts.length === 1) return parts[0];
+  const all = new Int32Array(parts.reduce((sum, part) => sum + part.length, 0));
+  let offset = 0;
+  for (const part of parts) {
+    all.set(part, offset);
+    offset += part.length;
+  }
+  return all;
 }
 
 /**
+ * What storing a file did: how many summaries it replaced, and the peer statistics it changes. The
+ * caller requests their recompute at the end of the transaction: the request rows are shared by every
+ * lab of a peer group, so holding their locks while the values go in would make concurrent uploads
+ * wait for each other.
+ */
+export type Stored = { replaced: number; targets: PeerStatisticsTarget[] };
+
+/**
  * Replaces the lab's data for each key: earlier daily values of the key are removed, the summary is
- * inserted or updated (or removed when the new data has too few values for one), peer statistics are
- * requested for the key, and what was replaced is audited.
+ * inserted or updated (or removed when the new data has too few values for one), and what was
+ * replaced is audited.
  */
 async function replaceSummaries(
   ctx: StoreContext,
   summaries: readonly SummaryToStore[],
   source: 'summary' | 'values',
-): Promise<{ replaced: number }> {
+): Promise<Stored> {
   const { client, tx, upload } = ctx;
   const keys = {
     procedures: summaries.map((s) => s.procedureId),
@@ -178,7 +242,10 @@ async function replaceSummaries(
   const keyTable =
     'unnest($1::uuid[], $2::uuid[], $3::int[], $4::text[]) as k(procedure_id, control_lot_id, level, period)';
 
-  const previous = await client.query<{
+  // The summaries being replaced. Selected by procedure and lot (the leading columns of the unique key)
+  // and matched to the keys here: a join on all four columns lets the planner, with statistics lagging
+  // behind a burst of uploads, walk the (lot, level, period) index through every lab of the network.
+  const stored = await client.query<{
     procedure_id: string;
     control_lot_id: string;
     level: number;
@@ -186,13 +253,28 @@ async function replaceSummaries(
     upload_id: string | null;
   }>(
     `select s.procedure_id, s.control_lot_id, s.level, s.period, s.upload_id
-       from qc_summaries s join ${keyTable}
-         on s.procedure_id = k.procedure_id and s.control_lot_id = k.control_lot_id and s.level = k.level and s.period = k.period`,
-    keyArgs,
+       from qc_summaries s
+      where s.procedure_id = any($1::uuid[]) and s.control_lot_id = any($2::uuid[])`,
+    [[...new Set(keys.procedures)], [...new Set(keys.lots)]],
   );
+  const storedByKey = new Map(
+    stored.rows.map((r) => [summaryKey(r.procedure_id, r.control_lot_id, r.level, r.period), r]),
+  );
+  const previous = summaries.flatMap((s) => {
+    const row = storedByKey.get(summaryKey(s.procedureId, s.controlLotId, s.level, s.period));
+    return row ? [row] : [];
+  });
+  // Earlier values of the keys. Each key is looked up through the values index on its own (LATERAL with
+  // OFFSET 0 keeps it a nested loop): as one join, stale statistics can turn it into a scan of the whole
+  // table, and in a burst of uploads they are stale.
   const deletedValues = await client.query(
-    `delete from qc_values v using ${keyTable}
-      where v.procedure_id = k.procedure_id and v.control_lot_id = k.control_lot_id and v.level = k.level and v.period = k.period`,
+    `delete from qc_values where ctid = any(array(
+       select x.ctid from ${keyTable}
+        cross join lateral (
+          select v.ctid from qc_values v
+           where v.procedure_id = k.procedure_id and v.control_lot_id = k.control_lot_id and v.period = k.period
+             and v.level = k.level
+          offset 0) x))`,
     keyArgs,
   );
 
@@ -236,15 +318,7 @@ async function replaceSummaries(
     );
   }
 
-  const targets: PeerStatisticsTarget[] = summaries.map((s) => ({
-    controlLotId: s.controlLotId,
-    analyteId: s.analyteId,
-    level: s.level,
-    period: s.period,
-  }));
-  await requestPeerStatistics(tx, targets);
-
-  const replaced = previous.rows.length;
+  const replaced = previous.length;
   if (replaced > 0 || (deletedValues.rowCount ?? 0) > 0) {
     await recordAudit(tx, {
       kind: 'qc-data.replaced',
@@ -256,7 +330,7 @@ async function replaceSummaries(
         summariesReplaced: replaced,
         valuesRemoved: deletedValues.rowCount ?? 0,
         // Enough to trace what changed without flooding the log.
-        keys: previous.rows.slice(0, 200).map((r) => ({
+        keys: previous.slice(0, 200).map((r) => ({
           procedureId: r.procedure_id,
           controlLotId: r.control_lot_id,
           level: r.level,
@@ -266,8 +340,17 @@ async function replaceSummaries(
       },
     });
   }
-  return { replaced };
+  const targets: PeerStatisticsTarget[] = summaries.map((s) => ({
+    controlLotId: s.controlLotId,
+    analyteId: s.analyteId,
+    level: s.level,
+    period: s.period,
+  }));
+  return { replaced, targets };
 }
+
+const summaryKey = (procedureId: string, lotId: string, level: number, period: string) =>
+  `${procedureId}|${lotId}|${level}|${period}`;
 
 /**
  * Multirule targets for each procedure, lot and period of the buffer, per level: the lab's own figures
@@ -328,19 +411,28 @@ async function multiruleTargets(
 }
 
 async function historyRows(tx: Database, procedureIds: string[], lotIds: string[]) {
-  return tx
-    .select({
-      procedureId: qcSummaries.procedureId,
-      controlLotId: qcSummaries.controlLotId,
-      level: qcSummaries.level,
-      period: qcSummaries.period,
-      n: qcSummaries.n,
-      mean: qcSummaries.mean,
-      sd: qcSummaries.sd,
-    })
-    .from(qcSummaries)
-    .where(and(inArray(qcSummaries.procedureId, procedureIds), inArray(qcSummaries.controlLotId, lotIds)));
+  const result = await tx.execute<{
+    procedureId: string;
+    controlLotId: string;
+    level: number;
+    period: string;
+    n: number;
+    mean: number;
+    sd: number;
+  }>(sql`
+    select procedure_id as "procedureId", control_lot_id as "controlLotId", level, period, n, mean, sd
+      from qc_summaries
+     where procedure_id = any(${sql.param(procedureIds)}::uuid[]) and control_lot_id = any(${sql.param(lotIds)}::uuid[])`);
+  return result.rows;
 }
+
+type PeerFigures = {
+  peerGroupId: string;
+  level: number;
+  period: string;
+  mean: number | null;
+  sd: number | null;
+};
 
 /** The peers' latest lot-to-date figures before each series' period, at the narrowest sufficient tier. */
 async function peerTargets(
@@ -368,19 +460,14 @@ async function peerTargets(
       .map((i) => buffer.series[i].period.period)
       .sort()
       .at(-1)!;
-    const stats = await tx
-      .select()
-      .from(peerStatistics)
-      .where(
-        and(
-          inArray(peerStatistics.peerGroupId, groupIds),
-          eq(peerStatistics.scope, 'cumulative'),
-          eq(peerStatistics.version, 0),
-          eq(peerStatistics.sufficient, true),
-          lt(peerStatistics.period, latestPeriod),
-        ),
-      );
-    const statsByGroup = new Map<string, (typeof stats)[number][]>();
+    const stats = (
+      await tx.execute<PeerFigures>(sql`
+        select peer_group_id as "peerGroupId", level, period, mean, sd
+          from peer_statistics
+         where peer_group_id = any(${sql.param(groupIds)}::uuid[]) and scope = 'cumulative' and version = 0
+           and sufficient and period < ${latestPeriod}`)
+    ).rows;
+    const statsByGroup = new Map<string, PeerFigures[]>();
     for (const r of stats) {
       const list = statsByGroup.get(r.peerGroupId);
       if (list) list.push(r);

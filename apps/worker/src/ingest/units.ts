@@ -27,7 +27,11 @@ export function normalizeUnit(unit: string): string {
  */
 export class UnitConverter {
   private readonly valid = new Map<string, string | null>();
-  private readonly conversions = new Map<string, Conversion | { problem: string }>();
+  /** target unit → molar mass → source unit → conversion (nested, so a row costs no key string). */
+  private readonly conversions = new Map<
+    string,
+    Map<number | null, Map<string, Conversion | { problem: string }>>
+  >();
 
   /** Null when UCUM knows the unit, otherwise why not. */
   problemWithUnit(unit: string): string | null {
@@ -44,11 +48,21 @@ export class UnitConverter {
   }
 
   conversion(from: string, to: string, molarMass: number | null): Conversion | { problem: string } {
-    const key = `${from}\u0000${to}\u0000${molarMass ?? ''}`;
-    let found = this.conversions.get(key);
+    let byMolarMass = this.conversions.get(to);
+    if (!byMolarMass) {
+      byMolarMass = new Map();
+      this.conversions.set(to, byMolarMass);
+    }
+    const mass = molarMass ?? null;
+    let bySource = byMolarMass.get(mass);
+    if (!bySource) {
+      bySource = new Map();
+      byMolarMass.set(mass, bySource);
+    }
+    let found = bySource.get(from);
     if (!found) {
       found = this.compute(from, to, molarMass);
-      this.conversions.set(key, found);
+      bySource.set(from, found);
     }
     return found;
   }

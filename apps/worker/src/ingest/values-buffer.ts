@@ -34,7 +34,8 @@ class Column<T extends Float64Array | Int32Array> {
  */
 export class ValuesBuffer {
   readonly series: Series[] = [];
-  private readonly seriesIndex = new Map<string, number>();
+  /** Procedure id → indices into `series` of its series (a handful: levels × lots × periods). */
+  private readonly seriesOfProcedure = new Map<string, number[]>();
   private readonly runIndex = new Map<string, number>();
   private readonly runNames: string[] = [];
   private readonly seriesColumn = new Column(new Int32Array(1024));
@@ -48,13 +49,7 @@ export class ValuesBuffer {
   }
 
   add(row: ValueRow): void {
-    const key = seriesKey(row.procedure.id, row.lot.id, row.level, row.period.period);
-    let index = this.seriesIndex.get(key);
-    if (index === undefined) {
-      index = this.series.length;
-      this.series.push({ key, procedure: row.procedure, lot: row.lot, level: row.level, period: row.period });
-      this.seriesIndex.set(key, index);
-    }
+    const index = this.seriesIndexOf(row);
     const at = this.length;
     this.seriesColumn.push(index);
     this.measuredAtColumn.push(row.measuredAtMs);
@@ -70,6 +65,25 @@ export class ValuesBuffer {
     }
     this.runColumn.push(run);
     if (row.comment !== null) this.comments.set(at, row.comment);
+  }
+
+  /** The series of the row's procedure, lot, level and period, added when new. */
+  private seriesIndexOf(row: ValueRow): number {
+    let candidates = this.seriesOfProcedure.get(row.procedure.id);
+    if (candidates === undefined) {
+      candidates = [];
+      this.seriesOfProcedure.set(row.procedure.id, candidates);
+    }
+    for (const index of candidates) {
+      const s = this.series[index];
+      if (s.level === row.level && s.lot.id === row.lot.id && s.period.period === row.period.period)
+        return index;
+    }
+    const index = this.series.length;
+    const key = seriesKey(row.procedure.id, row.lot.id, row.level, row.period.period);
+    this.series.push({ key, procedure: row.procedure, lot: row.lot, level: row.level, period: row.period });
+    candidates.push(index);
+    return index;
   }
 
   /** Index into `series` of row i. */
@@ -91,6 +105,21 @@ export class ValuesBuffer {
   run(i: number): string | null {
     const run = this.runColumn.at(i);
     return run === -1 ? null : this.runNames[run];
+  }
+
+  /** Number of row i's run id among the distinct run ids (0, 1, …), or -1 when the row has none. */
+  runNumber(i: number): number {
+    return this.runColumn.at(i);
+  }
+
+  /** The run id with that number. */
+  runName(runNumber: number): string {
+    return this.runNames[runNumber];
+  }
+
+  /** The number of a run id, or -1 when no row has it. */
+  numberOfRun(name: string): number {
+    return this.runIndex.get(name) ?? -1;
   }
 }
 

@@ -6,15 +6,20 @@ import {
   suggestMapping,
   type RowError,
 } from '@plumbline/contracts';
-import { dbOnClient, recordAudit, type Database } from '@plumbline/db';
+import { dbOnClient, recordAudit, requestPeerStatistics, type Database } from '@plumbline/db';
 import type { FileSource } from '../storage/file-source.ts';
 import { FileFormatError, openCsv, type CsvRecord } from '../ingest/csv-reader.ts';
 import {
+  IssueFlag,
+  checkSummaryCells,
+  checkValueCells,
   rowErrorsOf,
   summaryRowSchema,
   valueRowSchema,
   type RowContext,
+  type SummaryCells,
   type SummaryRow,
+  type ValueCells,
 } from '../ingest/row-schemas.ts';
 import { UnitConverter } from '../ingest/units.ts';
 import { ValuesBuffer } from '../ingest/values-buffer.ts';
@@ -50,15 +55,18 @@ export async function processUpload(
   reportProgress: (progress: number) => Promise<void> = async () => {},
 ): Promise<IngestOutcome> {
   const log = deps.log ?? (() => {});
-  const upload = await repo.loadUpload(deps.db, uploadId);
-  if (!upload) return 'skipped';
-  if (upload.storedAt) return 'stored';
-  if (!(await repo.markProcessing(deps.db, uploadId))) return 'skipped';
+  const upload = await repo.claimUpload(deps.db, uploadId);
+  if (!upload) {
+    const current = await repo.loadUpload(deps.db, uploadId);
+    return current?.storedAt ? 'stored' : 'skipped';
+  }
 
-  let lastSaved = 0;
-  const progress = async (value: number, force = false) => {
+  // Progress is saved at most every 250 ms, the first time 250 ms after the start: a small file is
+  // stored before anyone could watch it move.
+  let lastSaved = Date.now();
+  const progress = async (value: number) => {
     const now = Date.now();
-    if (!force && now - lastSaved < 250) return;
+    if (now - lastSaved < 250) return;
     lastSaved = now;
     const clamped = Math.max(0, Math.min(1, value));
     await Promise.all([reportProgress(clamped), repo.saveProgress(deps.db, uploadId, clamped)]);
@@ -97,7 +105,7 @@ export async function processUpload(
     return 'failed';
   }
 
-  await progress(0.6, true);
+  await progress(0.6);
   const t1 = performance.now();
   const stored = await storeInOneTransaction(deps, upload, read, counts, (fraction) =>
     progress(0.6 + 0.4 * fraction),
@@ -125,7 +133,7 @@ async function readUpload(
   upload: repo.UploadRecord,
   onFraction: (fraction: number) => Promise<void>,
 ): Promise<ReadResult> {
-  const lookups = await repo.loadRowLookups(deps.db, upload.labId);
+  const lookups = await repo.loadRowLookups(deps.db, upload.labId, upload.kind);
   let source;
   try {
     source = await deps.files.open(upload.storageKey);
@@ -138,26 +146,31 @@ async function readUpload(
     });
   }
   let bytesRead = 0;
-  const csv = await openCsv(source, (n) => {
-    bytesRead += n;
-  });
-  const iterator = csv.records[Symbol.asyncIterator]();
-  const first = await iterator.next();
-  if (first.done) {
-    throw new FileFormatError({
-      row: 1,
-      column: null,
-      code: 'missing_column',
-      message: 'The file is empty: it has no header line.',
-    });
-  }
-  const headerLine = first.value as CsvRecord;
-  const headers = headerLine.cells.map((h) => h.trim());
-  const columns = resolveColumns(
-    upload,
-    headers,
-    await repo.savedColumnMapping(deps.db, upload.labId, upload.kind),
+  const csv = await openCsv(
+    source,
+    (n) => {
+      bytesRead += n;
+    },
+    () => deps.files.open(upload.storageKey),
   );
+  const batches = csv.batches[Symbol.asyncIterator]();
+  let batch: CsvRecord[] = [];
+  let next = 0;
+  while (next >= batch.length) {
+    const more = await batches.next();
+    if (more.done) {
+      throw new FileFormatError({
+        row: 1,
+        column: null,
+        code: 'missing_column',
+        message: 'The file is empty: it has no header line.',
+      });
+    }
+    batch = more.value;
+  }
+  const headerLine = batch[next++];
+  const headers = headerLine.cells.map((h) => h.trim());
+  const columns = resolveColumns(upload, headers, lookups.mapping);
 
   const context: RowContext = {
     decimalComma: allowsDecimalComma(csv.delimiter),
@@ -180,59 +193,118 @@ async function readUpload(
   const summaryLines = new Map<string, number>();
   const summarySchema = upload.kind === 'qc-summary' ? summaryRowSchema(context) : null;
   const valueSchema = upload.kind === 'qc-values' ? valueRowSchema(context) : null;
-  // Every canonical column, -1 when the file has none (an optional column left out).
-  const entries = canonicalColumns[upload.kind].map((c) => [c.name, columns.indexOf[c.name] ?? -1] as const);
+  // The file column of each canonical column, -1 when the file has none (an optional column left out).
+  const at = (name: string) => columns.indexOf[name] ?? -1;
+  const valueColumns = {
+    measured_at: at('measured_at'),
+    procedure: at('procedure'),
+    control_lot: at('control_lot'),
+    level: at('level'),
+    value: at('value'),
+    unit: at('unit'),
+    run: at('run'),
+    comment: at('comment'),
+  };
+  const summaryColumns = {
+    period: at('period'),
+    procedure: at('procedure'),
+    control_lot: at('control_lot'),
+    level: at('level'),
+    n: at('n'),
+    mean: at('mean'),
+    sd: at('sd'),
+    unit: at('unit'),
+  };
+  const issues = new IssueFlag();
 
   while (true) {
-    const next = await iterator.next();
-    if (next.done) break;
-    const { line, cells } = next.value as CsvRecord;
-    result.rowsTotal += 1;
-    if (result.rowsTotal % 2000 === 0) await onFraction(upload.size > 0 ? bytesRead / upload.size : 0);
+    for (; next < batch.length; next++) {
+      const { line, cells } = batch[next];
+      result.rowsTotal += 1;
 
-    const rowErrors: RowError[] = [];
-    if (cells.length > headers.length && cells.slice(headers.length).some((c) => c.trim() !== '')) {
-      rowErrors.push({
-        row: line,
-        column: null,
-        code: 'wrong_column_count',
-        message: `the line has ${cells.length} cells but the header has ${headers.length} columns`,
-      });
-    }
-    const raw: Record<string, string> = {};
-    for (const [canonical, index] of entries) raw[canonical] = index >= 0 ? (cells[index] ?? '') : '';
-
-    if (summarySchema) {
-      const parsed = summarySchema.safeParse(raw);
-      if (!parsed.success) rowErrors.push(...rowErrorsOf(parsed.error.issues, line, columns.headerOf));
-      else if (rowErrors.length === 0) {
-        const row = parsed.data;
-        const key = `${row.procedure.id}|${row.lot.id}|${row.level}|${row.period.period}`;
-        const earlier = summaryLines.get(key);
-        if (earlier !== undefined) {
-          rowErrors.push({
+      let rowErrors: RowError[] | null = null;
+      if (cells.length > headers.length && cells.slice(headers.length).some((c) => c.trim() !== '')) {
+        rowErrors = [
+          {
             row: line,
             column: null,
-            code: 'duplicate_row',
-            message: `line ${earlier} already gives ${row.procedure.code}, lot ${row.lot.lotNumber}, level ${row.level}, ${row.period.period}`,
-          });
-        } else {
-          summaryLines.set(key, line);
-          result.summaries.push(row);
+            code: 'wrong_column_count',
+            message: `the line has ${cells.length} cells but the header has ${headers.length} columns`,
+          },
+        ];
+      }
+
+      if (valueSchema) {
+        const raw: ValueCells = {
+          measured_at: cell(cells, valueColumns.measured_at),
+          procedure: cell(cells, valueColumns.procedure),
+          control_lot: cell(cells, valueColumns.control_lot),
+          level: cell(cells, valueColumns.level),
+          value: cell(cells, valueColumns.value),
+          unit: cell(cells, valueColumns.unit),
+          run: cell(cells, valueColumns.run),
+          comment: cell(cells, valueColumns.comment),
+        };
+        issues.failed = false;
+        const row = checkValueCells(raw, issues, context);
+        if (issues.failed) {
+          // The schema runs the same checks and says what is wrong.
+          const parsed = valueSchema.safeParse(raw);
+          if (!parsed.success) {
+            rowErrors ??= [];
+            rowErrors.push(...rowErrorsOf(parsed.error.issues, line, columns.headerOf));
+          }
+        } else if (rowErrors === null) result.values.add(row);
+      } else if (summarySchema) {
+        const raw: SummaryCells = {
+          period: cell(cells, summaryColumns.period),
+          procedure: cell(cells, summaryColumns.procedure),
+          control_lot: cell(cells, summaryColumns.control_lot),
+          level: cell(cells, summaryColumns.level),
+          n: cell(cells, summaryColumns.n),
+          mean: cell(cells, summaryColumns.mean),
+          sd: cell(cells, summaryColumns.sd),
+          unit: cell(cells, summaryColumns.unit),
+        };
+        issues.failed = false;
+        const row = checkSummaryCells(raw, issues, context);
+        if (issues.failed) {
+          const parsed = summarySchema.safeParse(raw);
+          if (!parsed.success) {
+            rowErrors ??= [];
+            rowErrors.push(...rowErrorsOf(parsed.error.issues, line, columns.headerOf));
+          }
+        } else if (rowErrors === null) {
+          const key = `${row.procedure.id}|${row.lot.id}|${row.level}|${row.period.period}`;
+          const earlier = summaryLines.get(key);
+          if (earlier !== undefined) {
+            rowErrors = [
+              {
+                row: line,
+                column: null,
+                code: 'duplicate_row',
+                message: `line ${earlier} already gives ${row.procedure.code}, lot ${row.lot.lotNumber}, level ${row.level}, ${row.period.period}`,
+              },
+            ];
+          } else {
+            summaryLines.set(key, line);
+            result.summaries.push(row);
+          }
         }
       }
-    } else if (valueSchema) {
-      const parsed = valueSchema.safeParse(raw);
-      if (!parsed.success) rowErrors.push(...rowErrorsOf(parsed.error.issues, line, columns.headerOf));
-      else if (rowErrors.length === 0) result.values.add(parsed.data);
-    }
 
-    if (rowErrors.length) {
-      result.rowsRejected += 1;
-      addErrors(rowErrors);
-    } else {
-      result.rowsAccepted += 1;
+      if (rowErrors) {
+        result.rowsRejected += 1;
+        addErrors(rowErrors);
+      } else {
+        result.rowsAccepted += 1;
+      }
     }
+    await onFraction(upload.size > 0 ? bytesRead / upload.size : 0);
+    const more = await batches.next();
+    if (more.done) break;
+    batch = more.value;
+    next = 0;
   }
   if (result.rowsTotal === 0) {
     throw new FileFormatError({
@@ -245,6 +317,9 @@ async function readUpload(
   await onFraction(1);
   return result;
 }
+
+/** The text of a cell; '' for a column the file does not have or a short line. */
+const cell = (cells: string[], index: number): string => (index >= 0 ? (cells[index] ?? '') : '');
 
 /**
  * Which file column holds each canonical column: the mapping sent with the upload, else the lab's saved
@@ -290,11 +365,22 @@ function resolveColumns(
   return { indexOf, headerOf: (canonical) => suggestion.mapping[canonical] ?? null };
 }
 
+/** A Drizzle handle per pooled connection, made once (making one walks the whole schema). */
+const drizzleHandles = new WeakMap<pg.PoolClient, Database>();
+function drizzleOn(client: pg.PoolClient): Database {
+  let handle = drizzleHandles.get(client);
+  if (!handle) {
+    handle = dbOnClient(client);
+    drizzleHandles.set(client, handle);
+  }
+  return handle;
+}
+
 /**
  * Writes the accepted rows, the upload's counts, its 'stored' status and the recompute requests in one
- * transaction: the file is stored whole or not at all. Just before COMMIT the upload row is locked and
- * checked, so two runs of the same upload (a duplicate job, a stalled one retried) cannot both store it,
- * and an upload cancelled meanwhile stores nothing. (The row is not locked earlier: progress updates
+ * transaction: the file is stored whole or not at all. After the rows are in, the upload row is locked
+ * and checked, so two runs of the same upload (a duplicate job, a stalled one retried) cannot both store
+ * it, and an upload cancelled meanwhile stores nothing. (The row is not locked earlier: progress updates
  * from outside the transaction keep writing to it while the rows go in.)
  */
 async function storeInOneTransaction(
@@ -308,7 +394,7 @@ async function storeInOneTransaction(
   let broken = false;
   try {
     await client.query('begin');
-    const tx = dbOnClient(client);
+    const tx = drizzleOn(client);
     const ctx: StoreContext = {
       tx,
       client,
@@ -317,25 +403,22 @@ async function storeInOneTransaction(
         ? { actorId: upload.uploadedBy, actorLabel: null }
         : { actorId: null, actorLabel: upload.tokenId ? `lab-token:${upload.tokenId}` : 'ingest-worker' },
     };
-    const { replaced } =
+    const { replaced, targets } =
       upload.kind === 'qc-summary'
         ? await storeSummaries(ctx, read.summaries)
         : await storeValues(ctx, read.values, onFraction);
 
-    const locked = await client.query<{ status: string; stored_at: Date | null }>(
-      'select status, stored_at from uploads where id = $1 for update',
-      [upload.id],
+    // The update locks the upload row and re-checks it after any concurrent change has committed.
+    const marked = await client.query(
+      `update uploads set status = 'stored', stored_at = now(), progress = 1, rows_total = $2, rows_accepted = $3,
+              rows_rejected = $4, errors = $5::jsonb, updated_at = now()
+        where id = $1 and status = 'processing' and stored_at is null`,
+      [upload.id, counts.rowsTotal, counts.rowsAccepted, counts.rowsRejected, JSON.stringify(read.errors)],
     );
-    const current = locked.rows[0];
-    if (!current || current.status !== 'processing' || current.stored_at) {
+    if (marked.rowCount !== 1) {
       await client.query('rollback');
       return false;
     }
-    await client.query(
-      `update uploads set status = 'stored', stored_at = now(), progress = 1, rows_total = $2, rows_accepted = $3,
-              rows_rejected = $4, errors = $5::jsonb, updated_at = now() where id = $1`,
-      [upload.id, counts.rowsTotal, counts.rowsAccepted, counts.rowsRejected, JSON.stringify(read.errors)],
-    );
     await recordAudit(tx, {
       kind: 'upload.stored',
       ...ctx.actor,
@@ -344,6 +427,8 @@ async function storeInOneTransaction(
       entityId: upload.id,
       details: { ...counts, replaced, confirmed: upload.confirmedAt !== null },
     });
+    // Last before COMMIT: these rows are shared with the other uploads of the peer groups.
+    await requestPeerStatistics(tx, targets);
     if (deps.holdBeforeCommitMs) await new Promise((resolve) => setTimeout(resolve, deps.holdBeforeCommitMs));
     await client.query('commit');
     return true;

@@ -1,7 +1,5 @@
-import { and, eq, inArray } from 'drizzle-orm';
-import { analytes, instrumentModels, methods, reagents } from '../schema/catalogue.ts';
-import { peerGroupAssignments, peerGroups } from '../schema/peer-groups.ts';
-import { procedures } from '../schema/procedures.ts';
+import { sql } from 'drizzle-orm';
+import { peerGroups } from '../schema/peer-groups.ts';
 import type { Executor } from '../client.ts';
 
 /** Narrowest first: same instrument model + method + reagent; same method; every procedure for the analyte. */
@@ -44,32 +42,34 @@ export async function loadPeerKeyParts(
   db: Executor,
   procedureIds: readonly string[],
 ): Promise<PeerKeyParts[]> {
+  // Plain SQL with the ids as one array parameter: the ingest worker calls this for every upload, and
+  // building the equivalent query with the query builder cost more than running it.
   const result: PeerKeyParts[] = [];
   for (let i = 0; i < procedureIds.length; i += 5000) {
     const chunk = procedureIds.slice(i, i + 5000);
-    result.push(
-      ...(await db
-        .select({
-          id: procedures.id,
-          analyteId: procedures.analyteId,
-          analyteName: analytes.name,
-          instrumentModelId: procedures.instrumentModelId,
-          instrumentModelName: instrumentModels.name,
-          methodId: procedures.methodId,
-          methodName: methods.name,
-          reagentId: procedures.reagentId,
-          reagentName: reagents.name,
-        })
-        .from(procedures)
-        .innerJoin(analytes, eq(analytes.id, procedures.analyteId))
-        .innerJoin(instrumentModels, eq(instrumentModels.id, procedures.instrumentModelId))
-        .innerJoin(methods, eq(methods.id, procedures.methodId))
-        .innerJoin(reagents, eq(reagents.id, procedures.reagentId))
-        .where(inArray(procedures.id, chunk))),
-    );
+    const rows = await db.execute<PeerKeyParts>(sql`
+      select p.id, p.analyte_id as "analyteId", a.name as "analyteName",
+             p.instrument_model_id as "instrumentModelId", im.name as "instrumentModelName",
+             p.method_id as "methodId", m.name as "methodName", p.reagent_id as "reagentId", r.name as "reagentName"
+        from procedures p
+        join analytes a on a.id = p.analyte_id
+        join instrument_models im on im.id = p.instrument_model_id
+        join methods m on m.id = p.method_id
+        join reagents r on r.id = p.reagent_id
+       where p.id = any(${sql.param(chunk)}::uuid[])`);
+    result.push(...rows.rows);
   }
   return result;
 }
+
+type GroupRow = {
+  id: string;
+  analyteId: string;
+  tier: PeerTierName;
+  key: string;
+  label: string;
+  mergedIntoId: string | null;
+};
 
 /**
  * Resolves each procedure's peer group at every tier for one control lot (each procedure within its
@@ -86,11 +86,13 @@ export async function resolvePeerMembership(
   if (parts.length === 0) return membership;
 
   const analyteIds = [...new Set(parts.map((p) => p.analyteId))];
-  const loadGroups = () =>
-    db
-      .select()
-      .from(peerGroups)
-      .where(and(eq(peerGroups.controlLotId, controlLotId), inArray(peerGroups.analyteId, analyteIds)));
+  const loadGroups = async () =>
+    (
+      await db.execute<GroupRow>(sql`
+        select id, analyte_id as "analyteId", tier, key, label, merged_into_id as "mergedIntoId"
+          from peer_groups
+         where control_lot_id = ${controlLotId} and analyte_id = any(${sql.param(analyteIds)}::uuid[])`)
+    ).rows;
   let groups = await loadGroups();
   let byKey = new Map(groups.map((g) => [`${g.analyteId}|${g.tier}|${g.key}`, g]));
 
@@ -125,10 +127,12 @@ export async function resolvePeerMembership(
   const byId = new Map(groups.map((g) => [g.id, g]));
 
   // A lot has few assignments: read them all rather than sending every procedure id.
-  const assignments = await db
-    .select()
-    .from(peerGroupAssignments)
-    .where(eq(peerGroupAssignments.controlLotId, controlLotId));
+  const assignments = (
+    await db.execute<{ procedureId: string; tier: PeerTierName; peerGroupId: string }>(sql`
+      select procedure_id as "procedureId", tier, peer_group_id as "peerGroupId"
+        from peer_group_assignments
+       where control_lot_id = ${controlLotId}`)
+  ).rows;
   const assigned = new Map(assignments.map((a) => [`${a.procedureId}|${a.tier}`, a.peerGroupId]));
 
   // Follow merges to the surviving group; a cycle (a data error) stops at the last group seen.

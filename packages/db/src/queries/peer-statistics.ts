@@ -23,27 +23,41 @@ export type PeerStatisticsSettings = {
 /** Only one recompute runs at a time across every worker: an advisory lock held for its transaction. */
 const RECOMPUTE_LOCK_KEY = 740_100_001;
 
-/** Adds targets to the recompute list; call it in the transaction that changes the QC data. */
+/**
+ * Adds targets to the recompute list; call it in the transaction that changes the QC data. The request
+ * rows are shared by every lab of a peer group: they are locked in key order, so two transactions
+ * adding overlapping targets wait for each other instead of deadlocking. (One statement with the
+ * targets as array parameters: it runs for every stored upload.)
+ */
 export async function requestPeerStatistics(
   db: Executor,
   targets: readonly PeerStatisticsTarget[],
 ): Promise<void> {
-  const unique = dedupeTargets(targets);
+  const unique = dedupeTargets(targets).sort(compareTargets);
   for (let i = 0; i < unique.length; i += 1000) {
-    await db
-      .insert(peerStatisticsRequests)
-      .values(unique.slice(i, i + 1000).map((t) => ({ ...t, requestedAt: sql`clock_timestamp()` })))
-      .onConflictDoUpdate({
-        target: [
-          peerStatisticsRequests.controlLotId,
-          peerStatisticsRequests.analyteId,
-          peerStatisticsRequests.level,
-          peerStatisticsRequests.period,
-        ],
-        set: { requestedAt: sql`clock_timestamp()` },
-      });
+    const batch = unique.slice(i, i + 1000);
+    await db.execute(sql`
+      insert into peer_statistics_requests (control_lot_id, analyte_id, level, period, requested_at)
+      select t.control_lot_id, t.analyte_id, t.level, t.period, clock_timestamp()
+        from unnest(${sql.param(batch.map((t) => t.controlLotId))}::uuid[],
+                    ${sql.param(batch.map((t) => t.analyteId))}::uuid[],
+                    ${sql.param(batch.map((t) => t.level))}::int[],
+                    ${sql.param(batch.map((t) => t.period))}::text[])
+          as t(control_lot_id, analyte_id, level, period)
+      on conflict (control_lot_id, analyte_id, level, period) do update set requested_at = clock_timestamp()`);
   }
 }
+
+const compareTargets = (a: PeerStatisticsTarget, b: PeerStatisticsTarget) =>
+  a.controlLotId < b.controlLotId
+    ? -1
+    : a.controlLotId > b.controlLotId
+      ? 1
+      : a.analyteId < b.analyteId
+        ? -1
+        : a.analyteId > b.analyteId
+          ? 1
+          : a.level - b.level || (a.period < b.period ? -1 : a.period > b.period ? 1 : 0);
 
 /**
  * Recomputes every requested target and removes the requests it served, waiting for a recompute that is
