@@ -5,10 +5,12 @@ import { pipeline } from 'node:stream/promises';
 import { sql } from 'drizzle-orm';
 import {
   PEER_TIERS,
-  loadPeerKeyParts,
+  membershipFromRows,
   recordAudit,
-  resolvePeerMembership,
   type Database,
+  type PeerAssignmentRow,
+  type PeerGroupRow,
+  type PeerKeyParts,
   type PeerStatisticsTarget,
 } from '@plumbline/db';
 import type { SummaryRow } from './row-schemas.ts';
@@ -232,94 +234,92 @@ async function replaceSummaries(
   source: 'summary' | 'values',
 ): Promise<Stored> {
   const { client, tx, upload } = ctx;
-  const keys = {
-    procedures: summaries.map((s) => s.procedureId),
-    lots: summaries.map((s) => s.controlLotId),
-    levels: summaries.map((s) => s.level),
-    periods: summaries.map((s) => s.period),
-  };
-  const keyArgs = [keys.procedures, keys.lots, keys.levels, keys.periods];
-  const keyTable =
-    'unnest($1::uuid[], $2::uuid[], $3::int[], $4::text[]) as k(procedure_id, control_lot_id, level, period)';
-
-  // The summaries being replaced. Selected by procedure and lot (the leading columns of the unique key)
-  // and matched to the keys here: a join on all four columns lets the planner, with statistics lagging
-  // behind a burst of uploads, walk the (lot, level, period) index through every lab of the network.
-  const stored = await client.query<{
-    procedure_id: string;
-    control_lot_id: string;
-    level: number;
-    period: string;
-    upload_id: string | null;
+  const withoutFigures = summaries.some((s) => s.figures === null);
+  // One statement (its parts see the data as it was before it): the summaries being replaced, the
+  // earlier values of the keys removed, summaries without figures removed, the others inserted or
+  // updated.
+  // - The summaries being replaced are selected by procedure and lot (the leading columns of the unique
+  //   key) and matched to the keys here: a join on all four columns lets the planner, with statistics
+  //   lagging behind a burst of uploads, walk the (lot, level, period) index through every lab.
+  // - Each key's values are looked up through the values index on its own (LATERAL with OFFSET 0 keeps
+  //   it a nested loop): as one join, stale statistics can turn it into a scan of the whole table.
+  const result = await client.query<{
+    earlier: {
+      procedure_id: string;
+      control_lot_id: string;
+      level: number;
+      period: string;
+      upload_id: string | null;
+    }[];
+    values_removed: number;
   }>(
-    `select s.procedure_id, s.control_lot_id, s.level, s.period, s.upload_id
-       from qc_summaries s
-      where s.procedure_id = any($1::uuid[]) and s.control_lot_id = any($2::uuid[])`,
-    [[...new Set(keys.procedures)], [...new Set(keys.lots)]],
-  );
-  const storedByKey = new Map(
-    stored.rows.map((r) => [summaryKey(r.procedure_id, r.control_lot_id, r.level, r.period), r]),
-  );
-  const previous = summaries.flatMap((s) => {
-    const row = storedByKey.get(summaryKey(s.procedureId, s.controlLotId, s.level, s.period));
-    return row ? [row] : [];
-  });
-  // Earlier values of the keys. Each key is looked up through the values index on its own (LATERAL with
-  // OFFSET 0 keeps it a nested loop): as one join, stale statistics can turn it into a scan of the whole
-  // table, and in a burst of uploads they are stale.
-  const deletedValues = await client.query(
-    `delete from qc_values where ctid = any(array(
-       select x.ctid from ${keyTable}
-        cross join lateral (
-          select v.ctid from qc_values v
-           where v.procedure_id = k.procedure_id and v.control_lot_id = k.control_lot_id and v.period = k.period
-             and v.level = k.level
-          offset 0) x))`,
-    keyArgs,
-  );
-
-  const withFigures = summaries.filter((s) => s.figures !== null);
-  const withoutFigures = summaries.filter((s) => s.figures === null);
-  if (withoutFigures.length) {
-    await client.query(
-      `delete from qc_summaries s using ${keyTable}
-        where s.procedure_id = k.procedure_id and s.control_lot_id = k.control_lot_id and s.level = k.level and s.period = k.period`,
-      [
-        withoutFigures.map((s) => s.procedureId),
-        withoutFigures.map((s) => s.controlLotId),
-        withoutFigures.map((s) => s.level),
-        withoutFigures.map((s) => s.period),
-      ],
-    );
-  }
-  for (let i = 0; i < withFigures.length; i += 2000) {
-    const batch = withFigures.slice(i, i + 2000);
-    await client.query(
-      `insert into qc_summaries (lab_id, procedure_id, control_lot_id, level, period, n, mean, sd, source, late, upload_id, updated_at)
+    `with k as (
+       select * from unnest($4::uuid[], $5::uuid[], $6::int[], $7::text[], $8::bool[], $9::int[], $10::float8[],
+                            $11::float8[], $12::bool[])
+         as k(procedure_id, control_lot_id, level, period, has_figures, n, mean, sd, late)
+     ),
+     earlier as (
+       select s.procedure_id, s.control_lot_id, s.level, s.period, s.upload_id
+         from qc_summaries s
+        where s.procedure_id = any($13::uuid[]) and s.control_lot_id = any($14::uuid[])
+     ),
+     removed_values as (
+       delete from qc_values where ctid = any(array(
+         select x.ctid from k
+          cross join lateral (
+            select v.ctid from qc_values v
+             where v.procedure_id = k.procedure_id and v.control_lot_id = k.control_lot_id and v.period = k.period
+               and v.level = k.level
+            offset 0) x))
+       returning 1
+     ),${
+       withoutFigures
+         ? `
+     removed_summaries as (
+       delete from qc_summaries s using k
+        where not k.has_figures and s.procedure_id = k.procedure_id and s.control_lot_id = k.control_lot_id
+          and s.level = k.level and s.period = k.period
+     ),`
+         : ''
+     }
+     stored as (
+       insert into qc_summaries (lab_id, procedure_id, control_lot_id, level, period, n, mean, sd, source, late, upload_id, updated_at)
        select $1::uuid, k.procedure_id, k.control_lot_id, k.level, k.period, k.n, k.mean, k.sd, $2, k.late, $3::uuid, now()
-         from unnest($4::uuid[], $5::uuid[], $6::int[], $7::text[], $8::int[], $9::float8[], $10::float8[], $11::bool[])
-           as k(procedure_id, control_lot_id, level, period, n, mean, sd, late)
+         from k where k.has_figures
        on conflict (procedure_id, control_lot_id, level, period) do update set
          lab_id = excluded.lab_id, n = excluded.n, mean = excluded.mean, sd = excluded.sd, source = excluded.source,
-         late = excluded.late, upload_id = excluded.upload_id, updated_at = excluded.updated_at`,
-      [
-        upload.labId,
-        source,
-        upload.id,
-        batch.map((s) => s.procedureId),
-        batch.map((s) => s.controlLotId),
-        batch.map((s) => s.level),
-        batch.map((s) => s.period),
-        batch.map((s) => s.figures!.n),
-        batch.map((s) => s.figures!.mean),
-        batch.map((s) => s.figures!.sd),
-        batch.map((s) => s.late),
-      ],
-    );
-  }
+         late = excluded.late, upload_id = excluded.upload_id, updated_at = excluded.updated_at
+     )
+     select (select coalesce(json_agg(earlier), '[]'::json) from earlier) as earlier,
+            (select count(*)::int from removed_values) as values_removed`,
+    [
+      upload.labId,
+      source,
+      upload.id,
+      summaries.map((s) => s.procedureId),
+      summaries.map((s) => s.controlLotId),
+      summaries.map((s) => s.level),
+      summaries.map((s) => s.period),
+      summaries.map((s) => s.figures !== null),
+      summaries.map((s) => s.figures?.n ?? null),
+      summaries.map((s) => s.figures?.mean ?? null),
+      summaries.map((s) => s.figures?.sd ?? null),
+      summaries.map((s) => s.late),
+      [...new Set(summaries.map((s) => s.procedureId))],
+      [...new Set(summaries.map((s) => s.controlLotId))],
+    ],
+  );
+  const { earlier, values_removed: valuesRemoved } = result.rows[0];
+  const earlierByKey = new Map(
+    earlier.map((r) => [summaryKey(r.procedure_id, r.control_lot_id, r.level, r.period), r]),
+  );
+  const previous = summaries.flatMap((s) => {
+    const row = earlierByKey.get(summaryKey(s.procedureId, s.controlLotId, s.level, s.period));
+    return row ? [row] : [];
+  });
 
   const replaced = previous.length;
-  if (replaced > 0 || (deletedValues.rowCount ?? 0) > 0) {
+  if (replaced > 0 || valuesRemoved > 0) {
     await recordAudit(tx, {
       kind: 'qc-data.replaced',
       ...ctx.actor,
@@ -328,7 +328,7 @@ async function replaceSummaries(
       entityId: upload.id,
       details: {
         summariesReplaced: replaced,
-        valuesRemoved: deletedValues.rowCount ?? 0,
+        valuesRemoved,
         // Enough to trace what changed without flooding the log.
         keys: previous.slice(0, 200).map((r) => ({
           procedureId: r.procedure_id,
@@ -434,6 +434,46 @@ type PeerFigures = {
   sd: number | null;
 };
 
+/**
+ * In one round trip, what peer targets of a lot need: the procedures' peer key parts, the lot's peer
+ * groups of their analytes and its assignments (for membershipFromRows, the rule of
+ * resolvePeerMembership), and the provisional lot-to-date figures of those groups before `beforePeriod`.
+ */
+async function peerRows(tx: Database, lotId: string, procedureIds: string[], beforePeriod: string) {
+  const result = await tx.execute<{
+    parts: PeerKeyParts[];
+    groups: PeerGroupRow[];
+    assignments: PeerAssignmentRow[];
+    stats: PeerFigures[];
+  }>(sql`
+    with analyte as (select distinct analyte_id from procedures where id = any(${sql.param(procedureIds)}::uuid[])),
+         peer_group as (
+           select id, analyte_id, tier, key, label, merged_into_id from peer_groups
+            where control_lot_id = ${lotId} and analyte_id in (select analyte_id from analyte))
+    select
+      (select coalesce(json_agg(json_build_object(
+                'id', p.id, 'analyteId', p.analyte_id, 'analyteName', a.name,
+                'instrumentModelId', p.instrument_model_id, 'instrumentModelName', im.name,
+                'methodId', p.method_id, 'methodName', m.name, 'reagentId', p.reagent_id, 'reagentName', r.name)), '[]'::json)
+         from procedures p
+         join analytes a on a.id = p.analyte_id
+         join instrument_models im on im.id = p.instrument_model_id
+         join methods m on m.id = p.method_id
+         join reagents r on r.id = p.reagent_id
+        where p.id = any(${sql.param(procedureIds)}::uuid[])) as parts,
+      (select coalesce(json_agg(json_build_object(
+                'id', id, 'analyteId', analyte_id, 'tier', tier, 'key', key, 'label', label, 'mergedIntoId', merged_into_id)), '[]'::json)
+         from peer_group) as groups,
+      (select coalesce(json_agg(json_build_object('procedureId', procedure_id, 'tier', tier, 'peerGroupId', peer_group_id)), '[]'::json)
+         from peer_group_assignments where control_lot_id = ${lotId}) as assignments,
+      (select coalesce(json_agg(json_build_object(
+                'peerGroupId', s.peer_group_id, 'level', s.level, 'period', s.period, 'mean', s.mean, 'sd', s.sd)), '[]'::json)
+         from peer_statistics s
+        where s.peer_group_id in (select id from peer_group) and s.scope = 'cumulative' and s.version = 0
+          and s.sufficient and s.period < ${beforePeriod}) as stats`);
+  return result.rows[0];
+}
+
 /** The peers' latest lot-to-date figures before each series' period, at the narrowest sufficient tier. */
 async function peerTargets(
   tx: Database,
@@ -450,23 +490,22 @@ async function peerTargets(
   }
   for (const indices of byLot.values()) {
     const first = buffer.series[indices[0]];
-    const parts = await loadPeerKeyParts(tx, [...new Set(indices.map((i) => buffer.series[i].procedure.id))]);
-    const membership = await resolvePeerMembership(tx, first.lot.id, parts, { create: false });
-    const groupIds = [
-      ...new Set([...membership.values()].flatMap((m) => Object.values(m).map((g) => g!.id))),
-    ];
-    if (groupIds.length === 0) continue;
     const latestPeriod = indices
       .map((i) => buffer.series[i].period.period)
       .sort()
       .at(-1)!;
-    const stats = (
-      await tx.execute<PeerFigures>(sql`
-        select peer_group_id as "peerGroupId", level, period, mean, sd
-          from peer_statistics
-         where peer_group_id = any(${sql.param(groupIds)}::uuid[]) and scope = 'cumulative' and version = 0
-           and sufficient and period < ${latestPeriod}`)
-    ).rows;
+    const {
+      parts,
+      groups: lotGroups,
+      assignments,
+      stats,
+    } = await peerRows(
+      tx,
+      first.lot.id,
+      [...new Set(indices.map((i) => buffer.series[i].procedure.id))],
+      latestPeriod,
+    );
+    const membership = membershipFromRows(parts, lotGroups, assignments);
     const statsByGroup = new Map<string, PeerFigures[]>();
     for (const r of stats) {
       const list = statsByGroup.get(r.peerGroupId);

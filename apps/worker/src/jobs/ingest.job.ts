@@ -393,7 +393,10 @@ async function storeInOneTransaction(
   const client = await deps.pool.connect();
   let broken = false;
   try {
-    await client.query('begin');
+    // No JIT compilation in this transaction: its statements touch a few rows each, but with statistics
+    // lagging behind a burst of uploads the planner can price them above jit_above_cost, and compiling
+    // then costs tens of milliseconds per statement.
+    await client.query('begin; set local jit = off');
     const tx = drizzleOn(client);
     const ctx: StoreContext = {
       tx,

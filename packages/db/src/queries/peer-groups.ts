@@ -37,6 +37,9 @@ function derivedLabel(tier: PeerTierName, p: PeerKeyParts): string {
   return `All procedures for ${p.analyteName}`;
 }
 
+/** A coordinator's assignment of a procedure to a group at a tier. */
+export type PeerAssignmentRow = { procedureId: string; tier: PeerTierName; peerGroupId: string };
+
 /** Procedures with what their peer group keys are made of, and the names for labels. */
 export async function loadPeerKeyParts(
   db: Executor,
@@ -62,7 +65,8 @@ export async function loadPeerKeyParts(
   return result;
 }
 
-type GroupRow = {
+/** A peer group as membership needs it. */
+export type PeerGroupRow = {
   id: string;
   analyteId: string;
   tier: PeerTierName;
@@ -82,21 +86,20 @@ export async function resolvePeerMembership(
   parts: readonly PeerKeyParts[],
   options: { create: boolean },
 ): Promise<PeerMembership> {
-  const membership: PeerMembership = new Map();
-  if (parts.length === 0) return membership;
+  if (parts.length === 0) return new Map();
 
   const analyteIds = [...new Set(parts.map((p) => p.analyteId))];
   const loadGroups = async () =>
     (
-      await db.execute<GroupRow>(sql`
+      await db.execute<PeerGroupRow>(sql`
         select id, analyte_id as "analyteId", tier, key, label, merged_into_id as "mergedIntoId"
           from peer_groups
          where control_lot_id = ${controlLotId} and analyte_id = any(${sql.param(analyteIds)}::uuid[])`)
     ).rows;
   let groups = await loadGroups();
-  let byKey = new Map(groups.map((g) => [`${g.analyteId}|${g.tier}|${g.key}`, g]));
 
   if (options.create) {
+    const byKey = new Map(groups.map((g) => [`${g.analyteId}|${g.tier}|${g.key}`, g]));
     // A group is made once, for a derived key that has none yet.
     const missing = new Map<string, { part: PeerKeyParts; tier: PeerTierName; key: string }>();
     for (const p of parts) {
@@ -121,22 +124,34 @@ export async function resolvePeerMembership(
           .onConflictDoNothing();
       }
       groups = await loadGroups();
-      byKey = new Map(groups.map((g) => [`${g.analyteId}|${g.tier}|${g.key}`, g]));
     }
   }
-  const byId = new Map(groups.map((g) => [g.id, g]));
-
   // A lot has few assignments: read them all rather than sending every procedure id.
   const assignments = (
-    await db.execute<{ procedureId: string; tier: PeerTierName; peerGroupId: string }>(sql`
+    await db.execute<PeerAssignmentRow>(sql`
       select procedure_id as "procedureId", tier, peer_group_id as "peerGroupId"
         from peer_group_assignments
        where control_lot_id = ${controlLotId}`)
   ).rows;
+  return membershipFromRows(parts, groups, assignments);
+}
+
+/**
+ * The membership rule of resolvePeerMembership on rows already read: `groups` must hold the lot's groups
+ * of the parts' analytes, `assignments` the lot's assignments.
+ */
+export function membershipFromRows(
+  parts: readonly PeerKeyParts[],
+  groups: readonly PeerGroupRow[],
+  assignments: readonly PeerAssignmentRow[],
+): PeerMembership {
+  const membership: PeerMembership = new Map();
+  const byKey = new Map(groups.map((g) => [`${g.analyteId}|${g.tier}|${g.key}`, g]));
+  const byId = new Map(groups.map((g) => [g.id, g]));
   const assigned = new Map(assignments.map((a) => [`${a.procedureId}|${a.tier}`, a.peerGroupId]));
 
   // Follow merges to the surviving group; a cycle (a data error) stops at the last group seen.
-  const surviving = (groupId: string): (typeof groups)[number] | undefined => {
+  const surviving = (groupId: string): PeerGroupRow | undefined => {
     let group = byId.get(groupId);
     for (let hops = 0; group?.mergedIntoId && hops < 20; hops++) {
       const next = byId.get(group.mergedIntoId);

@@ -346,9 +346,42 @@ async function recomputeLot(
         ),
       );
   }
-  for (let i = 0; i < rows.length; i += 500) {
-    await tx.insert(peerStatistics).values(rows.slice(i, i + 500));
+  // The rows as one JSON parameter: building a multi-row insert with the query builder cost more than
+  // the recompute itself once a network has a few hundred labs.
+  for (let i = 0; i < rows.length; i += 5000) {
+    await tx.execute(sql`
+      insert into peer_statistics (peer_group_id, level, period, scope, version, labs, n, mean, sd, cv, within_sd,
+                                   within_cv, robust_mean, robust_sd, sufficient, excluded, members)
+      select r.peer_group_id, r.level, r.period, r.scope, r.version, r.labs, r.n, r.mean, r.sd, r.cv, r.within_sd,
+             r.within_cv, r.robust_mean, r.robust_sd, r.sufficient, r.excluded, r.members
+        from jsonb_to_recordset(${JSON.stringify(rows.slice(i, i + 5000).map(statisticsRecord))}::jsonb)
+          as r(peer_group_id uuid, level int, period text, scope text, version int, labs int, n int, mean float8,
+               sd float8, cv float8, within_sd float8, within_cv float8, robust_mean float8, robust_sd float8,
+               sufficient boolean, excluded jsonb, members jsonb)`);
   }
+}
+
+/** A peer statistics row under its column names (finite numbers or null, so JSON carries them exactly). */
+function statisticsRecord(row: typeof peerStatistics.$inferInsert) {
+  return {
+    peer_group_id: row.peerGroupId,
+    level: row.level,
+    period: row.period,
+    scope: row.scope,
+    version: row.version,
+    labs: row.labs,
+    n: row.n,
+    mean: row.mean,
+    sd: row.sd,
+    cv: row.cv,
+    within_sd: row.withinSd,
+    within_cv: row.withinCv,
+    robust_mean: row.robustMean,
+    robust_sd: row.robustSd,
+    sufficient: row.sufficient,
+    excluded: row.excluded,
+    members: row.members,
+  };
 }
 
 /** Each procedure's to-date figures: its monthly summaries pooled (METHODS.md §1). */

@@ -37,28 +37,89 @@ export async function listUploads(db: Executor, labId: string | null, limit = 20
   return rows.map((r) => ({ ...r.upload, uploaderName: r.uploaderName }));
 }
 
-/** The latest earlier upload of the lab with the same content. */
-export async function findSameContent(
+/**
+ * The lab and the latest earlier upload of the lab with the same content, in one round trip (every
+ * upload asks); null when there is no such lab.
+ */
+export async function findLabAndSameContent(
   db: Executor,
   labId: string,
   sha256: string,
-): Promise<{ id: string; filename: string; status: UploadStatus; createdAt: Date } | null> {
-  const [row] = await db
-    .select({
-      id: uploads.id,
-      filename: uploads.filename,
-      status: uploads.status,
-      createdAt: uploads.createdAt,
-    })
-    .from(uploads)
-    .where(and(eq(uploads.labId, labId), eq(uploads.sha256, sha256)))
-    .orderBy(desc(uploads.createdAt))
-    .limit(1);
-  return row ?? null;
+): Promise<{
+  lab: { id: string; active: boolean };
+  earlier: { id: string; filename: string; status: UploadStatus; createdAt: Date } | null;
+} | null> {
+  const result = await db.execute<{
+    id: string;
+    active: boolean;
+    earlier_id: string | null;
+    earlier_filename: string | null;
+    earlier_status: UploadStatus | null;
+    earlier_created_at: Date | null;
+  }>(sql`
+    select l.id, l.active, u.id as earlier_id, u.filename as earlier_filename, u.status as earlier_status,
+           u.created_at as earlier_created_at
+      from labs l
+      left join lateral (
+        select id, filename, status, created_at from uploads
+         where lab_id = l.id and sha256 = ${sha256}
+         order by created_at desc limit 1) u on true
+     where l.id = ${labId}`);
+  const row = result.rows[0];
+  if (!row) return null;
+  return {
+    lab: { id: row.id, active: row.active },
+    earlier: row.earlier_id
+      ? {
+          id: row.earlier_id,
+          filename: row.earlier_filename!,
+          status: row.earlier_status!,
+          createdAt: new Date(row.earlier_created_at!),
+        }
+      : null,
+  };
 }
 
-export async function insertUpload(db: Executor, values: typeof uploads.$inferInsert): Promise<void> {
-  await db.insert(uploads).values(values);
+/**
+ * Records a received upload, the lab's column mapping when one came with it, and the audit event, in
+ * one statement (so together or not at all, in one round trip).
+ */
+export async function insertReceivedUpload(
+  db: Executor,
+  upload: {
+    id: string;
+    labId: string;
+    uploadedBy: string | null;
+    tokenId: string | null;
+    kind: UploadKind;
+    filename: string;
+    size: number;
+    sha256: string;
+    storageKey: string;
+    columnMapping: ColumnMapping | null;
+    duplicateOf: string | null;
+  },
+  audit: { actorId: string | null; actorLabel: string | null; details: Record<string, unknown> },
+): Promise<void> {
+  const mapping = upload.columnMapping ? JSON.stringify(upload.columnMapping) : null;
+  await db.execute(sql`
+    with received as (
+      insert into uploads (id, lab_id, uploaded_by, token_id, kind, filename, size, sha256, storage_key,
+                           column_mapping, duplicate_of)
+      values (${upload.id}, ${upload.labId}, ${upload.uploadedBy}, ${upload.tokenId}, ${upload.kind},
+              ${upload.filename}, ${upload.size}, ${upload.sha256}, ${upload.storageKey}, ${mapping}::jsonb,
+              ${upload.duplicateOf})
+      returning id, lab_id
+    ),
+    saved_mapping as (
+      insert into column_mappings (lab_id, kind, mapping)
+      select ${upload.labId}::uuid, ${upload.kind}::upload_kind, ${mapping}::jsonb where ${mapping}::jsonb is not null
+      on conflict (lab_id, kind) do update set mapping = excluded.mapping, updated_at = ${new Date().toISOString()}::timestamptz
+    )
+    insert into audit_events (actor_id, actor_label, lab_id, kind, entity, entity_id, details)
+    select ${audit.actorId}::uuid, ${audit.actorLabel}::text, lab_id, 'upload.received', 'upload', id::text,
+           ${JSON.stringify(audit.details)}::jsonb
+      from received`);
 }
 
 /** needs-review → queued for a second pass that stores the valid rows; null when the upload was not waiting. */

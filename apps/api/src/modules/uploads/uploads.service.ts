@@ -80,15 +80,19 @@ export async function receiveUpload(
   try {
     const fields = parseUploadFields(input.fields);
     const labId = uploadLabFor(principal, fields.labId);
-    const lab = UUID.test(labId) ? await repo.findLab(deps.db, labId) : null;
-    if (!lab) throw notFound('Lab');
-    if (!lab.active) throw conflict('This lab is deactivated and cannot upload data.');
+    const found = UUID.test(labId)
+      ? await repo.findLabAndSameContent(deps.db, labId, input.stored.sha256)
+      : null;
+    if (!found) throw notFound('Lab');
+    if (!found.lab.active) throw conflict('This lab is deactivated and cannot upload data.');
     if (input.stored.size === 0) throw badRequest(`The file "${input.filename}" is empty.`);
 
-    const earlier = await repo.findSameContent(deps.db, labId, input.stored.sha256);
+    const earlier = found.earlier;
     const actor = actorOf(principal);
-    await deps.db.transaction(async (tx) => {
-      await repo.insertUpload(tx, {
+    // The upload row, the lab's column mapping (when one was sent) and the audit event go in together.
+    await repo.insertReceivedUpload(
+      deps.db,
+      {
         id: input.uploadId,
         labId,
         uploadedBy: actor.actorId,
@@ -100,22 +104,17 @@ export async function receiveUpload(
         storageKey: input.stored.key,
         columnMapping: fields.mapping ?? null,
         duplicateOf: earlier?.id ?? null,
-      });
-      if (fields.mapping) await repo.saveColumnMapping(tx, labId, fields.kind, fields.mapping);
-      await recordAudit(tx, {
-        kind: 'upload.received',
+      },
+      {
         ...actor,
-        labId,
-        entity: 'upload',
-        entityId: input.uploadId,
         details: {
           kind: fields.kind,
           filename: input.filename,
           size: input.stored.size,
           sha256: input.stored.sha256,
         },
-      });
-    });
+      },
+    );
     await deps.ingestQueue.enqueue(input.uploadId, 'initial');
 
     if (!earlier) return { id: input.uploadId, status: 'queued' };

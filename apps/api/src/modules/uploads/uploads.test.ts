@@ -490,7 +490,9 @@ describe('signed-off months', () => {
       analyst.auth,
       summaryFile([`2026-02,GLU1,${catalogue.lot.lotNumber},1,20,5.5,0.1,mmol/L`]),
     );
-    expect((await waitFor(analyst.auth, first.body.id, ['stored', 'needs-review', 'failed'])).status).toBe('stored');
+    expect((await waitFor(analyst.auth, first.body.id, ['stored', 'needs-review', 'failed'])).status).toBe(
+      'stored',
+    );
     await t.db
       .insert(periodSignoffs)
       .values({ labId: lab.id, period: '2026-02', signedBy: supervisor.id, statement: 'Reviewed.' });
