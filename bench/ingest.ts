@@ -166,16 +166,14 @@ async function main() {
   for (let i = 0; i < procedureValues.length; i += 2000)
     await db.insert(procedures).values(procedureValues.slice(i, i + 2000));
   const tokens = labRows.map(() => newLabToken());
-  await db
-    .insert(labApiTokens)
-    .values(
-      labRows.map((lab, i) => ({
-        labId: lab.id,
-        name: 'bench',
-        prefix: tokens[i].prefix,
-        tokenHash: tokens[i].tokenHash,
-      })),
-    );
+  await db.insert(labApiTokens).values(
+    labRows.map((lab, i) => ({
+      labId: lab.id,
+      name: 'bench',
+      prefix: tokens[i].prefix,
+      tokenHash: tokens[i].tokenHash,
+    })),
+  );
 
   // The same rows as one file, for the COPY baseline.
   const combinedPath = join(storageDir, 'combined.csv');
