@@ -11,7 +11,7 @@
 //
 // Options: --labs=500 --workers=1 (worker processes) --concurrency=2 (jobs per worker) --keep (keep the
 // scratch database) --single (upload the same rows as one file of one lab instead of one file per lab).
-import { spawn } from 'node:child_process';
+import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import { createReadStream, createWriteStream, mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -22,6 +22,7 @@ import { performance } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
 import type { AddressInfo } from 'node:net';
 import { Redis } from 'ioredis';
+import pg from 'pg';
 import copyStreams from 'pg-copy-streams';
 import { sql } from 'drizzle-orm';
 import {
@@ -36,7 +37,7 @@ import {
   procedures,
   reagents,
 } from '@plumbline/db';
-import { createScratchDatabase } from '@plumbline/db/testing';
+import { createScratchDatabase, type ScratchDatabase } from '@plumbline/db/testing';
 import { createApp } from '../apps/api/src/app.ts';
 import { loadEnv } from '../apps/api/src/config/env.ts';
 import { LocalFileStorage } from '../apps/api/src/storage/local-storage.ts';
@@ -98,14 +99,86 @@ function labFile(labIndex: number, lotNumber: string, withHeader: boolean): stri
   return lines.join('\n') + '\n';
 }
 
+/**
+ * What the run set up (scratch database, storage, queue keys, server, worker processes), undone in
+ * reverse order however the run ends: normally, on an error, or on Ctrl-C / `timeout`. Without it a
+ * failed run left its worker process running (connected to the scratch database, possibly in the
+ * middle of a COPY) and the scratch database behind.
+ */
+const cleanups: (() => unknown)[] = [];
+let cleaning: Promise<void> | null = null;
+function cleanUp(): Promise<void> {
+  cleaning ??= (async () => {
+    for (const undo of cleanups.reverse()) {
+      try {
+        await undo();
+      } catch (error) {
+        log(`cleanup: ${(error as Error).message}`);
+      }
+    }
+  })();
+  return cleaning;
+}
+// `on`, not `once`: under `timeout` or Ctrl-C the signal can arrive twice (to the process group and
+// relayed by tsx), and without a listener the second one would end the process in the middle of cleaning up.
+for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+  process.on(signal, () => {
+    if (cleaning) return;
+    log(`${signal} received: cleaning up`);
+    void cleanUp().finally(() => process.exit(130));
+  });
+}
+
+const sleep = (ms: number) => new Promise<void>((resolve) => setTimeout(resolve, ms));
+
+/** Stops a worker process: SIGTERM (it finishes running jobs, up to 30 s), then SIGKILL. */
+async function stopProcess(child: ChildProcess): Promise<void> {
+  if (child.exitCode !== null || child.signalCode !== null) return;
+  const exited = once(child, 'exit');
+  child.kill('SIGTERM');
+  if ((await Promise.race([exited.then(() => true), sleep(35_000).then(() => false)])) === false) {
+    child.kill('SIGKILL');
+    await exited;
+  }
+}
+
+/** Drops the scratch database; if its pool does not close in time (a stuck query), drops it by force. */
+async function dropScratch(scratch: ScratchDatabase): Promise<void> {
+  const dropped = scratch.drop().then(() => true);
+  if (await Promise.race([dropped, sleep(15_000).then(() => false)])) return;
+  const url = new URL(scratch.url);
+  const name = url.pathname.slice(1);
+  url.pathname = '/postgres';
+  const admin = new pg.Client({ connectionString: url.toString() });
+  await admin.connect();
+  try {
+    await admin.query(`drop database if exists "${name}" with (force)`);
+  } finally {
+    await admin.end();
+  }
+}
+
 async function main() {
   log(`setting up a scratch database with ${LAB_COUNT} labs × ${ANALYTES} procedures`);
   const scratch = await createScratchDatabase('bench');
+  scratch.pool.on('error', () => {}); // dropping the database at the end ends its connections
+  cleanups.push(() =>
+    args.has('keep') ? log(`scratch database kept: ${scratch.url}`) : dropScratch(scratch),
+  );
   const storageDir = mkdtempSync(join(tmpdir(), 'plumbline-bench-'));
+  cleanups.push(() => rmSync(storageDir, { recursive: true, force: true }));
   const queuePrefix = `plumbline-bench-${randomBytes(4).toString('hex')}`;
   const redis = new Redis(REDIS_URL, { maxRetriesPerRequest: null });
+  cleanups.push(async () => {
+    let cursor = '0';
+    do {
+      const [next, keys] = await redis.scan(cursor, 'MATCH', `${queuePrefix}:*`, 'COUNT', 500);
+      if (keys.length) await redis.del(...keys);
+      cursor = next;
+    } while (cursor !== '0');
+    redis.disconnect();
+  });
   const db = scratch.db;
-  scratch.pool.on('error', () => {}); // dropping the database at the end ends its connections
 
   // Catalogue: invented names; one control lot with two levels.
   const [material] = await db
@@ -198,8 +271,13 @@ async function main() {
     S3_BUCKET: '',
   });
   const ingestQueue = createIngestQueue(redis, queuePrefix);
+  cleanups.push(() => ingestQueue.close());
   const app = createApp({ env, db, redis, storage: new LocalFileStorage(env.STORAGE_DIR), ingestQueue });
   const server = app.listen(0, '127.0.0.1');
+  cleanups.push(() => {
+    server.closeAllConnections();
+    server.close();
+  });
   await once(server, 'listening');
   const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 
@@ -233,6 +311,8 @@ async function main() {
     });
     return state;
   });
+  // Registered before anything can fail, so the processes never outlive the run.
+  cleanups.push(() => Promise.all(workers.map((w) => stopProcess(w.child))));
   const workerOutput = () => workers.map((w) => w.output).join('\n');
   for (const w of workers) {
     while (!/worker: ready/.test(w.output)) {
@@ -289,6 +369,8 @@ async function main() {
     );
     const { stored, failed, pending } = rows[0];
     if (failed > 0) throw new Error(`${failed} upload(s) did not store:\n${workerOutput()}`);
+    if (workers.some((w) => w.child.exitCode !== null || w.child.signalCode !== null))
+      throw new Error(`a worker process exited during the run:\n${workerOutput()}`);
     if (stored === fileCount && !storedAt) storedAt = performance.now();
     if (stored === fileCount && pending === 0) break;
     await new Promise((r) => setTimeout(r, 100));
@@ -320,13 +402,19 @@ async function main() {
     .query(`create table bench_copy (measured_at timestamptz, procedure text, control_lot text, level int,
     value double precision, unit text, run text, comment text)`);
   const client = await scratch.pool.connect();
-  const copyStarted = performance.now();
-  await pipeline(
-    createReadStream(combinedPath),
-    client.query(copyStreams.from('COPY bench_copy FROM STDIN WITH (FORMAT csv, HEADER true)')),
-  );
-  const copyMs = performance.now() - copyStarted;
-  client.release();
+  let copyMs: number;
+  try {
+    const copyStarted = performance.now();
+    await pipeline(
+      createReadStream(combinedPath),
+      client.query(copyStreams.from('COPY bench_copy FROM STDIN WITH (FORMAT csv, HEADER true)')),
+    );
+    copyMs = performance.now() - copyStarted;
+    client.release();
+  } catch (error) {
+    client.release(error as Error); // the connection is closed: a COPY cut short must not stay open
+    throw error;
+  }
   const [{ n: copied }] = (
     await scratch.pool.query<{ n: number }>('select count(*)::int as n from bench_copy')
   ).rows;
@@ -351,23 +439,10 @@ async function main() {
     `  worker CPU time                    ${cpuSeconds.map((c) => `${c.toFixed(1)} s`).join(' + ')}`,
   );
   console.log('');
-
-  for (const w of workers) {
-    w.child.kill('SIGTERM');
-    await once(w.child, 'exit');
-  }
-  server.close();
-  await ingestQueue.close();
-  let cursor = '0';
-  do {
-    const [next, keys] = await redis.scan(cursor, 'MATCH', `${queuePrefix}:*`, 'COUNT', 500);
-    if (keys.length) await redis.del(...keys);
-    cursor = next;
-  } while (cursor !== '0');
-  redis.disconnect();
-  rmSync(storageDir, { recursive: true, force: true });
-  if (args.has('keep')) log(`scratch database kept: ${scratch.url}`);
-  else await scratch.drop();
 }
 
-await main();
+try {
+  await main();
+} finally {
+  await cleanUp();
+}

@@ -40,17 +40,20 @@ function int32s(...values: number[]): Buffer {
 /**
  * Writes binary COPY rows into 1 MB chunks. Start each row with `row(fieldCount, maxBytes)`, then write
  * exactly that many fields; `take()` hands over the chunks filled so far, `finish()` adds the trailer.
+ * (A DataView over each chunk: its setters cost a fraction of Buffer's checked write methods.)
  */
 export class BinaryCopyWriter {
   private buffer = Buffer.allocUnsafe(CHUNK_BYTES);
+  private view = new DataView(this.buffer.buffer, this.buffer.byteOffset, this.buffer.length);
   private offset = 0;
   private full: Buffer[] = [];
 
   constructor() {
     SIGNATURE.copy(this.buffer, 0);
     this.offset = SIGNATURE.length;
-    this.offset = this.buffer.writeInt32BE(0, this.offset); // flags
-    this.offset = this.buffer.writeInt32BE(0, this.offset); // header extension length
+    this.view.setInt32(this.offset, 0); // flags
+    this.view.setInt32(this.offset + 4, 0); // header extension length
+    this.offset += 8;
   }
 
   /** Bytes waiting in full chunks. */
@@ -62,42 +65,53 @@ export class BinaryCopyWriter {
 
   row(fieldCount: number, maxBytes: number): void {
     this.reserve(2 + maxBytes);
-    this.offset = this.buffer.writeInt16BE(fieldCount, this.offset);
+    this.view.setInt16(this.offset, fieldCount);
+    this.offset += 2;
   }
 
   null(): void {
-    this.offset = this.buffer.writeInt32BE(-1, this.offset);
+    this.view.setInt32(this.offset, -1);
+    this.offset += 4;
   }
 
-  bytes(value: Buffer): void {
-    this.offset = this.buffer.writeInt32BE(value.length, this.offset);
-    this.offset += value.copy(this.buffer, this.offset);
+  bytes(value: Uint8Array): void {
+    this.view.setInt32(this.offset, value.length);
+    this.offset += 4;
+    if (value.length <= 32) {
+      for (let k = 0; k < value.length; k++) this.buffer[this.offset + k] = value[k];
+    } else {
+      this.buffer.set(value, this.offset);
+    }
+    this.offset += value.length;
   }
 
   text(value: string): void {
     const length = this.buffer.write(value, this.offset + 4, 'utf8');
-    this.offset = this.buffer.writeInt32BE(length, this.offset);
-    this.offset += length;
+    this.view.setInt32(this.offset, length);
+    this.offset += 4 + length;
   }
 
   int4(value: number): void {
-    this.offset = this.buffer.writeInt32BE(4, this.offset);
-    this.offset = this.buffer.writeInt32BE(value, this.offset);
+    this.view.setInt32(this.offset, 4);
+    this.view.setInt32(this.offset + 4, value);
+    this.offset += 8;
   }
 
   float8(value: number): void {
-    this.offset = this.buffer.writeInt32BE(8, this.offset);
+    this.view.setInt32(this.offset, 8);
     // -0 is stored as 0, as the text format wrote it.
-    this.offset = this.buffer.writeDoubleBE(value === 0 ? 0 : value, this.offset);
+    this.view.setFloat64(this.offset + 4, value === 0 ? 0 : value);
+    this.offset += 12;
   }
 
   /** A timestamptz from Unix milliseconds (whole milliseconds, as parsed). */
   timestamptz(ms: number): void {
     const micros = (ms - POSTGRES_EPOCH_MS) * 1000;
     const high = Math.floor(micros / TWO_TO_32);
-    this.offset = this.buffer.writeInt32BE(8, this.offset);
-    this.offset = this.buffer.writeInt32BE(high, this.offset);
-    this.offset = this.buffer.writeUInt32BE(micros - high * TWO_TO_32, this.offset);
+    this.view.setInt32(this.offset, 8);
+    this.view.setInt32(this.offset + 4, high);
+    this.view.setUint32(this.offset + 8, micros - high * TWO_TO_32);
+    this.offset += 12;
   }
 
   /** The chunks filled so far. */
@@ -110,9 +124,11 @@ export class BinaryCopyWriter {
   /** The trailer, then every remaining chunk. */
   finish(): Buffer[] {
     this.reserve(2);
-    this.offset = this.buffer.writeInt16BE(-1, this.offset);
+    this.view.setInt16(this.offset, -1);
+    this.offset += 2;
     this.full.push(this.buffer.subarray(0, this.offset));
     this.buffer = Buffer.alloc(0);
+    this.view = new DataView(this.buffer.buffer, this.buffer.byteOffset, 0);
     this.offset = 0;
     return this.take();
   }
@@ -121,6 +137,7 @@ export class BinaryCopyWriter {
     if (this.offset + bytes <= this.buffer.length) return;
     if (this.offset > 0) this.full.push(this.buffer.subarray(0, this.offset));
     this.buffer = Buffer.allocUnsafe(Math.max(CHUNK_BYTES, bytes));
+    this.view = new DataView(this.buffer.buffer, this.buffer.byteOffset, this.buffer.length);
     this.offset = 0;
   }
 }
