@@ -1,4 +1,5 @@
 import {
+  boolean,
   date,
   doublePrecision,
   integer,
@@ -21,10 +22,23 @@ export const analytes = pgTable('analytes', {
   /** g/mol, for mass <-> substance conversions. */
   molarMass: doublePrecision(),
   decimals: integer().notNull().default(2),
-  /** Total allowable error in percent, with where it comes from. */
+  /**
+   * Total allowable error as published rules state it: "± teaAbsolute (in `unit`) or ± teaPct %,
+   * whichever is greater" at the control's concentration. Either part may be absent.
+   */
   teaPct: doublePrecision(),
+  teaAbsolute: doublePrecision(),
   teaSource: text(),
   teaDate: date(),
+  /**
+   * Physiological/analytical plausibility limits in `unit`: a value outside them is a row error at
+   * ingest. `plausibilitySource` names the source, or says "common practice".
+   */
+  plausibleLow: doublePrecision(),
+  plausibleHigh: doublePrecision(),
+  plausibilitySource: text(),
+  /** Whether a result can be below zero (e.g. base excess); when false, a mean must be > 0. */
+  allowsNegative: boolean().notNull().default(false),
   retiredAt: timestamp({ withTimezone: true }),
 });
 
