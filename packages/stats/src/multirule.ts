@@ -32,7 +32,9 @@ export interface MultiruleResult {
 /**
  * Multirule evaluation of control values against target means and SDs (Levey-Jennings).
  * z = (value − target mean) / target SD; "beyond" is strict (a value exactly at 2s does not
- * violate). Rules:
+ * violate), and a value within a relative 1e-9 of a limit (0, ±1s, ±2s, ±3s) is taken as on it,
+ * with z set to that whole number, so decimal inputs are not pushed beyond by binary rounding.
+ * Rules:
  * - 1-2s (warning): |z| > 2. 1-3s: |z| > 3.
  * - 2-2s: two points beyond the same 2s limit — two points of different levels in one run,
  *   or two consecutive points of one level (across runs).
@@ -85,7 +87,7 @@ export function evaluateMultirule(
       }
       checkedTargets.set(point.level, target);
     }
-    z[i] = (point.value - target.mean) / target.sd;
+    z[i] = zScore(point.value, target.mean, target.sd);
   }
 
   // Runs in order of first appearance, as [start, end) index ranges; a run's points must be
@@ -192,6 +194,29 @@ export function evaluateMultirule(
     runs[r] = { run: runNames[r], verdict, rules: list };
   }
   return { points: evaluated, runs };
+}
+
+/**
+ * Relative tolerance of the limit comparison. Control values and targets are decimal numbers that
+ * binary floating point cannot hold exactly: with mean 4.1 and SD 0.15, the value 4.4 lies exactly
+ * at +2 SD, yet (4.4 − 4.1) / 0.15 computes to 2.0000000000000018. A value within this fraction
+ * of the magnitudes involved from a limit counts as on the limit (far below any reported digit).
+ */
+export const MULTIRULE_LIMIT_TOLERANCE = 1e-9;
+
+/**
+ * z = (value − mean) / sd, snapped to the whole number k in −3…3 when value − mean differs from
+ * k · sd by no more than the tolerance relative to max(|value|, |mean|, |k · sd|), so that a value
+ * on a limit written in decimal is on it and not beyond it by rounding.
+ */
+function zScore(value: number, mean: number, sd: number): number {
+  const difference = value - mean;
+  const z = difference / sd;
+  const k = Math.round(z);
+  if (Math.abs(k) > 3) return z;
+  const scale = Math.max(Math.abs(value), Math.abs(mean), Math.abs(k * sd));
+  if (Math.abs(difference - k * sd) > MULTIRULE_LIMIT_TOLERANCE * scale) return z;
+  return k === 0 ? 0 : k; // never -0
 }
 
 /** One bit per rule, in reporting order. */

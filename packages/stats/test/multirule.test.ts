@@ -159,4 +159,41 @@ describe('evaluateMultirule', () => {
       "evaluateMultirule: run 'a' appears again at point 2",
     );
   });
+
+  describe('limits written in decimal (values and targets as laboratories report them)', () => {
+    // Definitions of Westgard et al. 1981 ("beyond" a limit is strict); the decimal figures are
+    // invented. In binary floating point (4.4 − 4.1) / 0.15 = 2.0000000000000018 and
+    // (4.25 − 4.1) / 0.15 = 1.0000000000000024, so these values sit exactly on the limit only
+    // when the comparison allows for rounding.
+    const decimalTargets = { 1: { mean: 4.1, sd: 0.15 } };
+    const run = (values: number[]) =>
+      evaluateMultirule(
+        values.map((value, i) => ({ run: `r${i + 1}`, level: 1, value })),
+        decimalTargets,
+      );
+
+    it('when a value is exactly +2 SD or −2 SD in decimal (mean 4.1, SD 0.15, value 4.4 or 3.8), then it is on the limit: z = ±2 and no 1-2s', () => {
+      const result = run([4.4, 3.8]);
+      expect(result.points.map((p) => p.z)).toEqual([2, -2]);
+      expect(result.runs.map((r) => r.verdict)).toEqual(['accept', 'accept']);
+    });
+
+    it('when a value is exactly +3 SD in decimal (4.55), then 1-3s does not reject', () => {
+      expect(run([4.55]).runs[0].rules).not.toContain('1-3s');
+    });
+
+    it('when four consecutive values are exactly +1 SD in decimal (4.25), then 4-1s is not violated', () => {
+      expect(run([4.25, 4.25, 4.25, 4.25]).runs.map((r) => r.verdict)).toEqual([
+        'accept',
+        'accept',
+        'accept',
+        'accept',
+      ]);
+    });
+
+    it('when a value lies just beyond a limit (4.4001, i.e. one more reported digit), then it still violates', () => {
+      expect(run([4.4001]).runs[0]).toMatchObject({ verdict: 'warn', rules: ['1-2s'] });
+      expect(run([4.2501, 4.2501, 4.2501, 4.2501]).runs[3].rules).toEqual(['4-1s']);
+    });
+  });
 });

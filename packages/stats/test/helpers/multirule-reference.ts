@@ -27,7 +27,7 @@ export function evaluateMultiruleReference(
     if (!(Number.isFinite(target.sd) && target.sd > 0)) {
       fail(fn, `target sd of level ${point.level} must be greater than 0, got ${target.sd}`);
     }
-    return { ...point, z: (point.value - target.mean) / target.sd, rules: [] };
+    return { ...point, z: onLimitOr(point.value, target.mean, target.sd), rules: [] };
   });
 
   // Runs in order of first appearance; a run's points must be contiguous (chronological input).
@@ -101,4 +101,14 @@ export function evaluateMultiruleReference(
     return { run, verdict, rules: list };
   });
   return { points: evaluated, runs };
+}
+
+/** z, or the limit k (0, ±1, ±2, ±3) when value lies on mean + k·sd within a relative 1e-9 (decimal inputs). */
+function onLimitOr(value: number, mean: number, sd: number): number {
+  for (const k of [0, 1, -1, 2, -2, 3, -3]) {
+    const limit = mean + k * sd;
+    const scale = Math.max(Math.abs(value), Math.abs(mean), Math.abs(k * sd));
+    if (Math.abs(value - limit) <= 1e-9 * scale) return k;
+  }
+  return (value - mean) / sd;
 }
