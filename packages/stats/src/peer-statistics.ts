@@ -1,4 +1,4 @@
-import { algorithmA } from './robust-mean-sd.ts';
+import { algorithmA, algorithmAStart } from './robust-mean-sd.ts';
 import { pool } from './pool.ts';
 import { checkInteger, fail } from './validate.ts';
 
@@ -53,6 +53,12 @@ export interface PeerStatistics {
 
 export const DEFAULT_MIN_LABS = 3;
 export const DEFAULT_MIN_LABS_FOR_SCREENING = 5;
+/**
+ * In groups of 3 to minLabsForScreening − 1 labs, a lab mean further than this many scale units
+ * from the median of the lab means is a gross error (e.g. a unit or decimal-point mistake) and is
+ * left out; the scale is the larger of Algorithm A's start s* and the median within-lab SD.
+ */
+export const GROSS_ERROR_FACTOR = 10;
 
 /**
  * Peer-group statistics from member labs' summaries (METHODS.md §2).
@@ -60,18 +66,23 @@ export const DEFAULT_MIN_LABS_FOR_SCREENING = 5;
  * 1. Labs in `excludeIds` are left out with reason 'manual'.
  * 2. Algorithm A (ISO 13528) gives the robust mean x* and robust SD s* of the remaining lab
  *    means; a lab whose mean lies strictly outside x* ± 3s* is left out with reason 'outlier'.
- *    The screen runs only with at least `minLabsForScreening` labs (default 5: with 4 labs, one
- *    far lab breaks Algorithm A down to the plain mean and SD), only when s* > 0 and only when
- *    Algorithm A converged.
+ *    This screen runs only with at least `minLabsForScreening` labs (default 5: with 4 labs, one
+ *    far lab breaks Algorithm A down to the plain mean and SD), only when s* > 0 (s* falls back to
+ *    the mean-absolute-deviation scale when more than half the means are equal, see
+ *    robustMeanSd) and only when Algorithm A converged. With 3 labs up to that minimum, a
+ *    gross-error screen runs instead (median ± GROSS_ERROR_FACTOR · scale, see below) before
+ *    Algorithm A, so one absurd mean cannot carry the figures to infinity.
  * 3. Peer mean = Σnᵢx̄ᵢ / Σnᵢ; peer SD = total SD by the pooling formula (within-lab plus
  *    between-lab); pooled within-lab SD and CV; `sufficient` = at least `minLabs` labs remain.
- * With one lab remaining, robustSd is NaN; with none, every figure is NaN.
+ * With one lab remaining, robustSd is NaN; with none, every figure is NaN; the CVs are NaN when
+ * the peer mean is 0. No figure is ever ±Infinity: that throws, naming the figure.
  *
  * Source: ISO 13528:2015 Annex C.3 (Algorithm A); the x* ± 3s* limit mirrors the standard's
  * |z| > 3 action signal (METHODS.md §2); pooling as in {@link pool}.
  *
  * @throws {Error} when `labs` is empty, an id is empty or repeated, a lab has n < 2, a non-finite
- *   mean, a negative or non-finite SD, or the options are invalid.
+ *   mean, a negative or non-finite SD, the options are invalid, or a figure would not be finite
+ *   (e.g. two labs whose means are too far apart for their squares to be held).
  * @example
  * peerStatistics([
  *   { id: 'a', n: 20, mean: 5.0, sd: 0.1 }, { id: 'b', n: 20, mean: 5.1, sd: 0.1 },
@@ -114,41 +125,92 @@ export function peerStatistics(
   let robustMean = Number.NaN;
   let robustSd = Number.NaN;
   let kept = candidates;
-  if (candidates.length === 1) {
-    robustMean = candidates[0].mean;
-  } else if (candidates.length >= 2) {
-    const means = new Float64Array(candidates.length);
-    for (let i = 0; i < candidates.length; i++) means[i] = candidates[i].mean;
+  if (candidates.length >= 3 && candidates.length < minLabsForScreening) {
+    kept = screenGrossErrors(candidates, excluded);
+  }
+  if (kept.length === 1) {
+    robustMean = kept[0].mean;
+  } else if (kept.length >= 2) {
+    const means = new Float64Array(kept.length);
+    for (let i = 0; i < kept.length; i++) means[i] = kept[i].mean;
     const robust = algorithmA(means, 1e-10, 1000);
     robustMean = robust.mean;
     robustSd = robust.sd;
-    if (candidates.length >= minLabsForScreening && robustSd > 0 && robust.converged) {
+    if (kept.length >= minLabsForScreening && robustSd > 0 && robust.converged) {
       const low = robustMean - 3 * robustSd;
       const high = robustMean + 3 * robustSd;
-      kept = [];
-      for (const lab of candidates) {
+      const screened: LabSummary[] = [];
+      for (const lab of kept) {
         if (lab.mean < low || lab.mean > high) excluded.push({ id: lab.id, reason: 'outlier' });
-        else kept.push(lab);
+        else screened.push(lab);
       }
+      kept = screened;
     }
   }
+  checkFigure(fn, 'robust mean x*', robustMean, kept);
+  checkFigure(fn, 'robust SD s*', robustSd, kept);
 
   const base = { robustMean, robustSd, excluded, sufficient: kept.length >= minLabs };
   if (kept.length === 0) {
     const nan = Number.NaN;
     return { labs: 0, n: 0, mean: nan, sd: nan, cv: nan, withinSd: nan, withinCv: nan, ...base };
   }
-  const pooled = pool(kept);
+  let pooled: ReturnType<typeof pool>;
+  try {
+    pooled = pool(kept);
+  } catch (error) {
+    fail(fn, `peer mean and SD cannot be computed: ${(error as Error).message}`);
+  }
+  // A CV is undefined when the peer mean is 0 (possible where results can be negative): NaN, as in summarize.
+  const cv = pooled.mean === 0 ? Number.NaN : (100 * pooled.sd) / pooled.mean;
+  const withinCv = pooled.mean === 0 ? Number.NaN : (100 * pooled.withinSd) / pooled.mean;
+  if (pooled.mean !== 0) {
+    checkFigure(fn, 'peer CV', cv, kept);
+    checkFigure(fn, 'peer within-lab CV', withinCv, kept);
+  }
   return {
     labs: kept.length,
     n: pooled.n,
     mean: pooled.mean,
     sd: pooled.sd,
-    cv: (100 * pooled.sd) / pooled.mean,
+    cv,
     withinSd: pooled.withinSd,
-    withinCv: (100 * pooled.withinSd) / pooled.mean,
+    withinCv,
     ...base,
   };
+}
+
+/**
+ * Gross-error screen for groups too small for Algorithm A's iteration (3 or 4 labs by default): a
+ * lab whose mean lies further than GROSS_ERROR_FACTOR · scale from the median of the means is left
+ * out as an outlier (pushed onto `excluded`). scale = max(Algorithm A start s*, median lab SD): the
+ * start values are median-based, so one absurd mean cannot move them, and the within-lab SD floor
+ * keeps two nearly equal means from making a genuine third lab look far away.
+ */
+function screenGrossErrors(labs: readonly LabSummary[], excluded: PeerExclusion[]): LabSummary[] {
+  const start = algorithmAStart(labs.map((lab) => lab.mean));
+  const sds = Float64Array.from(labs, (lab) => lab.sd).sort();
+  const middle = sds.length >> 1;
+  const medianSd = sds.length % 2 === 1 ? sds[middle] : (sds[middle - 1] + sds[middle]) / 2;
+  const limit = GROSS_ERROR_FACTOR * Math.max(start.sd, medianSd);
+  const kept: LabSummary[] = [];
+  for (const lab of labs) {
+    if (Math.abs(lab.mean - start.mean) > limit) excluded.push({ id: lab.id, reason: 'outlier' });
+    else kept.push(lab);
+  }
+  return kept;
+}
+
+/** Throws when a computed figure is ±Infinity (NaN means "not defined" and is allowed), naming it and the labs' largest mean. */
+function checkFigure(fn: string, figure: string, value: number, labs: readonly LabSummary[]): void {
+  if (Number.isFinite(value) || Number.isNaN(value)) return;
+  let largest = labs[0];
+  for (const lab of labs) if (Math.abs(lab.mean) > Math.abs(largest.mean)) largest = lab;
+  fail(
+    fn,
+    `${figure} is not finite (${value}): the labs' figures are too large or too far apart to combine ` +
+      `(largest mean ${largest.mean} from lab '${largest.id}')`,
+  );
 }
 
 /** One peer tier with its member labs, narrowest first when passed to {@link selectPeerTier}. */

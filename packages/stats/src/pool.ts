@@ -26,7 +26,8 @@ export interface Pooled {
  * ANOVA text); METHODS.md §1. A part with n = 1 must have SD 0.
  *
  * @throws {Error} when there are no parts, a part has a non-integer n < 1, a non-finite mean,
- *   a negative or non-finite SD, or all parts together hold fewer than 2 values.
+ *   a negative or non-finite SD, all parts together hold fewer than 2 values, or a pooled figure
+ *   would not be finite (overflow of finite but huge inputs), naming the figure and the part.
  * @example
  * pool([{ n: 3, mean: 2, sd: 1 }, { n: 3, mean: 5, sd: 1 }]);
  * // => { n: 6, mean: 3.5, sd: 1.8708286933869707, withinSd: 1 }
@@ -61,10 +62,27 @@ export function pool(parts: readonly PoolPart[]): Pooled {
     const d = part.mean - mean;
     betweenSquares += part.n * d * d;
   }
-  return {
-    n: total,
-    mean,
-    sd: Math.sqrt((withinSquares + betweenSquares) / (total - 1)),
-    withinSd: withinDegrees > 0 ? Math.sqrt(withinSquares / withinDegrees) : Number.NaN,
-  };
+  const sd = Math.sqrt((withinSquares + betweenSquares) / (total - 1));
+  const withinSd = withinDegrees > 0 ? Math.sqrt(withinSquares / withinDegrees) : Number.NaN;
+  // Finite inputs can still overflow: n·mean, n·(mean difference)² or (n − 1)·sd² beyond ~1.8e308.
+  if (!Number.isFinite(mean)) fail(fn, `pooled mean is not finite (${mean}): ${largestPart(parts)}`);
+  if (!Number.isFinite(sd)) fail(fn, `pooled SD is not finite (${sd}): ${largestPart(parts)}`);
+  if (withinDegrees > 0 && !Number.isFinite(withinSd)) {
+    fail(fn, `pooled within-part SD is not finite (${withinSd}): ${largestPart(parts)}`);
+  }
+  return { n: total, mean, sd, withinSd };
+}
+
+/** Why pooled figures overflowed, naming the part with the largest |mean| and the one with the largest SD. */
+function largestPart(parts: readonly PoolPart[]): string {
+  let byMean = 0;
+  let bySd = 0;
+  for (let i = 1; i < parts.length; i++) {
+    if (Math.abs(parts[i].mean) > Math.abs(parts[byMean].mean)) byMean = i;
+    if (parts[i].sd > parts[bySd].sd) bySd = i;
+  }
+  return (
+    `the parts' figures are too large or too far apart to combine in double precision ` +
+    `(largest |mean| ${parts[byMean].mean} in part ${byMean}, largest SD ${parts[bySd].sd} in part ${bySd})`
+  );
 }

@@ -10,6 +10,11 @@ export interface RobustMeanSd {
   iterations: number;
   /** False when the iteration cap was reached before the stopping rule was met. */
   converged: boolean;
+  /**
+   * Which scale s* is: 'algorithm-a' (the iterated estimate), or 'mean-absolute-deviation' when more
+   * than half the values are equal (median|xᵢ − x*| = 0) and s* = √(π/2) · mean|xᵢ − x*| instead.
+   */
+  scale: 'algorithm-a' | 'mean-absolute-deviation';
 }
 
 /** Options of {@link robustMeanSd}. */
@@ -29,8 +34,14 @@ export interface RobustMeanSdOptions {
  *
  * Stopping rule (our choice, stricter than the standard's "no change in the third significant
  * figure"): stop when both x* and s* change by less than `tolerance` · s* from one iteration to
- * the next, or after `maxIterations` (then `converged` is false). When s* is 0 at the start (more
- * than half the values equal) the start values are returned: winsorising cannot move them.
+ * the next, or after `maxIterations` (then `converged` is false).
+ *
+ * More than half the values equal (s* = 0 at the start): Algorithm A cannot give a scale, and
+ * iterating from any other start shrinks s* towards 0 (the equal values dominate the winsorised SD).
+ * ISO 13528 then lets the scale be set by other means (memory of the standard, not re-read); we
+ * return x* = median and s* = √(π/2) · mean|xᵢ − median| (the mean absolute deviation scaled to
+ * estimate σ of a normal distribution, as Iglewicz & Hoaglin use when the MAD is 0 — memory), without
+ * iterating, and say so in `scale`. Only when every value is equal is s* = 0.
  * With very few values one far value breaks the estimate down: with 3 values close together and 1
  * far away, s* grows by the factor 1.134 in every iteration until the far value is no longer
  * clipped, ending at the plain mean and 1.134 · SD; from 5 values on, one far value cannot do this.
@@ -41,7 +52,8 @@ export interface RobustMeanSdOptions {
  * @throws {Error} when there are fewer than 2 values, a value is not finite, or the options are invalid.
  * @example
  * robustMeanSd([1.69, 0.74, 2.05, 1.14, 2.19, 1.39, 1.52, 1.50, 1.58, 0.80, 1.21, 1.63]);
- * // => { mean: 1.4533333333333334, sd: 0.49614831763385936, iterations: 6, converged: true }
+ * // => { mean: 1.4533333333333334, sd: 0.49614831763385936, iterations: 6, converged: true,
+ * //      scale: 'algorithm-a' }
  */
 export function robustMeanSd(values: readonly number[], options: RobustMeanSdOptions = {}): RobustMeanSd {
   const fn = 'robustMeanSd';
@@ -66,7 +78,15 @@ export function algorithmA(work: Float64Array, tolerance: number, maxIterations:
   for (let i = 0; i < p; i++) deviations[i] = Math.abs(sorted[i] - center);
   deviations.sort();
   let sd = 1.483 * medianOfSorted(deviations);
-  if (sd === 0) return { mean: center, sd, iterations: 0, converged: true };
+  if (sd === 0) {
+    return {
+      mean: center,
+      sd: meanAbsoluteDeviationScale(deviations),
+      iterations: 0,
+      converged: true,
+      scale: 'mean-absolute-deviation',
+    };
+  }
 
   // Prefix sums of the centred values and of their squares.
   const sums = new Float64Array(p + 1);
@@ -96,7 +116,30 @@ export function algorithmA(work: Float64Array, tolerance: number, maxIterations:
     sd = nextSd;
     if (converged) break;
   }
-  return { mean: center + mean, sd, iterations, converged };
+  return { mean: center + mean, sd, iterations, converged, scale: 'algorithm-a' };
+}
+
+/** √(π/2): E|X − μ| = σ · √(2/π) for a normal distribution. */
+const MEAN_ABSOLUTE_DEVIATION_TO_SD = Math.sqrt(Math.PI / 2);
+
+/** √(π/2) · mean of the absolute deviations; each term divided first so huge values cannot overflow the sum. */
+function meanAbsoluteDeviationScale(deviations: Float64Array): number {
+  let mean = 0;
+  for (let i = 0; i < deviations.length; i++) mean += deviations[i] / deviations.length;
+  return MEAN_ABSOLUTE_DEVIATION_TO_SD * mean;
+}
+
+/**
+ * Algorithm A's start values without iterating: x* = median, s* = 1.483 · median|xᵢ − x*|, or the
+ * mean-absolute-deviation scale when more than half the values are equal. Median-based, so one far
+ * value cannot move them (the iteration can, with fewer than 5 values). Values must be finite.
+ */
+export function algorithmAStart(values: ArrayLike<number>): { mean: number; sd: number } {
+  const sorted = Float64Array.from(values).sort();
+  const center = medianOfSorted(sorted);
+  const deviations = sorted.map((x) => Math.abs(x - center)).sort();
+  const sd = 1.483 * medianOfSorted(deviations);
+  return { mean: center, sd: sd > 0 ? sd : meanAbsoluteDeviationScale(deviations) };
 }
 
 /** Number of sorted values strictly below x. */

@@ -17,7 +17,8 @@ export interface Standing {
  * Source: METHODS.md §3 (definitions in common use in interlaboratory QC programmes).
  *
  * @throws {Error} when a figure is not finite, the lab's n < 2, its SD is negative, the lab or peer
- *   mean is 0, or the peer SD or peer within-lab CV is not greater than 0.
+ *   mean is 0, the peer SD or peer within-lab CV is not greater than 0, or the SDI, CVR or bias %
+ *   would not be finite (overflow), naming the figure and the inputs.
  * @example
  * standing({ n: 20, mean: 102, sd: 3 }, { mean: 100, sd: 4, withinCv: 2.5 });
  * // => { sdi: 0.5, cvr: 1.1764705882352942, biasPct: 2 }
@@ -37,11 +38,15 @@ export function standing(
   checkPositive(fn, 'peer sd', peer.sd);
   checkPositive(fn, 'peer withinCv', peer.withinCv);
   const labCv = (100 * lab.sd) / Math.abs(lab.mean);
-  return {
-    sdi: (lab.mean - peer.mean) / peer.sd,
-    cvr: labCv / peer.withinCv,
-    biasPct: (100 * (lab.mean - peer.mean)) / peer.mean,
-  };
+  const sdi = (lab.mean - peer.mean) / peer.sd;
+  const cvr = labCv / peer.withinCv;
+  const biasPct = (100 * (lab.mean - peer.mean)) / peer.mean;
+  // Finite inputs can still overflow, e.g. a huge mean difference over a tiny peer SD.
+  const inputs = `lab mean ${lab.mean}, lab sd ${lab.sd}, peer mean ${peer.mean}, peer sd ${peer.sd}, peer withinCv ${peer.withinCv}`;
+  if (!Number.isFinite(sdi)) fail(fn, `SDI is not finite (${sdi}) for ${inputs}`);
+  if (!Number.isFinite(cvr)) fail(fn, `CVR is not finite (${cvr}) for ${inputs}`);
+  if (!Number.isFinite(biasPct)) fail(fn, `bias % is not finite (${biasPct}) for ${inputs}`);
+  return { sdi, cvr, biasPct };
 }
 
 /** Flag of a figure, from best to worst. */

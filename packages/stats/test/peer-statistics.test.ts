@@ -92,8 +92,32 @@ describe('peerStatistics', () => {
     expect(peerStatistics([...isoLabs.slice(0, 4), far]).excluded).toEqual([
       { id: 'far', reason: 'outlier' },
     ]);
-    expect(peerStatistics([...isoLabs.slice(0, 3), far]).excluded).toEqual([]);
-    expect(peerStatistics([...isoLabs.slice(0, 4), far], { minLabsForScreening: 6 }).excluded).toEqual([]);
+    // A lab 1.5 units away is no gross error (the 4-lab screen needs 10 scale units from the median).
+    const nearish = { id: 'nearish', n: 20, mean: 3.5, sd: 0.1 };
+    expect(peerStatistics([...isoLabs.slice(0, 3), nearish]).excluded).toEqual([]);
+    expect(peerStatistics([...isoLabs.slice(0, 4), nearish], { minLabsForScreening: 6 }).excluded).toEqual(
+      [],
+    );
+  });
+
+  it('when 3 or 4 labs include an absurd mean (1e300), then it is left out as a gross error and every figure is finite', () => {
+    for (const count of [2, 3]) {
+      const labs = [...isoLabs.slice(0, count), { id: 'absurd', n: 20, mean: 1e300, sd: 0.1 }];
+      const result = peerStatistics(labs);
+      expect(result.excluded).toEqual([{ id: 'absurd', reason: 'outlier' }]);
+      // The remaining labs' figures are their pooled figures (pooling formula, METHODS.md §2).
+      const { mean } = summarize(isoMeans.slice(0, count));
+      expect(result.labs).toBe(count);
+      for (const figure of [result.mean, result.sd, result.cv, result.robustMean, result.robustSd]) {
+        expect(Number.isFinite(figure)).toBe(true);
+      }
+      expect(result.mean).toBeCloseTo(mean, 12); // equal n, so the n-weighted mean is the plain mean
+    }
+  });
+
+  it('when 3 genuine labs have two nearly equal means, then the third is not a gross error (within-lab SD floor of the scale)', () => {
+    const labs = [5.0, 5.001, 5.3].map((mean, i) => ({ id: `L${i}`, n: 20, mean, sd: 0.2 }));
+    expect(peerStatistics(labs).excluded).toEqual([]);
   });
 
   it('when 4 labs include one far away, then Algorithm A breaks down and the far lab is not caught (why the default is 5)', () => {
@@ -108,11 +132,23 @@ describe('peerStatistics', () => {
     expect(peerStatistics(labs, { minLabsForScreening: 4 }).excluded).toEqual([]);
   });
 
-  it('when most lab means are equal (s* = 0), then no lab is excluded (documented choice)', () => {
+  it('when most lab means are equal (MAD = 0), then the screen still runs on the fallback scale √(π/2) · mean|x − median| (documented choice)', () => {
     const labs = [5, 5, 5, 5, 5.1, 6].map((mean, i) => ({ id: `L${i}`, n: 10, mean, sd: 0.2 }));
     const result = peerStatistics(labs);
-    expect(result.robustSd).toBe(0);
-    expect(result.excluded).toEqual([]);
+    // Deviations from the median 5: 0, 0, 0, 0, 0.1, 1 → s* = √(π/2) · 1.1/6 ≈ 0.2298, so 6 lies
+    // beyond 5 + 3s* ≈ 5.69 and 5.1 does not.
+    expect(result.robustSd).toBeCloseTo(Math.sqrt(Math.PI / 2) * (1.1 / 6), 12);
+    expect(result.excluded).toEqual([{ id: 'L5', reason: 'outlier' }]);
+  });
+
+  it('when two labs are too far apart to pool in double precision, then it throws naming the figure', () => {
+    const labs = [
+      { id: 'high', n: 10, mean: 1e200, sd: 1 },
+      { id: 'low', n: 10, mean: -1e200, sd: 1 },
+    ];
+    expect(() => peerStatistics(labs)).toThrow(
+      'peerStatistics: peer mean and SD cannot be computed: pool: pooled SD is not finite (Infinity)',
+    );
   });
 
   it('when one lab remains, then its own figures are the peer figures and robustSd is NaN', () => {

@@ -71,4 +71,26 @@ describe('pool', () => {
     );
     expect(() => pool([{ n: 3, mean: 1, sd: -1 }])).toThrow('pool: part 0 sd must not be negative, got -1');
   });
+
+  it('when finite parts overflow the pooled figures, then it throws naming the figure and the part', () => {
+    // (2e200)² exceeds the largest double (about 1.8e308): the between-part sum of squares overflows.
+    expect(() =>
+      pool([
+        { n: 10, mean: 1e200, sd: 1 },
+        { n: 10, mean: -1e200, sd: 1 },
+      ]),
+    ).toThrow("pool: pooled SD is not finite (Infinity): the parts' figures are too large or too far apart");
+    expect(() =>
+      pool([
+        { n: 10, mean: 1, sd: 1e300 },
+        { n: 10, mean: 2, sd: 1 },
+      ]),
+    ).toThrow('largest SD 1e+300 in part 0');
+    expect(() =>
+      pool([
+        { n: 10, mean: 1.5e308, sd: 0 },
+        { n: 10, mean: 1.5e308, sd: 0 },
+      ]),
+    ).not.toThrow();
+  });
 });

@@ -63,8 +63,27 @@ describe('robustMeanSd (ISO 13528 Algorithm A)', () => {
     expect(plainMean).toBeGreaterThan(5);
   });
 
-  it('when more than half the values are equal, then s* = 0 and the median is returned without iterating (documented choice)', () => {
-    expect(robustMeanSd([5, 5, 5, 5, 6, 9])).toEqual({ mean: 5, sd: 0, iterations: 0, converged: true });
+  it('when more than half the values are equal (MAD = 0), then x* = median and s* falls back to √(π/2) · mean|x − median| (documented choice, not 0)', () => {
+    // Deviations from the median 5 are 0, 0, 0, 0, 1, 4: mean 5/6. √(π/2) makes the mean absolute
+    // deviation estimate σ of a normal distribution (E|X − μ| = σ√(2/π), a textbook identity).
+    const result = robustMeanSd([5, 5, 5, 5, 6, 9]);
+    expect(result).toMatchObject({
+      mean: 5,
+      iterations: 0,
+      converged: true,
+      scale: 'mean-absolute-deviation',
+    });
+    expect(result.sd).toBeCloseTo(Math.sqrt(Math.PI / 2) * (5 / 6), 14);
+  });
+
+  it('when every value is equal, then s* = 0 (no spread at all)', () => {
+    expect(robustMeanSd([5, 5, 5])).toMatchObject({ mean: 5, sd: 0, scale: 'mean-absolute-deviation' });
+  });
+
+  it('when more than half the values are equal and one is absurd (1e300), then s* stays finite', () => {
+    const result = robustMeanSd([5, 5, 5, 5, 5.1, 1e300]);
+    expect(result.mean).toBe(5);
+    expect(Number.isFinite(result.sd)).toBe(true);
   });
 
   it('when given invalid input, then it throws naming the function and the problem', () => {

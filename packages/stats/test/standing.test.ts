@@ -88,6 +88,19 @@ describe('standing', () => {
       'standing: lab sd must not be negative, got -3',
     );
   });
+
+  it('when finite figures overflow a result, then it throws naming the SDI, CVR or bias %', () => {
+    // Beyond the largest double (about 1.8e308) each figure would be ±Infinity.
+    expect(() => standing({ n: 20, mean: 1e300, sd: 1 }, { mean: 1, sd: 1e-10, withinCv: 2 })).toThrow(
+      'standing: SDI is not finite (Infinity)',
+    );
+    expect(() => standing({ n: 20, mean: 1e-300, sd: 1e10 }, { mean: 1, sd: 1, withinCv: 2 })).toThrow(
+      'standing: CVR is not finite (Infinity)',
+    );
+    expect(() => standing({ n: 20, mean: 1.5e308, sd: 1 }, { mean: 1e-10, sd: 1e300, withinCv: 2 })).toThrow(
+      'standing: bias % is not finite (Infinity)',
+    );
+  });
 });
 
 describe('classifySdi and classifyCvr (METHODS.md §3 thresholds, common practice with no single source)', () => {
