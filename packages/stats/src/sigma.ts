@@ -19,6 +19,64 @@ export function sigmaMetric(teaPct: number, biasPct: number, cvPct: number): num
   return (teaPct - Math.abs(biasPct)) / cvPct;
 }
 
+/** A total allowable error rule: "± absolute (in the analyte's unit) or ± percent %, whichever is greater". */
+export interface TeaRule {
+  /** Absolute limit in the analyte's unit; null or absent when the rule has no absolute part. */
+  absolute?: number | null;
+  /** Percentage limit; null or absent when the rule has no percentage part. */
+  percent?: number | null;
+}
+
+/** A total allowable error evaluated at one concentration. */
+export interface EvaluatedTea {
+  /** TEa in % of the concentration. */
+  teaPct: number;
+  /** TEa in the analyte's unit. */
+  teaUnits: number;
+  /** Which part of the rule gives the larger limit here ('both' when they are equal). */
+  governing: 'absolute' | 'percent' | 'both';
+}
+
+/**
+ * Evaluates a total allowable error rule at a concentration: the larger of the absolute limit and
+ * the percentage of the concentration, in units and in %. A rule with one part is that part.
+ * Percentages are taken of |concentration| (some quantities can be negative).
+ *
+ * Source: the form in which published rules state acceptance limits, e.g. the US CLIA proficiency
+ * testing acceptance limits of the 2024 rule (42 CFR 493.931): "± X units or ± Y %, whichever is
+ * greater"; METHODS.md §3.
+ *
+ * @throws {Error} when neither part is given, a given part is not greater than 0, the concentration
+ *   is not finite, or the concentration is 0 while the absolute part governs (no % exists).
+ * @example
+ * evaluateTea({ absolute: 6, percent: 8 }, 50); // glucose in mg/dL
+ * // => { teaPct: 12, teaUnits: 6, governing: 'absolute' }
+ */
+export function evaluateTea(rule: TeaRule, concentration: number): EvaluatedTea {
+  const fn = 'evaluateTea';
+  const absolute = rule.absolute ?? null;
+  const percent = rule.percent ?? null;
+  if (absolute === null && percent === null)
+    fail(fn, 'the rule has neither an absolute nor a percentage part');
+  if (absolute !== null) checkPositive(fn, 'absolute', absolute);
+  if (percent !== null) checkPositive(fn, 'percent', percent);
+  checkFinite(fn, 'concentration', concentration);
+  const level = Math.abs(concentration);
+  const fromPercent = percent === null ? -1 : (percent * level) / 100;
+  const fromAbsolute = absolute ?? -1;
+  if (fromPercent >= fromAbsolute) {
+    return {
+      teaPct: percent!,
+      teaUnits: fromPercent,
+      governing: fromPercent === fromAbsolute ? 'both' : 'percent',
+    };
+  }
+  if (level === 0) fail(fn, `concentration is 0, so the absolute limit ${absolute} has no value in %`);
+  const teaPct = (100 * fromAbsolute) / level;
+  checkFinite(fn, 'TEa %', teaPct);
+  return { teaPct, teaUnits: fromAbsolute, governing: 'absolute' };
+}
+
 /** Quality level of a biological-variation specification. */
 export type BiologicalVariationLevel = 'optimum' | 'desirable' | 'minimum';
 
