@@ -34,6 +34,20 @@ export const peerFiguresSchema = z.object({
 });
 export type PeerFigures = z.infer<typeof peerFiguresSchema>;
 
+/**
+ * A total allowable error rule in words, e.g. "± 6 mg/dL or ± 8 %, whichever is greater"; null when
+ * no part is set. The absolute part is in `unit` (the analyte's canonical unit).
+ */
+export function teaRuleText(
+  tea: { teaPct: number | null; teaAbsolute: number | null },
+  unit: string,
+): string | null {
+  const absolute = tea.teaAbsolute === null ? null : `± ${tea.teaAbsolute} ${unit}`;
+  const percent = tea.teaPct === null ? null : `± ${tea.teaPct} %`;
+  if (absolute && percent) return `${absolute} or ${percent}, whichever is greater`;
+  return absolute ?? percent;
+}
+
 export const peerReportRowSchema = z.object({
   procedure: z.object({ id: uuidSchema, code: z.string() }),
   analyte: z.object({
@@ -41,7 +55,9 @@ export const peerReportRowSchema = z.object({
     name: z.string(),
     unit: z.string(),
     decimals: z.number().int(),
+    /** Total allowable error rule: ± teaAbsolute (in canonicalUnit) or ± teaPct %, whichever is greater. */
     teaPct: z.number().nullable(),
+    teaAbsolute: z.number().nullable(),
     teaSource: z.string().nullable(),
   }),
   controlLot: z.object({ id: uuidSchema, lotNumber: z.string() }),
@@ -68,6 +84,11 @@ export const peerReportRowSchema = z.object({
   cvr: z.number().nullable(),
   biasPct: z.number().nullable(),
   sigma: z.number().nullable(),
+  /**
+   * The TEa rule evaluated at this level's concentration (the peer mean), as used for `sigma`: its % and
+   * which part of the rule governs there. Null without a rule or peer figures.
+   */
+  tea: z.object({ pct: z.number(), governing: z.enum(['absolute', 'percent', 'both']) }).nullable(),
   cumulative: z.object({
     lab: labFiguresSchema.nullable(),
     peer: peerFiguresSchema.nullable(),

@@ -44,6 +44,7 @@ export async function labSummaries(db: Executor, labId: string, period: string) 
         unit: analytes.unit,
         decimals: analytes.decimals,
         teaPct: analytes.teaPct,
+        teaAbsolute: analytes.teaAbsolute,
         teaSource: analytes.teaSource,
       },
       conventionalUnit: analytes.conventionalUnit,

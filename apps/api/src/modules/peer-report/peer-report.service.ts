@@ -1,4 +1,4 @@
-import { pool, sigmaMetric, standing, DEFAULT_MIN_LABS } from '@plumbline/stats';
+import { evaluateTea, pool, sigmaMetric, standing, DEFAULT_MIN_LABS } from '@plumbline/stats';
 import {
   PEER_TIERS,
   hasPendingPeerStatistics,
@@ -136,9 +136,10 @@ export async function buildPeerReport(
       ? { reason: excludedEntry.reason, note: excludedEntry.note ?? null }
       : null;
 
+    const tea = peer ? teaAt(s.analyte, peer.mean) : null;
     const sigma =
-      position && s.analyte.teaPct !== null && labFigures.cv !== null && labFigures.cv > 0
-        ? sigmaMetric(s.analyte.teaPct, position.biasPct, labFigures.cv)
+      position && tea && labFigures.cv !== null && labFigures.cv > 0
+        ? sigmaMetric(tea.pct, position.biasPct, labFigures.cv)
         : null;
 
     const flags: ReportFlag[] = [];
@@ -167,6 +168,7 @@ export async function buildPeerReport(
       cvr: position?.cvr ?? null,
       biasPct: position?.biasPct ?? null,
       sigma: sigma !== null && Number.isFinite(sigma) ? sigma : null,
+      tea,
       cumulative: {
         lab: labToDate && labFiguresIn(labToDate, shown),
         peer: peerToDate && peerFiguresIn(peerToDate, shown),
@@ -218,4 +220,22 @@ function safeStanding(lab: LabFigures, peer: PeerFigures) {
     return null;
   }
   return standing(lab, { mean: peer.mean, sd: peer.sd, withinCv: peer.withinCv });
+}
+
+/**
+ * The analyte's total allowable error rule ("± absolute or ± %, whichever is greater") evaluated at a
+ * control level's concentration; null when no rule is set or it has no value there (an absolute limit
+ * at concentration 0).
+ */
+function teaAt(
+  analyte: { teaPct: number | null; teaAbsolute: number | null },
+  concentration: number,
+): { pct: number; governing: 'absolute' | 'percent' | 'both' } | null {
+  if (analyte.teaPct === null && analyte.teaAbsolute === null) return null;
+  try {
+    const tea = evaluateTea({ absolute: analyte.teaAbsolute, percent: analyte.teaPct }, concentration);
+    return { pct: tea.teaPct, governing: tea.governing };
+  } catch {
+    return null;
+  }
 }

@@ -4,12 +4,19 @@ import { and, eq } from 'drizzle-orm';
 import {
   classifyCvr,
   classifySdi,
+  evaluateTea,
   peerStatistics as computePeerStatistics,
   pool,
   sigmaMetric,
   standing,
 } from '@plumbline/stats';
-import { peerExclusions, peerStatistics, publications, recomputeAllPeerStatistics } from '@plumbline/db';
+import {
+  analytes,
+  peerExclusions,
+  peerStatistics,
+  publications,
+  recomputeAllPeerStatistics,
+} from '@plumbline/db';
 import { createQcCatalogue, type QcCatalogue } from '@plumbline/db/testing';
 import type { PeerReport, PeerReportRow } from '@plumbline/contracts';
 import { createTestApp, type TestApp } from '../../testing/test-app.ts';
@@ -157,6 +164,36 @@ describe('the peer report', () => {
       message: expect.stringMatching(/robust range/),
     });
     expect(row.flags).toContainEqual({ kind: 'sdi', severity: 'action', message: expect.any(String) });
+  });
+
+  it('when the TEa rule has an absolute part, then sigma uses the larger of the two parts at the level’s peer mean', async () => {
+    const glucose = catalogue.analytes.glucose;
+    const labCv = (100 * february.A.sd) / february.A.mean;
+    try {
+      // ± 6 mg/dL or ± 8 % (US CLIA 2024 glucose limit, memory): 6 mg/dL = 6/18.016 mmol/L (glucose
+      // molar mass 180.16 g/mol) is below 8 % of about 5.5 mmol/L, so the percentage still governs.
+      await t.db
+        .update(analytes)
+        .set({ teaAbsolute: 6 / 18.016 })
+        .where(eq(analytes.id, glucose.id));
+      let row = rowOf((await report(labs.A)).body);
+      expect(row.tea).toEqual({ pct: 8, governing: 'percent' });
+      expect(row.analyte.teaAbsolute).toBeCloseTo(6 / 18.016, 12);
+
+      // An invented absolute part of 0.6 mmol/L exceeds 8 % of the peer mean: it governs, and the
+      // sigma metric uses 100 · 0.6 / peer mean instead of 8 %.
+      await t.db.update(analytes).set({ teaAbsolute: 0.6 }).where(eq(analytes.id, glucose.id));
+      row = rowOf((await report(labs.A)).body);
+      const peerMean = row.peer!.mean;
+      const tea = evaluateTea({ absolute: 0.6, percent: 8 }, peerMean);
+      expect(tea.governing).toBe('absolute');
+      expect(row.tea!.governing).toBe('absolute');
+      expect(row.tea!.pct).toBeCloseTo((100 * 0.6) / peerMean, 12);
+      expect(row.sigma).toBeCloseTo(sigmaMetric(tea.teaPct, row.biasPct!, labCv), 12);
+      expect(row.sigma).not.toBeCloseTo(sigmaMetric(8, row.biasPct!, labCv), 6);
+    } finally {
+      await t.db.update(analytes).set({ teaAbsolute: null }).where(eq(analytes.id, glucose.id));
+    }
   });
 
   it('when the coordinator excludes a lab’s data, then the figures leave it out and its row says why', async () => {

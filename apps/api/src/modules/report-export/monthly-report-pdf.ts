@@ -10,6 +10,7 @@ import type {
   Signoff,
 } from '@plumbline/contracts';
 import { worstFlag } from './report-csv.ts';
+import { teaRuleText } from '@plumbline/contracts';
 
 /** What the monthly PDF shows; gathered by the export service. */
 export type MonthlyReportData = {
@@ -402,10 +403,16 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
         ...new Set(
           report.rows
             .filter((r) => r.analyte.teaSource)
-            .map((r) => `${r.analyte.name}: TEa ${r.analyte.teaPct} % (${r.analyte.teaSource})`),
+            .map(
+              (r) =>
+                `${r.analyte.name}: TEa ${teaRuleText(r.analyte, r.canonicalUnit)} (${r.analyte.teaSource})`,
+            ),
         ),
       ];
-      paragraph(`Sigma = (TEa % − |bias %|) / CV %. ${sources.join('; ')}.`, { size: 7.5, colour: MUTED });
+      paragraph(
+        `Sigma = (TEa % − |bias %|) / CV %, with TEa evaluated at each level's peer mean. ${sources.join('; ')}.`,
+        { size: 7.5, colour: MUTED },
+      );
     }
     paragraph(
       'SDI = (lab mean − peer mean) / peer SD; CVR = lab CV / peer within-lab CV. Flags: |SDI| up to 1 fine, up to 2 acceptable, ' +

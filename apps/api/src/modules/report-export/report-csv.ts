@@ -78,7 +78,7 @@ export function peerReportCsv(report: PeerReport): string {
       r.cvr,
       r.biasPct,
       r.sigma,
-      r.analyte.teaPct,
+      r.tea?.pct ?? null,
       r.analyte.teaSource,
       r.cumulative.sdi,
       r.cumulative.cvr,

@@ -12,7 +12,7 @@ import {
   type Header,
   type SortingState,
 } from '@tanstack/react-table';
-import type { PeerReportRow } from '@plumbline/contracts';
+import { teaRuleText, type PeerReportRow } from '@plumbline/contracts';
 import { formatDate } from '../../../utils/format.ts';
 import { fixed, keyOfRow, peerTierWords, signed, worstFlag } from '../utils/report-rows.ts';
 import { FlagChips } from './flag-chips.tsx';
@@ -25,9 +25,15 @@ const severityRank = { fine: 0, acceptable: 1, warning: 2, action: 3 } as const;
 const column = createColumnHelper<PeerReportRow>();
 
 function sigmaTitle(row: PeerReportRow): string {
-  const { teaPct, teaSource } = row.analyte;
-  if (teaPct === null) return 'No total allowable error (TEa) is set for this analyte, so no sigma metric.';
-  return `Sigma = (TEa − |bias %|) / CV %, with TEa ${teaPct} %${teaSource ? ` from ${teaSource}` : ''}.`;
+  const rule = teaRuleText(row.analyte, row.canonicalUnit);
+  if (rule === null) return 'No total allowable error (TEa) is set for this analyte, so no sigma metric.';
+  const source = row.analyte.teaSource ? ` from ${row.analyte.teaSource}` : '';
+  if (row.tea === null) return `TEa ${rule}${source}; no peer mean to evaluate it at, so no sigma metric.`;
+  const governs =
+    row.tea.governing === 'both'
+      ? 'both parts agree'
+      : `the ${row.tea.governing === 'absolute' ? 'absolute' : 'percentage'} part governs`;
+  return `Sigma = (TEa − |bias %|) / CV %, with TEa ${rule}${source}: ${row.tea.pct.toFixed(2)} % at this level's peer mean (${governs}).`;
 }
 
 function buildColumns(
