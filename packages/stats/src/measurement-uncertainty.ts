@@ -75,19 +75,30 @@ export function measurementUncertainty(input: MeasurementUncertaintyInput): Meas
 }
 
 /**
- * Relative standard uncertainty of a consensus (peer) mean in %: u(Cref) = CV_R / √m, with CV_R the
- * between-lab CV % of the peer group and m the number of labs.
+ * Relative standard uncertainty of a consensus (peer) mean in %, from the between-lab dispersion of
+ * the lab means: u(Cref) = 100 · s_between / (|peer mean| · √m), with m the number of labs in the
+ * peer mean. Pass the robust SD s* of the lab means (ISO 13528 Algorithm A, as published with the
+ * peer figures) as s_between: it estimates the spread of the lab means while resisting a lab the
+ * outlier screen removed. Not the peer CV: that mixes the within-lab spread of single values into a
+ * figure about lab means.
  *
- * Source: Nordtest TR 537 (ed. 4), §6: u(Cref) = s_R / √m for an assigned value from m participants.
+ * Source: Nordtest TR 537 (ed. 4, 2017), bias from interlaboratory comparisons: u(Cref) = s_R / √m,
+ * s_R the between-laboratory standard deviation of the participants' results (memory of the
+ * handbook, not re-read for the test).
  *
- * @throws {Error} when the CV is negative or not finite, or labs is not an integer ≥ 1.
+ * @throws {Error} when the SD is negative or not finite, the peer mean is 0 or not finite, labs is
+ *   not an integer ≥ 1, or the result would not be finite.
  * @example
- * peerMeanUncertaintyPct(4, 16); // => 1
+ * peerMeanUncertaintyPct(0.2, 5, 16); // => 1
  */
-export function peerMeanUncertaintyPct(peerCvPct: number, labs: number): number {
+export function peerMeanUncertaintyPct(betweenLabSd: number, peerMean: number, labs: number): number {
   const fn = 'peerMeanUncertaintyPct';
-  checkFinite(fn, 'peerCvPct', peerCvPct);
-  if (peerCvPct < 0) fail(fn, `peerCvPct must not be negative, got ${peerCvPct}`);
+  checkFinite(fn, 'betweenLabSd', betweenLabSd);
+  if (betweenLabSd < 0) fail(fn, `betweenLabSd must not be negative, got ${betweenLabSd}`);
+  checkFinite(fn, 'peerMean', peerMean);
+  if (peerMean === 0) fail(fn, 'peerMean is 0, so a relative uncertainty is undefined');
   if (!Number.isInteger(labs) || labs < 1) fail(fn, `labs must be an integer of at least 1, got ${labs}`);
-  return peerCvPct / Math.sqrt(labs);
+  const u = (100 * betweenLabSd) / (Math.abs(peerMean) * Math.sqrt(labs));
+  checkFinite(fn, 'u(Cref) %', u);
+  return u;
 }

@@ -216,12 +216,14 @@ export async function buildDrilldown(
     trendRows,
     trend.flatMap((t) => {
       const chosen = t.biasPct !== null ? choosePeer(level, t.period, 'period') : null;
-      return chosen && t.biasPct !== null && chosen.row.cv !== null && chosen.row.cv >= 0
+      // u(Cref) from the between-lab dispersion of the lab means: the robust s* published with the figures.
+      const row = chosen?.row;
+      return row && t.biasPct !== null && row.robustSd !== null && row.robustSd >= 0 && row.mean
         ? [
             {
               period: t.period,
               biasPct: t.biasPct,
-              uRefPct: peerMeanUncertaintyPct(chosen.row.cv, chosen.row.labs),
+              uRefPct: peerMeanUncertaintyPct(row.robustSd, row.mean, row.labs),
             },
           ]
         : [];

@@ -267,7 +267,9 @@ describe('the drill-down of one row', () => {
       const peer = expectedPeer('glucose', p, 1);
       return {
         biasPct: standing(net.table.glucose.A[p][1], peer).biasPct,
-        uRefPct: peerMeanUncertaintyPct(peer.cv, peer.labs),
+        // u(Cref) from the between-lab dispersion of the lab means (robust s*), not the peer CV of single values.
+        uRefPct: peerMeanUncertaintyPct(peer.robustSd, peer.mean, peer.labs),
+        uRefFromPeerCv: peer.cv / Math.sqrt(peer.labs),
       };
     });
     const expected = measurementUncertainty({ cvPct: (100 * longTerm.sd) / longTerm.mean, comparisons });
@@ -277,6 +279,7 @@ describe('the drill-down of one row', () => {
     expect(u.k).toBe(2);
     expect(u.U).toBeCloseTo(2 * Math.hypot(u.uRw, u.uBias), 10);
     expect(u.comparisons.map((c) => c.period)).toEqual([...PERIODS]);
+    u.comparisons.forEach((c, i) => expect(c.uRefPct).not.toBeCloseTo(comparisons[i].uRefFromPeerCv, 6));
   });
 
   it('when the row is another lab’s, unknown or without data, then 404; a bad target gives 400', async () => {
