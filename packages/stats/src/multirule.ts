@@ -30,6 +30,22 @@ export interface MultiruleResult {
 }
 
 /**
+ * An earlier control value that was already evaluated (e.g. the previous month's), given by its
+ * z-score against the target it was evaluated with, in chronological order. It extends the 2-2s
+ * (across runs), 4-1s and 10-x sequences into the new points but gets no rule itself.
+ */
+export interface HistoryPoint {
+  level: number;
+  z: number;
+}
+
+/** Options of {@link evaluateMultirule}. */
+export interface MultiruleOptions {
+  /** Earlier evaluated values, oldest first, that come just before `points`. */
+  history?: readonly HistoryPoint[];
+}
+
+/**
  * Multirule evaluation of control values against target means and SDs (Levey-Jennings).
  * z = (value − target mean) / target SD; "beyond" is strict (a value exactly at 2s does not
  * violate), and a value within a relative 1e-9 of a limit (0, ±1s, ±2s, ±3s) is taken as on it,
@@ -47,6 +63,10 @@ export interface MultiruleResult {
  * warning; we do not). A rule is attached to the points of the violating group that belong to
  * the run in which the group is completed, so earlier runs are never changed afterwards. A run is
  * rejected on any rule other than 1-2s, warned on 1-2s alone, otherwise accepted.
+ * `options.history` (earlier evaluated values, e.g. the previous month's, by their stored z) lets
+ * 2-2s across runs, 4-1s and 10-x sequences span the boundary; a sequence is reported only when it
+ * is completed by a new point, so a violation already reported among the earlier values is not
+ * reported again.
  *
  * Source: Westgard JO, Barry PL, Hunt MR, Groth T. A multi-rule Shewhart chart for quality
  * control in clinical chemistry. Clin Chem 1981;27:493–501.
@@ -63,9 +83,15 @@ export interface MultiruleResult {
 export function evaluateMultirule(
   points: readonly ControlPoint[],
   targets: Readonly<Record<number, { mean: number; sd: number }>>,
+  options: MultiruleOptions = {},
 ): MultiruleResult {
   const fn = 'evaluateMultirule';
   if (!Array.isArray(points)) fail(fn, 'points must be an array');
+  const history = options.history ?? [];
+  if (!Array.isArray(history)) fail(fn, 'history must be an array');
+  for (let i = 0; i < history.length; i++) {
+    if (!Number.isFinite(history[i].z)) fail(fn, `history point ${i} z is not a finite number`);
+  }
   const count = points.length;
 
   // z of every point; each level's target is checked once, at its first point.
@@ -115,6 +141,17 @@ export function evaluateMultirule(
   const ruleBits = new Uint8Array(count);
   const all = new Streak();
   const byLevel = new Map<number, Streak>();
+  // Earlier values only extend the sequences: index -1 lies before every run, so no rule is attached
+  // to them, and a group completed among them alone was reported when they were evaluated.
+  for (const { level, z: zh } of history) {
+    let ofLevel = byLevel.get(level);
+    if (ofLevel === undefined) {
+      ofLevel = new Streak();
+      byLevel.set(level, ofLevel);
+    }
+    ofLevel.add(-1, zh);
+    all.add(-1, zh);
+  }
   const attachToLatest = (streak: Streak, length: number, bit: number, runStart: number) => {
     for (let back = 1; back <= length; back++) {
       const index = streak.latest(back);

@@ -196,4 +196,47 @@ describe('evaluateMultirule', () => {
       expect(run([4.2501, 4.2501, 4.2501, 4.2501]).runs[3].rules).toEqual(['4-1s']);
     });
   });
+
+  describe('sequences that span a month boundary (earlier values given as history)', () => {
+    // Definitions of Westgard et al. 1981: 4-1s, 10-x and 2-2s across runs are sequences of
+    // consecutive values, so they do not stop at the end of a calendar month. Sequences built from
+    // the definitions (no published example).
+    const month = (zs: number[]) =>
+      zs.map((z, i) => ({ run: `feb-${i + 1}`, level: 1, value: valueAt(1, z) }));
+    const earlier = (zs: number[], level = 1) => zs.map((z) => ({ level, z }));
+
+    it('when three values beyond +1s end the previous month and the first new one is beyond +1s too, then 4-1s rejects the new run', () => {
+      const result = evaluateMultirule(month([1.5, 0]), targets, { history: earlier([1.5, 1.5, 1.5]) });
+      expect(result.runs.map((r) => `${r.verdict}:${r.rules.join(',')}`)).toEqual(['reject:4-1s', 'accept:']);
+      // Only the new point carries the rule; without the history the run is accepted.
+      expect(result.points[0].rules).toEqual(['4-1s']);
+      expect(evaluateMultirule(month([1.5, 0]), targets).runs[0].verdict).toBe('accept');
+    });
+
+    it('when nine values above the mean end the previous month across two levels, then the tenth (new) one completes 10-x', () => {
+      const history = [0.5, 0.4, 0.3, 0.6, 0.5, 0.2, 0.7, 0.5, 0.1].map((z, i) => ({
+        level: 1 + (i % 2),
+        z,
+      }));
+      const result = evaluateMultirule(month([0.3]), targets, { history });
+      expect(result.runs[0]).toMatchObject({ verdict: 'reject', rules: ['10-x'] });
+    });
+
+    it('when a level was beyond +2s at the end of the previous month and is again in the first new run, then 2-2s rejects (across runs, within level)', () => {
+      const result = evaluateMultirule(month([2.5]), targets, { history: earlier([0.3, 2.25]) });
+      expect(result.runs[0]).toMatchObject({ verdict: 'reject', rules: ['1-2s', '2-2s'] });
+    });
+
+    it('when the previous month already ended on a 4-1s (rejected then), then a new value that does not continue it is no new violation', () => {
+      const history = earlier([1.5, 1.5, 1.5, 1.5]);
+      expect(evaluateMultirule(month([0.5]), targets, { history }).runs[0].verdict).toBe('accept');
+      expect(evaluateMultirule(month([-1.5]), targets, { history }).runs[0].verdict).toBe('accept');
+    });
+
+    it('when a history value is not finite, then it throws naming it', () => {
+      expect(() =>
+        evaluateMultirule(month([0]), targets, { history: [{ level: 1, z: Number.NaN }] }),
+      ).toThrow('evaluateMultirule: history point 0 z is not a finite number');
+    });
+  });
 });
