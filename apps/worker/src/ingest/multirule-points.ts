@@ -1,4 +1,11 @@
-import { MULTIRULE_RULES, evaluateMultirule, pool, summarize, type ControlPoint } from '@plumbline/stats';
+import {
+  MULTIRULE_RULES,
+  evaluateMultirule,
+  pool,
+  summarize,
+  type ControlPoint,
+  type HistoryPoint,
+} from '@plumbline/stats';
 import type { ValuesBuffer } from './values-buffer.ts';
 
 /** Target mean and SD of a level, and where they come from. */
@@ -60,8 +67,9 @@ export function evaluateGroup(
   buffer: ValuesBuffer,
   indices: readonly number[],
   targets: ReadonlyMap<number, Target>,
+  history: readonly HistoryPoint[] = [],
 ): Map<number, PointResult> {
-  const { z, rules } = evaluateGroupRows(buffer, indices, targets);
+  const { z, rules } = evaluateGroupRows(buffer, indices, targets, history);
   const results = new Map<number, PointResult>();
   indices.forEach((i, k) =>
     results.set(i, Number.isNaN(z[k]) ? { z: null, rules: [] } : { z: z[k], rules: rulesOfBits(rules[k]) }),
@@ -69,11 +77,16 @@ export function evaluateGroup(
   return results;
 }
 
-/** evaluateGroup with its results in typed columns (a group can hold hundreds of thousands of rows). */
+/**
+ * evaluateGroup with its results in typed columns (a group can hold hundreds of thousands of rows).
+ * `history`: the previous month's evaluated values of the same procedure and lot (oldest first), so
+ * 2-2s, 4-1s and 10-x sequences run across the month boundary (evaluateMultirule's history).
+ */
 export function evaluateGroupRows(
   buffer: ValuesBuffer,
   indices: ArrayLike<number>,
   targets: ReadonlyMap<number, Target>,
+  history: readonly HistoryPoint[] = [],
 ): GroupResults {
   const count = indices.length;
   const row = Int32Array.from(indices);
@@ -138,7 +151,7 @@ export function evaluateGroupRows(
     const k = evaluated[e];
     points[e] = { run: runKeys[run[k]], level: level[k], value: buffer.value(row[k]) };
   }
-  const outcome = evaluateMultirule(points, targetRecord);
+  const outcome = evaluateMultirule(points, targetRecord, { history });
   for (let e = 0; e < evaluated.length; e++) {
     const k = evaluated[e];
     const point = outcome.points[e];

@@ -25,6 +25,8 @@ import {
   type Target,
 } from './multirule-points.ts';
 import { BinaryCopyWriter, textArrayBytes, uuidBytes } from './copy-binary.ts';
+import { historyOfGroup, previousPeriod, storedHistory } from './multirule-history.ts';
+import type { HistoryPoint } from '@plumbline/stats';
 
 /** A monthly summary ready to store (canonical unit). */
 type SummaryToStore = {
@@ -91,6 +93,22 @@ export async function storeValues(
     if (list) list.push(seriesIndex);
     else groups.set(key, [seriesIndex]);
   });
+  const groupKeys = [...groups.keys()].sort();
+  // Multirule sequences continue from the month before: from this file when it holds that month (its
+  // group comes just before in groupKeys), else from the values stored for it.
+  const keyBefore = (key: string) => {
+    const [procedureId, controlLotId, period] = key.split('|');
+    return `${procedureId}|${controlLotId}|${previousPeriod(period)}`;
+  };
+  const historyFromStore = await storedHistory(
+    ctx.tx,
+    groupKeys
+      .filter((key) => !groups.has(keyBefore(key)))
+      .map((key) => {
+        const [procedureId, controlLotId, period] = key.split('|');
+        return { procedureId, controlLotId, period };
+      }),
+  );
 
   const stored = await replaceSummaries(
     ctx,
@@ -125,17 +143,20 @@ export async function storeValues(
     }
     return bytes;
   };
-  const groupKeys = [...groups.keys()].sort();
 
   async function* chunks(): AsyncGenerator<Buffer> {
     const writer = new BinaryCopyWriter();
     let written = 0;
     let reported = 0;
+    let previous: { key: string; history: HistoryPoint[] } | null = null;
     for (const key of groupKeys) {
       const seriesIndices = groups.get(key)!;
       const first = buffer.series[seriesIndices[0]];
       const rows = concatRows(seriesIndices.map((index) => rowsOfSeries[index]));
-      const { z, rules, timeOrder } = evaluateGroupRows(buffer, rows, targets.get(key) ?? new Map());
+      const history = previous?.key === keyBefore(key) ? previous.history : (historyFromStore.get(key) ?? []);
+      const result = evaluateGroupRows(buffer, rows, targets.get(key) ?? new Map(), history);
+      previous = { key, history: historyOfGroup(buffer, rows, result) };
+      const { z, rules, timeOrder } = result;
       const procedureId = idOf(first.procedure.id);
       const lotId = idOf(first.lot.id);
       const period = first.period.period;

@@ -319,6 +319,93 @@ describe('daily values', () => {
   });
 });
 
+describe('multirule sequences across a month boundary', () => {
+  // Rule definitions: Westgard et al., Clin Chem 1981;27:493–501 (4-1s = four consecutive values
+  // beyond the same 1s limit). Values invented so that February ends on three values 1.5 SD above
+  // the lab's January figures (5.0, 0.1) and March begins beyond +1 SD of its target.
+  const lot = () => h.catalogue.lot.lotNumber;
+  const valueLines = (code: string, month: string, values: number[]) =>
+    values.map(
+      (v, i) =>
+        `${month}-${String(i + 1).padStart(2, '0')}T08:00,${code},${lot()},1,${v},mmol/L,${month}-R${i + 1}`,
+    );
+  const VALUES_HEADER = 'measured_at,procedure,control_lot,level,value,unit,run';
+  const february = [4.95, 5.05, 4.9, 5.1, 5.0, 5.15, 5.15, 5.15];
+
+  async function labWithJanuary(code: string) {
+    const { lab, procedures } = await h.catalogue.makeLabWithProcedures([
+      { code, model: h.catalogue.models.y2 },
+    ]);
+    const id = await h.addUpload({
+      labId: lab.id,
+      kind: 'qc-summary',
+      content: `${SUMMARY_HEADER}\n2026-01,${code},${lot()},1,20,5.0,0.1,mmol/L\n`,
+    });
+    await h.enqueue(id);
+    await h.waitForStatus(id, ['stored']);
+    return { lab, procedureId: procedures[0].id };
+  }
+  async function upload(labId: string, lines: string[]) {
+    const id = await h.addUpload({ labId, kind: 'qc-values', content: [VALUES_HEADER, ...lines].join('\n') });
+    await h.enqueue(id);
+    expect((await h.waitForStatus(id, ['stored', 'needs-review', 'failed'])).status).toBe('stored');
+  }
+  async function storedValues(procedureId: string, period: string) {
+    return h.db
+      .select()
+      .from(qcValues)
+      .where(and(eq(qcValues.procedureId, procedureId), eq(qcValues.period, period)))
+      .orderBy(qcValues.measuredAt);
+  }
+  /** March's expected results: its target is January's summary and February's values pooled (METHODS §1). */
+  function expectedMarch(march: number[], history: { level: number; z: number }[]) {
+    const target = pool([{ n: 20, mean: 5.0, sd: 0.1 }, summarize(february)]);
+    return evaluateMultirule(
+      march.map((value, i) => ({ run: `2026-03-R${i + 1}`, level: 1, value })),
+      { 1: { mean: target.mean, sd: target.sd } },
+      { history },
+    );
+  }
+
+  it('when February is stored and March starts beyond +1s, then the first March run is rejected by 4-1s and February keeps its results', async () => {
+    const { lab, procedureId } = await labWithJanuary('GLU-4A');
+    await upload(lab.id, valueLines('GLU-4A', '2026-02', february));
+    const feb = await storedValues(procedureId, '2026-02');
+    expect(feb.slice(-3).map((r) => r.z)).toEqual([1.5, 1.5, 1.5].map((z) => expect.closeTo(z, 9)));
+    expect(feb.every((r) => !r.rules.includes('4-1s'))).toBe(true);
+
+    const march = [5.2, 5.0, 4.95, 5.05];
+    await upload(lab.id, valueLines('GLU-4A', '2026-03', march));
+    const stored = await storedValues(procedureId, '2026-03');
+    expect(stored[0].rules).toContain('4-1s');
+    expect(stored.slice(1).every((r) => r.rules.length === 0)).toBe(true);
+    const expected = expectedMarch(
+      march,
+      feb.map((r) => ({ level: 1, z: r.z! })),
+    );
+    stored.forEach((row, k) => expect([...row.rules].sort()).toEqual([...expected.points[k].rules].sort()));
+    // February's stored results are not touched by March's evaluation.
+    expect((await storedValues(procedureId, '2026-02')).map((r) => r.rules)).toEqual(feb.map((r) => r.rules));
+  });
+
+  it('when one file holds February and March, then the sequence runs across the boundary as well', async () => {
+    const { lab, procedureId } = await labWithJanuary('GLU-4B');
+    await upload(lab.id, [
+      ...valueLines('GLU-4B', '2026-02', february),
+      ...valueLines('GLU-4B', '2026-03', [5.2, 5.0]),
+    ]);
+    expect((await storedValues(procedureId, '2026-03'))[0].rules).toContain('4-1s');
+  });
+
+  it('when February already ended on a 4-1s (rejected there), then a March value that does not continue it is no new violation', async () => {
+    const { lab, procedureId } = await labWithJanuary('GLU-4C');
+    await upload(lab.id, valueLines('GLU-4C', '2026-02', [4.95, 5.05, 5.0, 5.15, 5.15, 5.15, 5.15]));
+    expect((await storedValues(procedureId, '2026-02')).at(-1)!.rules).toContain('4-1s');
+    await upload(lab.id, valueLines('GLU-4C', '2026-03', [5.03, 4.98]));
+    expect((await storedValues(procedureId, '2026-03')).map((r) => r.rules)).toEqual([[], []]);
+  });
+});
+
 describe('exactly once', () => {
   it('when the queue has lost an upload (e.g. Redis restarted), then recovery enqueues it again from PostgreSQL', async () => {
     const { lab } = await h.catalogue.makeLabWithProcedures([{ code: 'GLU1' }]);
