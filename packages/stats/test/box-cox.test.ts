@@ -33,18 +33,18 @@ describe('boxCox and boxCoxInverse', () => {
 });
 
 describe('boxCoxLogLikelihood and boxCoxLambda', () => {
-  it('when evaluated, then the log-likelihood equals scipy.stats.boxcox_llf (scipy 1.17.1, reference library)', () => {
+  it('when evaluated, then the log-likelihood equals scipy.stats.boxcox_llf (computed once with scipy 1.17.1, a reference library; not a publication)', () => {
     expect(boxCoxLogLikelihood([1, 2, 3, 4, 5], 1)).toBeCloseTo(-1.732867951399863, 10);
     expect(boxCoxLogLikelihood(skewed, 0.5)).toBeCloseTo(-32.22942053314949, 10);
     expect(boxCoxLogLikelihood(skewed, 0)).toBeCloseTo(-30.38057005354994, 10);
   });
 
-  it('when maximised, then λ equals scipy.stats.boxcox_normmax(method="mle") = 0.0479916 (scipy 1.17.1)', () => {
+  it('when maximised, then λ equals scipy.stats.boxcox_normmax(method="mle") = 0.0479916 (computed once with scipy 1.17.1)', () => {
     expect(boxCoxLambda(skewed)).toBeCloseTo(0.047991566419150165, 6);
   });
 
   it.skipIf(!nhanes.present)(
-    `when given NHANES 2017–2018 adult ALT (n = 5106), then λ equals scipy's -0.3807502 (CDC/NCHS data; scipy 1.17.1) ${nhanes.skipReason}`,
+    `when given NHANES 2017–2018 adult ALT (n = 5106), then λ equals -0.3807502 computed once with scipy 1.17.1 (CDC/NCHS data; a computation, not a published value) ${nhanes.skipReason}`,
     () => {
       const alt = readNhanesAdults('LBXSATSI');
       expect(alt.length).toBe(5106);

@@ -21,7 +21,8 @@ interface Scenario {
 
 const z975 = 1.959963984540054;
 const gaussianWithTails: Scenario = {
-  // 80 % healthy N(140, 2²) (limits 136.08 / 143.92, CHECKS.md) + 8 % N(130, 4²) + 12 % N(150, 4²).
+  // 80 % healthy N(140, 2²) (limits 140 ∓ z₀.₉₇₅·2 = 136.08 / 143.92, computed from the normal quantile;
+  // CHECKS.md) + 8 % N(130, 4²) + 12 % N(150, 4²). z₀.₉₇₅ is the standard normal quantile (textbook value).
   name: '80 % N(140, 2²) with 20 % pathological tails',
   truth: [140 - z975 * 2, 140 + z975 * 2],
   sd: 2,

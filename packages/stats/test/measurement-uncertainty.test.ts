@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { measurementUncertainty, peerMeanUncertaintyPct, robustMeanSd } from '../src/index.ts';
 
-// Nordtest TR 537 (ed. 4) formulas; no worked example was re-read for this test, so the expected
-// values are computed by hand from the formulas (check by construction).
+// Nordtest TR 537 (ed. 4) formulas, from memory of the handbook; no worked example was re-read for this
+// test, so the expected values are computed by hand from the formulas (check by construction).
 describe('measurementUncertainty (Nordtest TR 537)', () => {
   it('when given a CV and peer comparisons, then u(Rw), RMS bias, u(Cref), u(bias), uc and U = 2·uc follow the formulas', () => {
     const result = measurementUncertainty({

@@ -6,7 +6,7 @@ import { readNistDataset, referenceFolder, relativeError } from './helpers/refer
 const nist = referenceFolder('nist-strd');
 
 describe.skipIf(!nist.present)(`pool: Lew monthly split ${nist.skipReason}`, () => {
-  it('when Lew.dat is split in file order into 10 months of 20 and pooled, then the certified mean and SD return (NIST StRD; CHECKS.md)', () => {
+  it('when Lew.dat is split in file order into 10 months of 20 and pooled, then the certified mean and SD return (NIST StRD certified values, published; the monthly split is our consistency check, CHECKS.md)', () => {
     const lew = readNistDataset('Lew');
     const months = Array.from({ length: 10 }, (_, i) => summarize(lew.slice(20 * i, 20 * i + 20)));
     const pooled = pool(months);

@@ -21,7 +21,9 @@ describe('rankConfidenceInterval', () => {
     });
   }
 
-  it('when n = 120, then the 97.5th percentile CI spans ranks 114–120 (EP28-A3c)', () => {
+  // Ranks 114–120 mirror the lower limit's 1–7 for n = 120 (n + 1 − r); listed with the EP28-A3c values in
+  // CHECKS.md and confirmed by the binomial computation in the property test below.
+  it('when n = 120, then the 97.5th percentile CI spans ranks 114–120 (EP28-A3c, by symmetry of ranks 1–7)', () => {
     expect(rankConfidenceInterval(120, 0.975)).toEqual([114, 120]);
   });
 

@@ -31,7 +31,7 @@ describe.skipIf(!nist.present)(`summarize against NIST StRD certified values ${n
     });
   }
 
-  it('when given Michelso.dat, then CV % = 100 · certified SD / certified mean (definition, METHODS.md §1)', () => {
+  it('when given Michelso.dat, then CV % = 100 · certified SD / certified mean (computed from the certified values by the definition; NIST certifies no CV)', () => {
     expect(summarize(readNistDataset('Michelso')).cv).toBeCloseTo((100 * 0.0790105478190518) / 299.8524, 12);
   });
 

@@ -99,7 +99,7 @@ describe('unit preference', () => {
     const pair = (code: string, level: number) =>
       [si, conventional].map((r) => r.rows.find((x) => x.procedure.code === code && x.level === level)!);
 
-    // Glucose: mg/dL = mmol/L × 18.016 (molar mass 180.16 g/mol; CHECKS.md "Units", textbook factor).
+    // Glucose: mg/dL = mmol/L × 18.016 (molar mass 180.16 g/mol; CHECKS.md "Units": common practice, textbook factor).
     const [gluSi, gluConv] = pair('GLU1', 1);
     expect(gluConv.unit).toBe('mg/dL');
     expect(gluConv.canonicalUnit).toBe('mmol/L');
@@ -112,7 +112,7 @@ describe('unit preference', () => {
     expect(gluConv.cvr).toBe(gluSi.cvr);
     expect(gluConv.biasPct).toBe(gluSi.biasPct);
 
-    // Creatinine: mg/dL = µmol/L ÷ 88.42 (CHECKS.md "Units", textbook factor). With the catalogue's
+    // Creatinine: mg/dL = µmol/L ÷ 88.42 (CHECKS.md "Units": common practice, textbook factor). With the catalogue's
     // 113.12 g/mol the exact factor is 10000 / 113.12 = 88.40; the textbook's rounding differs by 0.03 %.
     const [creaSi, creaConv] = pair('CREA1', 2);
     expect(creaConv.unit).toBe('mg/dL');
