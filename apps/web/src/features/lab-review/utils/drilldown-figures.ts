@@ -62,7 +62,12 @@ export function uncertaintyComponents(u: NonNullable<Drilldown['uncertainty']>):
       valuePct: u.rmsBias,
       basis: `${u.comparisons.length} peer comparison${u.comparisons.length === 1 ? '' : 's'}`,
     },
-    { key: 'uRef', label: 'u(Cref) peer mean', valuePct: u.uRef, basis: 'robust SD of the lab means / (peer mean · √labs), averaged' },
+    {
+      key: 'uRef',
+      label: 'u(Cref) peer mean',
+      valuePct: u.uRef,
+      basis: 'robust SD of the lab means / (peer mean · √labs), averaged',
+    },
     { key: 'uBias', label: 'u(bias)', valuePct: u.uBias, basis: '√(RMS bias² + u(Cref)²)' },
     { key: 'uc', label: 'uc combined', valuePct: u.uc, basis: '√(u(Rw)² + u(bias)²)', result: true },
     { key: 'U', label: `U expanded (k = ${u.k})`, valuePct: u.U, basis: `${u.k} × uc`, result: true },
