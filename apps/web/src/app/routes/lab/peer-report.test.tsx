@@ -58,6 +58,32 @@ describe('peer report page', () => {
     expect(screen.queryByRole('button', { name: /^Sign off/ })).toBeNull();
   });
 
+  it('when a row’s TEa rule has an absolute part that governs at its level, then the sigma explanation says so', async () => {
+    const report = buildLabReport('2026-11');
+    const [first, ...rest] = report.rows;
+    report.rows = [
+      {
+        ...first,
+        analyte: { ...first.analyte, teaAbsolute: 0.3 },
+        tea: { pct: 7.5, governing: 'absolute' },
+        sigma: 2.5,
+      },
+      ...rest,
+    ];
+    mockApi({
+      'GET /api/me': { status: 200, body: buildMe('analyst') },
+      'GET /api/periods': { status: 200, body: periods },
+      [`GET ${lab}/peer-report`]: { status: 200, body: report },
+      [`GET ${lab}/comments`]: { status: 200, body: [] },
+      [`GET ${lab}/signoffs/2026-11`]: { status: 200, body: { period: '2026-11', signoff: null } },
+    });
+    renderApp('/lab/peer-report?period=2026-11', { signedInAs: 'analyst' });
+    await screen.findByRole('table', { name: 'Peer report of November 2026' });
+    const explanation = within(reportTable()).getByText(/the absolute part governs/);
+    expect(explanation.textContent).toContain('± 0.3 mmol/L or ± 5.8 %, whichever is greater');
+    expect(explanation.textContent).toContain('7.50 % at this level');
+  });
+
   it('when the report is published, then its version shows and a comment shows under its row', async () => {
     mockApi({
       'GET /api/me': { status: 200, body: buildMe('analyst') },
