@@ -54,9 +54,9 @@ export interface PeerStatistics {
 export const DEFAULT_MIN_LABS = 3;
 export const DEFAULT_MIN_LABS_FOR_SCREENING = 5;
 /**
- * In groups of 3 to minLabsForScreening − 1 labs, a lab mean further than this many scale units
- * from the median of the lab means is a gross error (e.g. a unit or decimal-point mistake) and is
- * left out; the scale is the larger of Algorithm A's start s* and the median within-lab SD.
+ * In groups of at least 3 labs, a lab mean further than this many scale units from the median of
+ * the lab means is a gross error (e.g. a unit or decimal-point mistake) and is left out before
+ * Algorithm A; the scale is the larger of 1.483 · MAD of the means and the median within-lab SD.
  */
 export const GROSS_ERROR_FACTOR = 10;
 
@@ -69,9 +69,10 @@ export const GROSS_ERROR_FACTOR = 10;
  *    This screen runs only with at least `minLabsForScreening` labs (default 5: with 4 labs, one
  *    far lab breaks Algorithm A down to the plain mean and SD), only when s* > 0 (s* falls back to
  *    the mean-absolute-deviation scale when more than half the means are equal, see
- *    robustMeanSd) and only when Algorithm A converged. With 3 labs up to that minimum, a
- *    gross-error screen runs instead (median ± GROSS_ERROR_FACTOR · scale, see below) before
- *    Algorithm A, so one absurd mean cannot carry the figures to infinity.
+ *    robustMeanSd) and only when Algorithm A converged. Before Algorithm A, with at least 3 labs,
+ *    a gross-error screen (median ± GROSS_ERROR_FACTOR · scale, see below) leaves out absurd
+ *    means, so with 3–4 labs, or several absurd labs, the figures cannot be carried to infinity;
+ *    x* and s* are those of the labs that pass it.
  * 3. Peer mean = Σnᵢx̄ᵢ / Σnᵢ; peer SD = total SD by the pooling formula (within-lab plus
  *    between-lab); pooled within-lab SD and CV; `sufficient` = at least `minLabs` labs remain.
  * With one lab remaining, robustSd is NaN; with none, every figure is NaN; the CVs are NaN when
@@ -124,10 +125,7 @@ export function peerStatistics(
 
   let robustMean = Number.NaN;
   let robustSd = Number.NaN;
-  let kept = candidates;
-  if (candidates.length >= 3 && candidates.length < minLabsForScreening) {
-    kept = screenGrossErrors(candidates, excluded);
-  }
+  let kept = candidates.length >= 3 ? screenGrossErrors(candidates, excluded) : candidates;
   if (kept.length === 1) {
     robustMean = kept[0].mean;
   } else if (kept.length >= 2) {
@@ -147,8 +145,8 @@ export function peerStatistics(
       kept = screened;
     }
   }
-  checkFigure(fn, 'robust mean x*', robustMean, kept);
-  checkFigure(fn, 'robust SD s*', robustSd, kept);
+  checkFigure(fn, 'robust mean x*', robustMean, candidates);
+  checkFigure(fn, 'robust SD s*', robustSd, candidates);
 
   const base = { robustMean, robustSd, excluded, sufficient: kept.length >= minLabs };
   if (kept.length === 0) {
@@ -181,18 +179,24 @@ export function peerStatistics(
 }
 
 /**
- * Gross-error screen for groups too small for Algorithm A's iteration (3 or 4 labs by default): a
- * lab whose mean lies further than GROSS_ERROR_FACTOR · scale from the median of the means is left
- * out as an outlier (pushed onto `excluded`). scale = max(Algorithm A start s*, median lab SD): the
- * start values are median-based, so one absurd mean cannot move them, and the within-lab SD floor
- * keeps two nearly equal means from making a genuine third lab look far away.
+ * Gross-error screen, run before Algorithm A on every group of at least 3 labs: a lab whose mean lies
+ * further than GROSS_ERROR_FACTOR · scale from the median of the means is left out as an outlier
+ * (pushed onto `excluded`). scale = max(1.483 · MAD of the means, median lab SD), or the mean
+ * absolute deviation scale when both are 0. The MAD cannot be moved by absurd means while they are
+ * fewer than half, and the within-lab SD floor keeps two nearly equal means from making a genuine
+ * third lab look far away. Needed because Algorithm A breaks down with 3–4 labs and one far mean,
+ * and its mean-absolute-deviation fallback (most means equal) is inflated by several far means.
  */
 function screenGrossErrors(labs: readonly LabSummary[], excluded: PeerExclusion[]): LabSummary[] {
   const start = algorithmAStart(labs.map((lab) => lab.mean));
   const sds = Float64Array.from(labs, (lab) => lab.sd).sort();
   const middle = sds.length >> 1;
   const medianSd = sds.length % 2 === 1 ? sds[middle] : (sds[middle - 1] + sds[middle]) / 2;
-  const limit = GROSS_ERROR_FACTOR * Math.max(start.sd, medianSd);
+  // The MAD-based scale, not its mean-absolute-deviation fallback: far values inflate the fallback.
+  let scale = Math.max(start.madSd, medianSd);
+  if (scale === 0) scale = start.sd; // no spread within labs and most means equal
+  if (scale === 0) return [...labs]; // every mean equal
+  const limit = GROSS_ERROR_FACTOR * scale;
   const kept: LabSummary[] = [];
   for (const lab of labs) {
     if (Math.abs(lab.mean - start.mean) > limit) excluded.push({ id: lab.id, reason: 'outlier' });

@@ -130,16 +130,17 @@ function meanAbsoluteDeviationScale(deviations: Float64Array): number {
 }
 
 /**
- * Algorithm A's start values without iterating: x* = median, s* = 1.483 · median|xᵢ − x*|, or the
- * mean-absolute-deviation scale when more than half the values are equal. Median-based, so one far
- * value cannot move them (the iteration can, with fewer than 5 values). Values must be finite.
+ * Algorithm A's start values without iterating: x* = median, s* = 1.483 · median|xᵢ − x*| (`madSd`),
+ * or in `sd` the mean-absolute-deviation scale when more than half the values are equal. `madSd` is
+ * median-based, so far values cannot move it while they are fewer than half (the iteration can, with
+ * fewer than 5 values). Values must be finite.
  */
-export function algorithmAStart(values: ArrayLike<number>): { mean: number; sd: number } {
+export function algorithmAStart(values: ArrayLike<number>): { mean: number; sd: number; madSd: number } {
   const sorted = Float64Array.from(values).sort();
   const center = medianOfSorted(sorted);
   const deviations = sorted.map((x) => Math.abs(x - center)).sort();
-  const sd = 1.483 * medianOfSorted(deviations);
-  return { mean: center, sd: sd > 0 ? sd : meanAbsoluteDeviationScale(deviations) };
+  const madSd = 1.483 * medianOfSorted(deviations);
+  return { mean: center, sd: madSd > 0 ? madSd : meanAbsoluteDeviationScale(deviations), madSd };
 }
 
 /** Number of sorted values strictly below x. */

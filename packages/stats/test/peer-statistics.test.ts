@@ -122,7 +122,7 @@ describe('peerStatistics', () => {
     expect(peerStatistics(labs).excluded).toEqual([]);
   });
 
-  it('when 4 labs include one far away, then Algorithm A breaks down and the far lab is not caught (why the default is 5)', () => {
+  it('when 4 labs include one far away, then Algorithm A alone breaks down (why its screen needs 5) and the gross-error screen catches the far lab first', () => {
     // With 3 close values and 1 clipped at x* + 1.5s*, the winsorised SD equals s*, so s* grows by
     // 1.134 per iteration until nothing is clipped: x* and s* end as the plain mean and 1.134 · SD
     // (derived from the ISO 13528 Annex C iteration; checked here against that closed form).
@@ -131,7 +131,9 @@ describe('peerStatistics', () => {
     expect(broken.mean).toBeCloseTo(summarize(values).mean, 10);
     expect(broken.sd).toBeCloseTo(1.134 * summarize(values).sd, 10);
     const labs = [...isoLabs.slice(0, 3), { id: 'far', n: 20, mean: 40, sd: 0.1 }];
-    expect(peerStatistics(labs, { minLabsForScreening: 4 }).excluded).toEqual([]);
+    expect(peerStatistics(labs, { minLabsForScreening: 4 }).excluded).toEqual([
+      { id: 'far', reason: 'outlier' },
+    ]);
   });
 
   it('when most lab means are equal (MAD = 0), then the screen still runs on the fallback scale √(π/2) · mean|x − median| (documented choice)', () => {
@@ -141,6 +143,19 @@ describe('peerStatistics', () => {
     // beyond 5 + 3s* ≈ 5.69 and 5.1 does not.
     expect(result.robustSd).toBeCloseTo(Math.sqrt(Math.PI / 2) * (1.1 / 6), 12);
     expect(result.excluded).toEqual([{ id: 'L5', reason: 'outlier' }]);
+  });
+
+  it('when most lab means are equal and two labs are absurd on either side, then both are left out and the figures are finite', () => {
+    // The mean-absolute-deviation fallback alone would be inflated by the two far means
+    // (√(π/2) · 2e300/5 > 1e300/3); the gross-error screen's MAD-based scale is not.
+    const labs = [5, 5, 5, 1e300, -1e300].map((mean, i) => ({ id: `L${i}`, n: 10, mean, sd: 0.1 }));
+    const result = peerStatistics(labs);
+    expect(result.excluded).toEqual([
+      { id: 'L3', reason: 'outlier' },
+      { id: 'L4', reason: 'outlier' },
+    ]);
+    expect(result.mean).toBe(5);
+    expect(Number.isFinite(result.sd)).toBe(true);
   });
 
   it('when two labs are too far apart to pool in double precision, then it throws naming the figure', () => {
