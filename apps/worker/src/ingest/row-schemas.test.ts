@@ -10,6 +10,11 @@ const glucose = {
   analyteName: 'Glucose',
   analyteUnit: 'mmol/L',
   molarMass: 180.16,
+  // Plausibility limits for the tests only (common practice, not a published range).
+  plausibleLow: 0.5,
+  plausibleHigh: 50,
+  plausibilitySource: 'common practice',
+  allowsNegative: false,
 };
 const context = (decimalComma = false): RowContext => ({
   decimalComma,
@@ -19,6 +24,8 @@ const context = (decimalComma = false): RowContext => ({
   ]),
   periods: new Map([['2026-03', { period: '2026-03', state: 'open' as const }]]),
   units: new UnitConverter(),
+  // The defaults of the network's settings (INGEST_MAX_CV_PCT, INGEST_MAX_N).
+  limits: { maxCvPct: 50, maxN: 10_000 },
 });
 const row = {
   period: '2026-03',

@@ -1,6 +1,5 @@
 import { randomUUID } from 'node:crypto';
 import {
-  MAX_STORED_ROW_ERRORS,
   canonicalColumns,
   columnMappingProblems,
   detectDecimalComma,
@@ -19,7 +18,7 @@ import {
   type UploadPreview,
   type UploadSummary,
 } from '@plumbline/contracts';
-import { recordAudit } from '@plumbline/db';
+import { recordAudit, thresholds } from '@plumbline/db';
 import type { AppDeps } from '../../deps.ts';
 import type { Principal } from '../../auth/principal.ts';
 import { actorOf } from '../../auth/principal.ts';
@@ -177,8 +176,8 @@ export async function getUploadDetail(
   return {
     ...toSummary(row),
     errors: row.errors as UploadDetail['errors'],
-    // The worker keeps at most MAX_STORED_ROW_ERRORS errors; reaching the cap means some were left out.
-    errorsTruncated: row.errors.length >= MAX_STORED_ROW_ERRORS,
+    // The worker keeps at most the configured number of errors; reaching the cap means some were left out.
+    errorsTruncated: row.errors.length >= thresholds().maxRowErrors,
     columnMapping: row.columnMapping ?? null,
   };
 }
