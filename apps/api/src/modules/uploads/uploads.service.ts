@@ -6,6 +6,8 @@ import {
   detectDelimiter,
   firstLine,
   parseCsvStart,
+  sniffTextFile,
+  duplicateHeader,
   stripBom,
   suggestMapping,
   uploadFieldsSchema,
@@ -269,13 +271,9 @@ export async function previewUpload(
 ): Promise<UploadPreview> {
   const kind = parseInput(uploadKindSchema, input.fields.kind, 'kind');
   const labId = uploadLabFor(principal, input.fields.labId || undefined);
-  if (
-    input.head.length >= 2 &&
-    ((input.head[0] === 0xff && input.head[1] === 0xfe) || (input.head[0] === 0xfe && input.head[1] === 0xff))
-  ) {
-    throw badRequest(`"${input.filename}" is saved as UTF-16. Save it as UTF-8 (CSV UTF-8) and try again.`);
-  }
-  const decoded = new TextDecoder('utf-8').decode(input.head);
+  const sniffed = sniffTextFile(input.head, input.complete);
+  if ('problem' in sniffed) throw badRequest(`"${input.filename}": ${sniffed.problem}`);
+  const decoded = new TextDecoder(sniffed.encoding, { ignoreBOM: true }).decode(input.head);
   const { text, bom } = stripBom(decoded);
   if (text.trim() === '') throw badRequest(`The file "${input.filename}" is empty.`);
   const delimiter = detectDelimiter(firstLine(text));
@@ -283,6 +281,12 @@ export async function previewUpload(
     maxRows: PREVIEW_ROWS + 1,
     complete: input.complete,
   });
+  const repeated = duplicateHeader(headers.map((h) => h.trim()));
+  if (repeated !== null) {
+    throw badRequest(
+      `"${input.filename}": the header names the column "${repeated.trim()}" more than once; remove or rename one of them.`,
+    );
+  }
   const saved = await repo.findColumnMapping(deps.db, labId, kind);
   const suggestion = suggestMapping(
     kind,
