@@ -19,16 +19,6 @@ export function plausibleFigure(ctx: Ctx, column: string, value: number, procedu
     reject(ctx, column, 'not_finite', `${column} is not a finite number once converted to ${unit}`);
     return false;
   }
-  const magnitude = Math.abs(value);
-  if (magnitude !== 0 && (magnitude < MIN_MAGNITUDE || magnitude > MAX_MAGNITUDE)) {
-    reject(
-      ctx,
-      column,
-      'out_of_range',
-      `${column} ${shown(value)} ${unit} is outside the range figures are computed in (1e-100 to 1e100)`,
-    );
-    return false;
-  }
   const { plausibleLow: low, plausibleHigh: high } = procedure;
   if ((low !== null && value < low) || (high !== null && value > high)) {
     const range = `${low ?? '−∞'} to ${high ?? '∞'} ${unit}`;
@@ -38,6 +28,16 @@ export function plausibleFigure(ctx: Ctx, column: string, value: number, procedu
       column,
       'implausible_value',
       `${column} ${shown(value)} ${unit} is outside the plausible range of ${procedure.analyteName} (${range}${source})`,
+    );
+    return false;
+  }
+  const magnitude = Math.abs(value);
+  if (magnitude !== 0 && (magnitude < MIN_MAGNITUDE || magnitude > MAX_MAGNITUDE)) {
+    reject(
+      ctx,
+      column,
+      'out_of_range',
+      `${column} ${shown(value)} ${unit} is outside the range figures are computed in (1e-100 to 1e100)`,
     );
     return false;
   }
