@@ -1,14 +1,7 @@
 import { parse, CsvError } from 'csv-parse';
 import { Readable, pipeline } from 'node:stream';
 import { StringDecoder } from 'node:string_decoder';
-import {
-  detectDelimiter,
-  firstLine,
-  sniffTextFile,
-  stripBom,
-  type Delimiter,
-  type RowError,
-} from '@plumbline/contracts';
+import { detectDelimiter, firstLine, sniffTextFile, stripBom, type Delimiter } from '@plumbline/contracts';
 import { textBytes } from './text-bytes.ts';
 import { FileFormatError } from './file-format-error.ts';
 

@@ -19,8 +19,7 @@ const post = (path: string, body: object) =>
   request(t.app).post(`/api${path}`).set('Authorization', coordinator.auth).send(body);
 const patch = (path: string, body: object) =>
   request(t.app).patch(`/api${path}`).set('Authorization', coordinator.auth).send(body);
-const paths = (res: request.Response) =>
-  res.body.error.details.map((d: { path: string }) => d.path).sort();
+const paths = (res: request.Response) => res.body.error.details.map((d: { path: string }) => d.path).sort();
 
 // Limits and TEa parts below are test inputs (common practice), not published figures.
 const glucose = (overrides: Record<string, unknown> = {}) => ({
