@@ -554,3 +554,39 @@ describe('malformed monthly files', () => {
     30_000,
   );
 });
+
+describe('the upload preview', () => {
+  const preview = (content: Buffer) =>
+    request(t.app)
+      .post('/api/uploads/preview')
+      .set('Authorization', analyst.auth)
+      .field('kind', 'qc-summary')
+      .attach('file', content, 'monthly.csv');
+
+  it('when the file is a gzip archive, then 400 says it is not a text file', async () => {
+    const res = await preview(gzipSync(Buffer.from(`${HEADER}\n`)));
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toBe(
+      '"monthly.csv": This is not a text file: it looks like a gzip archive.',
+    );
+  });
+
+  it('when the header names a column twice, then 400 names the column', async () => {
+    const res = await preview(Buffer.from(`${HEADER},mean\n`));
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toMatch(/"mean" more than once/);
+  });
+
+  it('when the file is Windows-1252 text, then the preview decodes it', async () => {
+    // E4 is "ä" in Windows-1252 (WHATWG index-windows-1252).
+    const res = await preview(
+      Buffer.concat([
+        Buffer.from(`${HEADER},Bemerkung\n2026-02,GLU1,L,1,20,5.5,0.1,mmol/L,M`),
+        Buffer.from([0xe4]),
+        Buffer.from('rz\n'),
+      ]),
+    );
+    expect(res.status).toBe(200);
+    expect(res.body.rows[0].at(-1)).toBe('März');
+  });
+});
