@@ -41,6 +41,9 @@ describe('catalogue page', () => {
     expect(rows).toHaveLength(2);
     expect(rows[0].textContent).toContain('2345-7');
     expect(rows[0].textContent).toContain('6.9 %');
+    // Both TEa parts, as the rule reads ("± X or Y %"), and the plausibility limits.
+    expect(rows[0].textContent).toContain('± 0.33 mmol/L or 6.9 %');
+    expect(rows[0].textContent).toContain('0.5 – 50');
     expect(rows[1].textContent).toContain('Sodium');
     expect(within(rows[1]).getByText('Retired')).toBeTruthy();
     expect(within(rows[1]).getByRole('button', { name: 'Restore NA' })).toBeTruthy();
