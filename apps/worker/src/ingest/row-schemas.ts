@@ -8,10 +8,10 @@ import {
 import { parseDecimal, parseWholeNumber } from './numbers.ts';
 import { IssueFlag, reject, type Ctx } from './row-issues.ts';
 import { plausibleFigure, plausibleSummary, shown } from './plausibility.ts';
-
-export { IssueFlag };
 import { parseMeasuredAt } from './timestamps.ts';
 import { normalizeUnit, type Conversion, type UnitConverter } from './units.ts';
+
+export { IssueFlag };
 
 /** A lab's procedure as the rows refer to it by code. */
 export type ProcedureInfo = {
@@ -58,6 +58,8 @@ const PERIOD = /^(\d{4})-(0[1-9]|1[0-2])$/;
  * object is built per row), and runs the zod schema only for a row that got an issue, to report it:
  * the same checks decide in both cases.
  */
+
+/** The trimmed text of a required cell. */
 function requiredText(ctx: Ctx, column: string, text: string): string | undefined {
   const value = text.trim();
   if (value === '') return reject(ctx, column, 'required', `${column} is empty`);
