@@ -1,11 +1,13 @@
 import { Redis } from 'ioredis';
-import { createDb } from '@plumbline/db';
+import { createDb, thresholds } from '@plumbline/db';
 import { loadEnv } from './config/env.ts';
 import { createApp } from './app.ts';
 import { createFileStorage } from './storage/index.ts';
 import { createIngestQueue } from './queues/ingest-queue.ts';
 
 const env = loadEnv();
+// Read now, so a bad threshold setting stops the API at start-up.
+thresholds();
 const { db, pool } = createDb(env.DATABASE_URL);
 const redis = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
 const ingestQueue = createIngestQueue(redis, env.QUEUE_PREFIX);

@@ -1,10 +1,12 @@
 import { Redis } from 'ioredis';
-import { createDb } from '@plumbline/db';
+import { createDb, thresholds } from '@plumbline/db';
 import { loadWorkerEnv } from './config/env.ts';
 import { createFileSource } from './storage/file-source.ts';
 import { startIngestWorker } from './queues/ingest.queue.ts';
 
 const env = loadWorkerEnv();
+// Read now, so a bad threshold setting stops the worker at start-up.
+const limits = thresholds();
 const { db, pool } = createDb(env.DATABASE_URL);
 const connection = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
 const log = (message: string) => console.log(`worker: ${message}`);
@@ -14,7 +16,7 @@ const ingest = startIngestWorker(
     db,
     pool,
     files: createFileSource(env),
-    minLabs: env.PEER_MIN_LABS,
+    minLabs: limits.peerMinLabs,
     holdBeforeCommitMs: env.INGEST_HOLD_BEFORE_COMMIT_MS,
     log,
   },

@@ -69,6 +69,17 @@ export const ucumUnitSchema = z.string().trim().min(1, 'enter a UCUM unit').max(
 
 // ---------- analytes ----------
 
+const plausibleLimit = z.number().min(-1e12).max(1e12).nullable().optional();
+
+/** true/false, yes/no, 1/0 as CSV cells write them; anything else is left for the schema to refuse. */
+const textToBoolean = (value: unknown) => {
+  if (typeof value !== 'string') return value;
+  const text = value.trim().toLowerCase();
+  if (['true', 'yes', '1'].includes(text)) return true;
+  if (['false', 'no', '0'].includes(text)) return false;
+  return value;
+};
+
 const analyteFields = {
   code: catalogueCodeSchema,
   name: nameSchema,
@@ -86,8 +97,20 @@ const analyteFields = {
     .max(100, 'must be at most 100 %')
     .nullable()
     .optional(),
+  /**
+   * Absolute part of the total allowable error, in the analyte's unit: published rules read "± teaAbsolute
+   * or ± teaPct %, whichever is greater" at the control's concentration.
+   */
+  teaAbsolute: z.number().positive('must be greater than 0').max(1e9).nullable().optional(),
   teaSource: optionalText(300),
   teaDate: z.preprocess(blankToNull, z.iso.date('expected a date as YYYY-MM-DD').nullable()).optional(),
+  /** Plausibility limits in the analyte's unit: a QC figure outside them is refused at upload. */
+  plausibleLow: plausibleLimit,
+  plausibleHigh: plausibleLimit,
+  /** Where the limits come from, or "common practice". */
+  plausibilitySource: optionalText(300),
+  /** Whether results can be below zero (e.g. base excess); when not, a monthly mean must be > 0. */
+  allowsNegative: z.preprocess(textToBoolean, z.boolean()).optional(),
 };
 export const analyteCreateSchema = z.object({ ...analyteFields, reason: optionalText(500) });
 export const analyteUpdateSchema = z.object({ ...partialFields(analyteFields), reason: optionalText(500) });
@@ -175,8 +198,13 @@ export const analyteItemSchema = z.object({
   molarMass: z.number().nullable(),
   decimals: z.number(),
   teaPct: z.number().nullable(),
+  teaAbsolute: z.number().nullable(),
   teaSource: z.string().nullable(),
   teaDate: z.string().nullable(),
+  plausibleLow: z.number().nullable(),
+  plausibleHigh: z.number().nullable(),
+  plausibilitySource: z.string().nullable(),
+  allowsNegative: z.boolean(),
   ...retirable,
 });
 export const methodItemSchema = z.object({
@@ -266,7 +294,20 @@ export type ImportResult = z.infer<typeof importResultSchema>;
 export const catalogueCsvColumns = {
   analytes: {
     required: ['code', 'name', 'unit'],
-    optional: ['loinc', 'conventional_unit', 'molar_mass', 'decimals', 'tea_pct', 'tea_source', 'tea_date'],
+    optional: [
+      'loinc',
+      'conventional_unit',
+      'molar_mass',
+      'decimals',
+      'tea_pct',
+      'tea_absolute',
+      'tea_source',
+      'tea_date',
+      'plausible_low',
+      'plausible_high',
+      'plausibility_source',
+      'allows_negative',
+    ],
   },
   methods: { required: ['code', 'name'], optional: ['principle'] },
   'instrument-models': { required: ['code', 'name'], optional: ['manufacturer'] },

@@ -7,6 +7,7 @@ export * from './network-labs.ts';
 export * from './cycles.ts';
 export * from './uploads.ts';
 export * from './csv-format.ts';
+export * from './text-file.ts';
 export * from './jobs.ts';
 export * from './catalogue.ts';
 export * from './peer-report.ts';

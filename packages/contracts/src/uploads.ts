@@ -82,6 +82,15 @@ export const rowErrorCodes = [
   'unit_not_convertible',
   'too_long',
   'duplicate_row',
+  'not_text',
+  'duplicate_column',
+  'not_finite',
+  'out_of_range',
+  'implausible_value',
+  'mean_not_positive',
+  'cv_too_high',
+  'n_too_large',
+  'formula_like',
 ] as const;
 export const rowErrorCodeSchema = z.enum(rowErrorCodes);
 export type RowErrorCode = z.infer<typeof rowErrorCodeSchema>;
@@ -94,9 +103,6 @@ export const rowErrorSchema = z.object({
   message: z.string(),
 });
 export type RowError = z.infer<typeof rowErrorSchema>;
-
-/** At most this many row errors are kept per upload; `rowsRejected` still counts them all. */
-export const MAX_STORED_ROW_ERRORS = 2000;
 
 /** Canonical column name → the file's own header. */
 export const columnMappingSchema = z.record(z.string(), z.string().trim().min(1).max(200));
@@ -163,7 +169,7 @@ export type UploadSummary = z.infer<typeof uploadSummarySchema>;
 
 export const uploadDetailSchema = uploadSummarySchema.extend({
   errors: z.array(rowErrorSchema),
-  /** True when there were more row errors than MAX_STORED_ROW_ERRORS. */
+  /** True when there were more row errors than the worker keeps (INGEST_MAX_ROW_ERRORS). */
   errorsTruncated: z.boolean(),
   columnMapping: columnMappingSchema.nullable(),
 });

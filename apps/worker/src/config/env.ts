@@ -15,8 +15,6 @@ const envSchema = z.object({
   S3_SECRET_ACCESS_KEY: z.string().optional(),
   /** Uploads processed at the same time by this process. */
   INGEST_CONCURRENCY: z.coerce.number().int().min(1).max(32).default(2),
-  /** Labs a peer group needs before its figures are published (METHODS.md §2: 3, a setting). */
-  PEER_MIN_LABS: z.coerce.number().int().min(1).max(100).default(3),
   /** Peer statistics are recomputed this long (ms) after an upload is stored, so uploads arriving together share one pass… */
   PEER_RECOMPUTE_DELAY_MS: z.coerce.number().int().min(0).default(500),
   /** …and while the worker keeps ingesting, after at most this long (ms). */

@@ -1,15 +1,11 @@
 import { parse, CsvError } from 'csv-parse';
-import { Readable } from 'node:stream';
+import { Readable, pipeline } from 'node:stream';
 import { StringDecoder } from 'node:string_decoder';
-import { detectDelimiter, firstLine, stripBom, type Delimiter, type RowError } from '@plumbline/contracts';
+import { detectDelimiter, firstLine, sniffTextFile, stripBom, type Delimiter } from '@plumbline/contracts';
+import { textBytes } from './text-bytes.ts';
+import { FileFormatError } from './file-format-error.ts';
 
-/** A problem with the file as a whole (not one row): it cannot be read at all. */
-export class FileFormatError extends Error {
-  constructor(readonly error: RowError) {
-    super(error.message);
-    this.name = 'FileFormatError';
-  }
-}
+export { FileFormatError };
 
 /** One CSV record with the line number (1-based, header = line 1) on which it starts. */
 export type CsvRecord = { line: number; cells: string[] };
@@ -58,21 +54,15 @@ export async function openCsv(
     if (next.value.includes(0x0a) || next.value.includes(0x0d)) break;
   }
   const start = Buffer.concat(head);
-  if (
-    start.length >= 2 &&
-    ((start[0] === 0xff && start[1] === 0xfe) || (start[0] === 0xfe && start[1] === 0xff))
-  ) {
-    throw new FileFormatError({
-      row: 1,
-      column: null,
-      code: 'malformed_csv',
-      message: 'The file is saved as UTF-16. Save it as UTF-8 (CSV UTF-8) and upload it again.',
-    });
+  const sniffed = sniffTextFile(start, ended);
+  if ('problem' in sniffed) {
+    throw new FileFormatError({ row: 1, column: null, code: 'not_text', message: sniffed.problem });
   }
-  const { text, bom } = stripBom(start.toString('utf8'));
+  const encoding = sniffed.encoding;
+  const { text, bom } = stripBom(new TextDecoder(encoding, { ignoreBOM: true }).decode(start));
   const delimiter = detectDelimiter(firstLine(text));
 
-  async function* bytes(): AsyncGenerator<Buffer> {
+  async function* rawBytes(): AsyncGenerator<Buffer> {
     for (const chunk of head) {
       onBytes?.(chunk.length);
       yield chunk;
@@ -85,6 +75,8 @@ export async function openCsv(
       yield next.value;
     }
   }
+  // Every byte is checked (and Windows-1252 turned into UTF-8) on its way to the CSV readers.
+  const bytes = () => textBytes(rawBytes(), encoding);
 
   async function* batches(): AsyncGenerator<CsvRecord[]> {
     if (!reopen) {
@@ -110,7 +102,7 @@ export async function openCsv(
       // Stop reading this stream; csv-parse reads the file again and skips what was given.
       await iterator.return?.();
       const again = await reopen();
-      yield* csvParseBatches(again, delimiter, reader.nextLine);
+      yield* csvParseBatches(textBytes(again, encoding), delimiter, reader.nextLine);
     }
   }
 
@@ -132,14 +124,14 @@ async function* csvParseBatches(
   delimiter: Delimiter,
   fromLine: number,
 ): AsyncGenerator<CsvRecord[]> {
-  const parser = (source instanceof Readable ? source : Readable.from(source)).pipe(
-    parse({
-      delimiter,
-      bom: true,
-      relax_column_count: true,
-      record_delimiter: ['\r\n', '\n', '\r'],
-    }),
-  );
+  const parser = parse({
+    delimiter,
+    bom: true,
+    relax_column_count: true,
+    record_delimiter: ['\r\n', '\n', '\r'],
+  });
+  // pipeline (not pipe) so that an error of the source, such as a byte that is not text, reaches the parser.
+  pipeline(source instanceof Readable ? source : Readable.from(source), parser, () => {});
   let line = 1;
   let batch: CsvRecord[] = [];
   try {

@@ -1,6 +1,11 @@
 import { and, eq, inArray, isNull, sql } from 'drizzle-orm';
 import { uploads, type Executor } from '@plumbline/db';
-import type { ColumnMapping, RowError, UploadKind } from '@plumbline/contracts';
+import {
+  stripControlCharacters,
+  type ColumnMapping,
+  type RowError,
+  type UploadKind,
+} from '@plumbline/contracts';
 import type { LotInfo, PeriodInfo, ProcedureInfo } from './row-schemas.ts';
 
 export type UploadRecord = typeof uploads.$inferSelect;
@@ -39,6 +44,18 @@ export async function saveProgress(db: Executor, id: string, progress: number): 
     .where(and(eq(uploads.id, id), eq(uploads.status, 'processing')));
 }
 
+/**
+ * Row errors as they are stored: messages and column names quote the file, so control characters
+ * (NUL above all, which PostgreSQL refuses in JSON) are removed first.
+ */
+export function storableErrors(errors: readonly RowError[]): RowError[] {
+  return errors.map((e) => ({
+    ...e,
+    column: e.column === null ? null : stripControlCharacters(e.column),
+    message: stripControlCharacters(e.message),
+  }));
+}
+
 export async function markNeedsReview(
   db: Executor,
   id: string,
@@ -47,7 +64,13 @@ export async function markNeedsReview(
 ): Promise<boolean> {
   const rows = await db
     .update(uploads)
-    .set({ status: 'needs-review', progress: 1, ...counts, errors, updatedAt: new Date() })
+    .set({
+      status: 'needs-review',
+      progress: 1,
+      ...counts,
+      errors: storableErrors(errors),
+      updatedAt: new Date(),
+    })
     .where(and(eq(uploads.id, id), eq(uploads.status, 'processing')))
     .returning({ id: uploads.id });
   return rows.length === 1;
@@ -61,7 +84,13 @@ export async function markFailed(
 ): Promise<void> {
   await db
     .update(uploads)
-    .set({ status: 'failed', progress: 1, failureMessage: message, errors, updatedAt: new Date() })
+    .set({
+      status: 'failed',
+      progress: 1,
+      failureMessage: stripControlCharacters(message),
+      errors: storableErrors(errors),
+      updatedAt: new Date(),
+    })
     .where(
       and(eq(uploads.id, id), inArray(uploads.status, ['queued', 'processing']), isNull(uploads.storedAt)),
     );
@@ -83,7 +112,9 @@ export async function loadRowLookups(db: Executor, labId: string, kind: UploadKi
     select
       (select coalesce(json_agg(json_build_object(
                 'id', p.id, 'code', p.code, 'labId', p.lab_id, 'analyteId', a.id, 'analyteName', a.name,
-                'analyteUnit', a.unit, 'molarMass', a.molar_mass)), '[]'::json)
+                'analyteUnit', a.unit, 'molarMass', a.molar_mass, 'plausibleLow', a.plausible_low,
+                'plausibleHigh', a.plausible_high, 'plausibilitySource', a.plausibility_source,
+                'allowsNegative', a.allows_negative)), '[]'::json)
          from procedures p join analytes a on a.id = p.analyte_id
         where p.lab_id = ${labId} and p.retired_at is null) as procedures,
       (select coalesce(json_agg(json_build_object('id', id, 'lotNumber', lot_number, 'levels', levels)), '[]'::json)

@@ -41,6 +41,10 @@ describe('evaluateGroup', () => {
     analyteName: 'A',
     analyteUnit: 'mmol/L',
     molarMass: null,
+    plausibleLow: null,
+    plausibleHigh: null,
+    plausibilitySource: null,
+    allowsNegative: false,
   };
   const lot = { id: 'lot', lotNumber: 'L', levels: [1, 2] };
   const period = { period: '2026-03', state: 'open' as const };

@@ -10,6 +10,11 @@ const glucose = {
   analyteName: 'Glucose',
   analyteUnit: 'mmol/L',
   molarMass: 180.16,
+  // Plausibility limits for the tests only (common practice, not a published range).
+  plausibleLow: 0.5,
+  plausibleHigh: 50,
+  plausibilitySource: 'common practice',
+  allowsNegative: false,
 };
 const context = (decimalComma = false): RowContext => ({
   decimalComma,
@@ -19,6 +24,8 @@ const context = (decimalComma = false): RowContext => ({
   ]),
   periods: new Map([['2026-03', { period: '2026-03', state: 'open' as const }]]),
   units: new UnitConverter(),
+  // The defaults of the network's settings (INGEST_MAX_CV_PCT, INGEST_MAX_N).
+  limits: { maxCvPct: 50, maxN: 10_000 },
 });
 const row = {
   period: '2026-03',
@@ -130,5 +137,48 @@ describe('value rows', () => {
     expect(unknown.success ? [] : rowErrorsOf(unknown.error.issues, 3, (c) => c)).toMatchObject([
       { code: 'unknown_period' },
     ]);
+  });
+
+  it('when a comment would run as a spreadsheet formula, then it is kept behind an apostrophe (OWASP CSV Injection)', () => {
+    const result = valueRowSchema(context()).parse({ ...value, comment: '=1+1\u0007' });
+    expect(result.comment).toBe("'=1+1");
+  });
+
+  it('when a run code starts with =, then the row is refused for the run column', () => {
+    const bad = valueRowSchema(context()).safeParse({ ...value, run: '@A1' });
+    expect(bad.success ? [] : rowErrorsOf(bad.error.issues, 3, (c) => c)).toMatchObject([
+      { column: 'run', code: 'formula_like' },
+    ]);
+  });
+});
+
+describe('plausibility of summary rows (test limits 0.5–50 mmol/L, common practice)', () => {
+  it('when the mean is outside the limits once converted, then the mean column is named', () => {
+    // 1000 mg/dL glucose = 55.5 mmol/L (÷ 18.016), above 50.
+    expect(codesOf({ ...row, mean: '1000', sd: '10', unit: 'mg/dL' })).toEqual([
+      ['My mean', 'implausible_value'],
+    ]);
+    expect(codesOf({ ...row, mean: '0.4', sd: '0.01' })).toEqual([['My mean', 'implausible_value']]);
+  });
+
+  it('when the CV is above the setting or n above its maximum, then those columns are named', () => {
+    // CV = 100 · 3 / 5.5 = 54.5 % > 50 %.
+    expect(codesOf({ ...row, sd: '3' })).toEqual([['My sd', 'cv_too_high']]);
+    expect(codesOf({ ...row, sd: '2.75' })).toEqual([]); // exactly 50 %: allowed
+    expect(codesOf({ ...row, n: '10001' })).toEqual([['My n', 'n_too_large']]);
+    const strict = { ...context(), limits: { maxCvPct: 1, maxN: 10 } };
+    expect(codesOf({ ...row, n: '11' }, strict)).toEqual([
+      ['My sd', 'cv_too_high'],
+      ['My n', 'n_too_large'],
+    ]);
+  });
+
+  it('when the analyte has no limits, then a mean ≤ 0 is refused unless negative results are allowed', () => {
+    const unlimited = { ...glucose, plausibleLow: null, plausibleHigh: null };
+    const ctx = { ...context(), procedures: new Map([['GLU1', unlimited]]) };
+    expect(codesOf({ ...row, mean: '-1' }, ctx)).toEqual([['My mean', 'mean_not_positive']]);
+    const signed = { ...context(), procedures: new Map([['GLU1', { ...unlimited, allowsNegative: true }]]) };
+    expect(codesOf({ ...row, mean: '-1' }, signed)).toEqual([]);
+    expect(codesOf({ ...row, mean: '1e200', sd: '1' }, ctx)).toEqual([['My mean', 'out_of_range']]);
   });
 });

@@ -1,8 +1,17 @@
 import { z } from 'zod';
-import type { RowError, RowErrorCode } from '@plumbline/contracts';
+import {
+  isFormulaLike,
+  stripControlCharacters,
+  type RowError,
+  type RowErrorCode,
+} from '@plumbline/contracts';
 import { parseDecimal, parseWholeNumber } from './numbers.ts';
+import { IssueFlag, reject, type Ctx } from './row-issues.ts';
+import { plausibleFigure, plausibleSummary, shown } from './plausibility.ts';
 import { parseMeasuredAt } from './timestamps.ts';
 import { normalizeUnit, type Conversion, type UnitConverter } from './units.ts';
+
+export { IssueFlag };
 
 /** A lab's procedure as the rows refer to it by code. */
 export type ProcedureInfo = {
@@ -14,6 +23,12 @@ export type ProcedureInfo = {
   /** The analyte's canonical UCUM unit: values are stored in it. */
   analyteUnit: string;
   molarMass: number | null;
+  /** Plausibility limits of the analyte in `analyteUnit` (null: no limit on that side). */
+  plausibleLow: number | null;
+  plausibleHigh: number | null;
+  plausibilitySource: string | null;
+  /** Whether the quantity can be below zero; when not, a monthly mean must be > 0. */
+  allowsNegative: boolean;
 };
 export type LotInfo = { id: string; lotNumber: string; levels: readonly number[] };
 /** `signedOff`: the uploading lab's supervisor has signed this month off, so its data is read-only. */
@@ -26,6 +41,8 @@ export type RowContext = {
   lots: ReadonlyMap<string, LotInfo>;
   periods: ReadonlyMap<string, PeriodInfo>;
   units: UnitConverter;
+  /** The network's settings: highest CV (%) and n of a monthly summary. */
+  limits: { maxCvPct: number; maxN: number };
 };
 
 export const MAX_COMMENT_LENGTH = 500;
@@ -41,22 +58,8 @@ const PERIOD = /^(\d{4})-(0[1-9]|1[0-2])$/;
  * object is built per row), and runs the zod schema only for a row that got an issue, to report it:
  * the same checks decide in both cases.
  */
-type Ctx = Pick<z.RefinementCtx, 'addIssue'>;
 
-/** A context that only notes whether a check added an issue (see above). */
-export class IssueFlag implements Ctx {
-  failed = false;
-  addIssue(): void {
-    this.failed = true;
-  }
-}
-
-/** Adds an issue carrying our row error code and the column; returns undefined for the caller's value. */
-function reject(ctx: Ctx, column: string, code: RowErrorCode, message: string): undefined {
-  ctx.addIssue({ code: 'custom', message, params: { code }, path: [column] });
-  return undefined;
-}
-
+/** The trimmed text of a required cell. */
 function requiredText(ctx: Ctx, column: string, text: string): string | undefined {
   const value = text.trim();
   if (value === '') return reject(ctx, column, 'required', `${column} is empty`);
@@ -92,8 +95,26 @@ function decimalCell(ctx: Ctx, column: string, text: string, context: RowContext
   return value;
 }
 
+/**
+ * Codes never start with a character that makes a spreadsheet run the cell as a formula: such a cell
+ * is refused, not stored (OWASP, "CSV Injection").
+ */
+function codeText(ctx: Ctx, column: string, text: string): string | undefined {
+  const value = requiredText(ctx, column, text);
+  if (value === undefined) return undefined;
+  if (isFormulaLike(value)) {
+    return reject(
+      ctx,
+      column,
+      'formula_like',
+      `${column} "${value}" starts with "${value[0]}", which a spreadsheet would run as a formula; codes cannot start with =, +, - or @`,
+    );
+  }
+  return value;
+}
+
 function procedureCell(ctx: Ctx, text: string, context: RowContext): ProcedureInfo | undefined {
-  const code = requiredText(ctx, 'procedure', text);
+  const code = codeText(ctx, 'procedure', text);
   if (code === undefined) return undefined;
   const procedure = context.procedures.get(code) ?? context.procedures.get(code.toUpperCase());
   if (!procedure) {
@@ -108,7 +129,7 @@ function procedureCell(ctx: Ctx, text: string, context: RowContext): ProcedureIn
 }
 
 function lotCell(ctx: Ctx, text: string, context: RowContext): LotInfo | undefined {
-  const lotNumber = requiredText(ctx, 'control_lot', text);
+  const lotNumber = codeText(ctx, 'control_lot', text);
   if (lotNumber === undefined) return undefined;
   const lot = context.lots.get(lotNumber);
   if (!lot)
@@ -226,15 +247,12 @@ export function checkSummaryCells(cells: SummaryCells, ctx: Ctx, context: RowCon
   }
   const conversion = levelAndUnit(ctx, { procedure, lot, level, unit }, context);
   if (!conversion || sd === undefined) return z.NEVER;
-  return {
-    procedure,
-    lot,
-    level,
-    period,
-    n,
+  const converted = {
     mean: conversion.factor * mean + conversion.offset,
     sd: Math.abs(conversion.factor) * sd,
   };
+  if (!plausibleSummary(ctx, { procedure, n, ...converted }, context)) return z.NEVER;
+  return { procedure, lot, level, period, n, ...converted };
 }
 
 export type ValueRow = {
@@ -298,11 +316,14 @@ export function checkValueCells(cells: ValueCells, ctx: Ctx, context: RowContext
   const level = wholeNumberCell(ctx, 'level', cells.level, 1, 'invalid_integer');
   const value = decimalCell(ctx, 'value', cells.value, context);
   const unit = unitCell(ctx, cells.unit, context);
-  const run = cells.run.trim() || null;
+  const run = cells.run.trim() === '' ? null : codeText(ctx, 'run', cells.run);
   let comment: string | null | undefined = cells.comment.trim() || null;
   if (comment && comment.length > MAX_COMMENT_LENGTH) {
     comment = reject(ctx, 'comment', 'too_long', `comment is longer than ${MAX_COMMENT_LENGTH} characters`);
   }
+  // Free text keeps its meaning: a comment a spreadsheet would run as a formula is stored behind an
+  // apostrophe (OWASP's neutralisation), and its control characters are dropped.
+  if (comment) comment = neutraliseText(comment);
   if (
     !measuredAt ||
     !procedure ||
@@ -310,22 +331,40 @@ export function checkValueCells(cells: ValueCells, ctx: Ctx, context: RowContext
     level === undefined ||
     value === undefined ||
     unit === undefined ||
+    run === undefined ||
     comment === undefined
   ) {
     return z.NEVER;
   }
   const conversion = levelAndUnit(ctx, { procedure, lot, level, unit }, context);
   if (!conversion) return z.NEVER;
+  const converted = conversion.factor * value + conversion.offset;
+  if (!plausibleFigure(ctx, 'value', converted, procedure)) return z.NEVER;
+  if (!procedure.allowsNegative && converted < 0) {
+    reject(
+      ctx,
+      'value',
+      'implausible_value',
+      `${procedure.analyteName} cannot be negative, got ${shown(converted)} ${procedure.analyteUnit}`,
+    );
+    return z.NEVER;
+  }
   return {
     procedure,
     lot,
     level,
     period: measuredAt.period,
     measuredAtMs: measuredAt.ms,
-    value: conversion.factor * value + conversion.offset,
+    value: converted,
     run,
     comment,
   };
+}
+
+/** A free-text cell as stored: no control characters, and a formula-like start behind an apostrophe. */
+export function neutraliseText(text: string): string {
+  const clean = stripControlCharacters(text);
+  return isFormulaLike(clean) ? `'${clean}` : clean;
 }
 
 /** zod issues of one row → row errors naming the file's own column header. */

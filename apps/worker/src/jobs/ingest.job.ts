@@ -1,12 +1,12 @@
 import type pg from 'pg';
 import {
-  MAX_STORED_ROW_ERRORS,
   allowsDecimalComma,
   canonicalColumns,
+  duplicateHeader,
   suggestMapping,
   type RowError,
 } from '@plumbline/contracts';
-import { dbOnClient, recordAudit, requestPeerStatistics, type Database } from '@plumbline/db';
+import { dbOnClient, recordAudit, requestPeerStatistics, thresholds, type Database } from '@plumbline/db';
 import type { FileSource } from '../storage/file-source.ts';
 import { FileFormatError, openCsv, type CsvRecord } from '../ingest/csv-reader.ts';
 import {
@@ -170,7 +170,17 @@ async function readUpload(
   }
   const headerLine = batch[next++];
   const headers = headerLine.cells.map((h) => h.trim());
+  const repeated = duplicateHeader(headers);
+  if (repeated !== null) {
+    throw new FileFormatError({
+      row: 1,
+      column: repeated,
+      code: 'duplicate_column',
+      message: `The header names the column "${repeated}" more than once; which one holds the data cannot be told. Remove or rename one of them.`,
+    });
+  }
   const columns = resolveColumns(upload, headers, lookups.mapping);
+  const limits = thresholds();
 
   const context: RowContext = {
     decimalComma: allowsDecimalComma(csv.delimiter),
@@ -178,6 +188,7 @@ async function readUpload(
     lots: lookups.lots,
     periods: lookups.periods,
     units,
+    limits: { maxCvPct: limits.maxCvPct, maxN: limits.maxN },
   };
   const result: ReadResult = {
     rowsTotal: 0,
@@ -188,7 +199,7 @@ async function readUpload(
     values: new ValuesBuffer(),
   };
   const addErrors = (errors: RowError[]) => {
-    for (const e of errors) if (result.errors.length < MAX_STORED_ROW_ERRORS) result.errors.push(e);
+    for (const e of errors) if (result.errors.length < limits.maxRowErrors) result.errors.push(e);
   };
   const summaryLines = new Map<string, number>();
   const summarySchema = upload.kind === 'qc-summary' ? summaryRowSchema(context) : null;
@@ -416,7 +427,13 @@ async function storeInOneTransaction(
       `update uploads set status = 'stored', stored_at = now(), progress = 1, rows_total = $2, rows_accepted = $3,
               rows_rejected = $4, errors = $5::jsonb, updated_at = now()
         where id = $1 and status = 'processing' and stored_at is null`,
-      [upload.id, counts.rowsTotal, counts.rowsAccepted, counts.rowsRejected, JSON.stringify(read.errors)],
+      [
+        upload.id,
+        counts.rowsTotal,
+        counts.rowsAccepted,
+        counts.rowsRejected,
+        JSON.stringify(repo.storableErrors(read.errors)),
+      ],
     );
     if (marked.rowCount !== 1) {
       await client.query('rollback');

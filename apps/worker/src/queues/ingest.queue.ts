@@ -71,6 +71,20 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
         if (outcome === 'stored') drainer.kick();
         return outcome;
       } catch (error) {
+        // A CHECK constraint refusing a figure is deterministic: retrying cannot help. The ingest checks
+        // should have caught it, so it is reported as ours, but at once and naming the constraint.
+        const constraint = checkViolation(error);
+        if (constraint) {
+          log(`upload ${payload.data.uploadId}: refused by the database constraint ${constraint}`);
+          await repo
+            .markFailed(
+              deps.db,
+              payload.data.uploadId,
+              `The file holds a figure the database refuses (${constraint}), which our checks should have reported. Nothing was stored; contact the network coordinator.`,
+            )
+            .catch(() => {});
+          throw new UnrecoverableError(`check constraint ${constraint}`);
+        }
         const lastAttempt = job.attemptsMade + 1 >= (job.opts.attempts ?? 1);
         log(
           `upload ${payload.data.uploadId}: attempt ${job.attemptsMade + 1} failed: ${(error as Error).message}`,
@@ -134,4 +148,16 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
       await queue.close();
     },
   };
+}
+
+/** The name of the CHECK constraint (SQLSTATE 23514) behind an error, or null. */
+function checkViolation(error: unknown): string | null {
+  for (
+    let e = error as { code?: string; constraint?: string; cause?: unknown } | undefined;
+    e;
+    e = e.cause as typeof e
+  ) {
+    if (e.code === '23514') return e.constraint ?? 'a check constraint';
+  }
+  return null;
 }

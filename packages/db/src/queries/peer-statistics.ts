@@ -11,6 +11,7 @@ import { procedures } from '../schema/procedures.ts';
 import { qcSummaries } from '../schema/qc-data.ts';
 import type { Database, Executor } from '../client.ts';
 import { PEER_TIERS, loadPeerKeyParts, resolvePeerMembership, type PeerMembership } from './peer-groups.ts';
+import { thresholds } from '../thresholds.ts';
 
 /** One lot, analyte, level and period whose peer statistics must be (re)computed. */
 export type PeerStatisticsTarget = { controlLotId: string; analyteId: string; level: number; period: string };
@@ -435,7 +436,7 @@ function groupFigures(
     const manual = list.filter((e) => exclusionOf(e.procedureId));
     const stats: PeerStatistics = computePeerStatistics(
       list.map((e) => ({ id: e.procedureId, n: e.n, mean: e.mean, sd: e.sd })),
-      { minLabs: settings.minLabs, excludeIds: manual.map((e) => e.procedureId) },
+      { minLabs: settings.minLabs ?? thresholds().peerMinLabs, excludeIds: manual.map((e) => e.procedureId) },
     );
     const excluded: ExcludedLab[] = stats.excluded.map((x) => {
       const note = x.reason === 'manual' ? exclusionOf(x.id)?.reason : undefined;

@@ -1,6 +1,8 @@
+import { sql } from 'drizzle-orm';
 import {
   bigserial,
   boolean,
+  check,
   doublePrecision,
   index,
   integer,
@@ -47,6 +49,15 @@ export const qcSummaries = pgTable(
     unique().on(t.procedureId, t.controlLotId, t.level, t.period),
     index().on(t.controlLotId, t.level, t.period),
     index().on(t.labId, t.period),
+    // The ingest checks, again in the database. double precision accepts 'Infinity' and 'NaN', and NaN
+    // sorts above every number, so "> '-Infinity' and < 'Infinity'" keeps only finite values.
+    check('qc_summaries_n_at_least_2', sql`${t.n} >= 2`),
+    check('qc_summaries_level_positive', sql`${t.level} >= 1`),
+    check(
+      'qc_summaries_mean_finite',
+      sql`${t.mean} > '-Infinity'::float8 and ${t.mean} < 'Infinity'::float8`,
+    ),
+    check('qc_summaries_sd_positive_finite', sql`${t.sd} > 0 and ${t.sd} < 'Infinity'::float8`),
   ],
 );
 
@@ -75,5 +86,17 @@ export const qcValues = pgTable(
     rules: text().array().notNull().default([]),
     uploadId: uuid(),
   },
-  (t) => [index().on(t.procedureId, t.controlLotId, t.period, t.measuredAt), index().on(t.uploadId)],
+  (t) => [
+    index().on(t.procedureId, t.controlLotId, t.period, t.measuredAt),
+    index().on(t.uploadId),
+    check('qc_values_level_positive', sql`${t.level} >= 1`),
+    check(
+      'qc_values_value_finite',
+      sql`${t.value} > '-Infinity'::float8 and ${t.value} < 'Infinity'::float8`,
+    ),
+    check(
+      'qc_values_z_finite',
+      sql`${t.z} is null or (${t.z} > '-Infinity'::float8 and ${t.z} < 'Infinity'::float8)`,
+    ),
+  ],
 );

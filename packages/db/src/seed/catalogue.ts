@@ -22,8 +22,14 @@ export type DemoAnalyte = {
   molarMass: number | null;
   decimals: number;
   teaPct: number;
+  /** Absolute part of the TEa in `unit`, where the published rule has one ("± X or ± Y %, whichever is greater"). */
+  teaAbsolute: number | null;
   teaSource: string;
   teaDate: string | null;
+  /** Plausibility limits in `unit`: QC figures outside them are refused at upload. */
+  plausibleLow: number;
+  plausibleHigh: number;
+  plausibilitySource: string;
   /** Short code labs build their procedure codes from (e.g. "NA1", "K-CHEM2"). */
   shortCode: string;
   /** Target of each control level on lot 1 (canonical unit) and the typical within-lab CV %. */
@@ -36,20 +42,51 @@ const sameAsReference: MethodEffect = { offsetPct: [0, 0], cvFactor: [1, 1] };
 
 // Where the TEa percentages come from (all from memory, not re-read):
 // - "US CLIA" rows: acceptance limits of the CLIA proficiency-testing rule of 2024 (42 CFR 493.931,
-//   effective 2024-07-11). Where the rule gives "x units or y %, whichever is greater" we keep the
-//   percent part; where it gives only an absolute limit we express it as a percent at a stated
-//   concentration.
+//   effective 2024-07-11). Where the rule gives "x units or y %, whichever is greater" both parts are
+//   kept (teaAbsolute below); where it gives only an absolute limit we express it as a percent at a
+//   stated concentration.
 // - Potassium uses the biological-variation desirable specification (CV_I 4.6 %, CV_G 5.6 %), the
 //   value tabulated in Biochem Med 2018;28(2):020711.
 const CLIA_2024 = 'US CLIA PT acceptance limit, 2024 rule (42 CFR 493.931)';
 const CLIA_2024_DATE = '2024-07-11';
+
+// Plausibility limits: wide bounds around what a clinical analyser reports for each analyte (common
+// practice, from memory; no published table). They are meant to catch unit mix-ups and typing errors
+// (a mean 10 or 1000 times too large), not to judge results.
+const PLAUSIBILITY_SOURCE = 'common practice (wide bounds around analysers’ reportable ranges, from memory)';
+
+/**
+ * Absolute parts of the CLIA 2024 rules that read "± X or ± Y %, whichever is greater" (from memory),
+ * converted to the canonical unit: glucose 6 mg/dL ÷ 18.016 (mg/dL per mmol/L, molar mass 180.16);
+ * creatinine 0.2 mg/dL × 88.42 (µmol/L per mg/dL, molar mass 113.12); urea nitrogen 2 mg/dL ÷ 2.8014
+ * (mg/dL of urea nitrogen per mmol/L of urea: 2 × 14.007 g/mol N ÷ 10); ALT and AST 6 U/L as such.
+ * Rules that give an absolute limit only (sodium ±4 mmol/L, calcium ±1.0 mg/dL) stay as the percent
+ * stated in their source text.
+ */
+const limitsByCode: Record<string, { teaAbsolute: number | null; low: number; high: number }> = {
+  NA: { teaAbsolute: null, low: 80, high: 200 },
+  K: { teaAbsolute: null, low: 1, high: 15 },
+  CL: { teaAbsolute: null, low: 50, high: 160 },
+  GLU: { teaAbsolute: 0.333, low: 0.5, high: 60 },
+  CREA: { teaAbsolute: 17.7, low: 10, high: 3000 },
+  UREA: { teaAbsolute: 0.714, low: 0.5, high: 100 },
+  CA: { teaAbsolute: null, low: 0.5, high: 5 },
+  ALT: { teaAbsolute: 6, low: 1, high: 3000 },
+  AST: { teaAbsolute: 6, low: 1, high: 3000 },
+  ALB: { teaAbsolute: null, low: 5, high: 80 },
+  TP: { teaAbsolute: null, low: 20, high: 150 },
+  CHOL: { teaAbsolute: null, low: 0.5, high: 20 },
+};
 
 // LOINC codes are from memory, cross-checked against LOINC display names quoted in public FHIR
 // material. Codes match the canonical unit's property: substance concentration (mmol/L, umol/L)
 // uses the [Moles/volume] code, g/L the [Mass/volume] code, U/L the [Enzymatic activity/volume] code.
 // Mass-concentration twins a lab may also send: glucose 2345-7, creatinine 2160-0, urea 3091-6
 // (urea nitrogen 3094-0), calcium 17861-6, cholesterol 2093-3.
-export const demoAnalytes: DemoAnalyte[] = [
+const analytesWithoutLimits: Omit<
+  DemoAnalyte,
+  'teaAbsolute' | 'plausibleLow' | 'plausibleHigh' | 'plausibilitySource'
+>[] = [
   {
     code: 'NA',
     name: 'Sodium',
@@ -115,7 +152,7 @@ export const demoAnalytes: DemoAnalyte[] = [
     molarMass: 180.16,
     decimals: 2,
     teaPct: 8,
-    teaSource: `${CLIA_2024}: ±6 mg/dL or ±8 %, whichever is greater; percent part`,
+    teaSource: `${CLIA_2024}: ±6 mg/dL or ±8 %, whichever is greater`,
     teaDate: CLIA_2024_DATE,
     shortCode: 'GLU',
     levels: [
@@ -136,7 +173,7 @@ export const demoAnalytes: DemoAnalyte[] = [
     molarMass: 113.12,
     decimals: 1,
     teaPct: 10,
-    teaSource: `${CLIA_2024}: ±0.2 mg/dL or ±10 %, whichever is greater; percent part`,
+    teaSource: `${CLIA_2024}: ±0.2 mg/dL or ±10 %, whichever is greater`,
     teaDate: CLIA_2024_DATE,
     shortCode: 'CREA',
     levels: [
@@ -159,7 +196,7 @@ export const demoAnalytes: DemoAnalyte[] = [
     molarMass: 60.06,
     decimals: 2,
     teaPct: 9,
-    teaSource: `${CLIA_2024}, urea nitrogen: ±2 mg/dL or ±9 %, whichever is greater; percent part`,
+    teaSource: `${CLIA_2024}, urea nitrogen: ±2 mg/dL or ±9 %, whichever is greater`,
     teaDate: CLIA_2024_DATE,
     shortCode: 'UREA',
     levels: [
@@ -198,7 +235,7 @@ export const demoAnalytes: DemoAnalyte[] = [
     molarMass: null,
     decimals: 1,
     teaPct: 15,
-    teaSource: `${CLIA_2024}: ±6 U/L or ±15 %, whichever is greater; percent part`,
+    teaSource: `${CLIA_2024}: ±6 U/L or ±15 %, whichever is greater`,
     teaDate: CLIA_2024_DATE,
     shortCode: 'ALT',
     levels: [
@@ -219,7 +256,7 @@ export const demoAnalytes: DemoAnalyte[] = [
     molarMass: null,
     decimals: 1,
     teaPct: 15,
-    teaSource: `${CLIA_2024}: ±6 U/L or ±15 %, whichever is greater; percent part`,
+    teaSource: `${CLIA_2024}: ±6 U/L or ±15 %, whichever is greater`,
     teaDate: CLIA_2024_DATE,
     shortCode: 'AST',
     levels: [
@@ -291,6 +328,17 @@ export const demoAnalytes: DemoAnalyte[] = [
     methods: { 'CHOL-COD': sameAsReference },
   },
 ];
+
+export const demoAnalytes: DemoAnalyte[] = analytesWithoutLimits.map((a) => {
+  const limits = limitsByCode[a.code];
+  return {
+    ...a,
+    teaAbsolute: limits.teaAbsolute,
+    plausibleLow: limits.low,
+    plausibleHigh: limits.high,
+    plausibilitySource: PLAUSIBILITY_SOURCE,
+  };
+});
 
 export type DemoMethod = { code: string; name: string; principle: string };
 

@@ -109,8 +109,12 @@ export async function seedDemoNetwork(db: Database, options: SeedOptions = {}): 
             molarMass: a.molarMass,
             decimals: a.decimals,
             teaPct: a.teaPct,
+            teaAbsolute: a.teaAbsolute,
             teaSource: a.teaSource,
             teaDate: a.teaDate,
+            plausibleLow: a.plausibleLow,
+            plausibleHigh: a.plausibleHigh,
+            plausibilitySource: a.plausibilitySource,
           })),
         )
         .returning({ id: analytes.id, code: analytes.code }),

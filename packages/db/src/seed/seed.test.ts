@@ -81,6 +81,29 @@ describe('the demo network plan', () => {
     expect(analyte('CA').teaPct).toBeCloseTo((100 * 1.0) / 10.0, 2);
     for (const a of demoAnalytes) expect(a.teaSource.length, a.code).toBeGreaterThan(10);
   });
+
+  it('states TEa absolute parts that are the US CLIA 2024 units converted to the canonical unit', () => {
+    // US CLIA 2024 acceptance limits (42 CFR 493.931, from memory): glucose ±6 mg/dL, creatinine
+    // ±0.2 mg/dL, urea nitrogen ±2 mg/dL, ALT and AST ±6 U/L, each "or ± %, whichever is greater".
+    // Conversions from the molar masses (g/mol): mg/dL → mmol/L divides by M/10.
+    expect(analyte('GLU').teaAbsolute).toBeCloseTo(6 / (analyte('GLU').molarMass! / 10), 3);
+    expect(analyte('CREA').teaAbsolute).toBeCloseTo((0.2 * 10_000) / analyte('CREA').molarMass!, 1);
+    // Urea nitrogen: two nitrogen atoms (14.007 g/mol each, IUPAC standard atomic weight) per urea.
+    expect(analyte('UREA').teaAbsolute).toBeCloseTo(2 / ((2 * 14.007) / 10), 3);
+    expect([analyte('ALT').teaAbsolute, analyte('AST').teaAbsolute]).toEqual([6, 6]);
+  });
+
+  it('gives every analyte plausibility limits with a source that hold both control levels', () => {
+    for (const a of demoAnalytes) {
+      expect(a.plausibilitySource, a.code).toMatch(/common practice/);
+      expect(a.plausibleLow, a.code).toBeLessThan(a.plausibleHigh);
+      for (const level of a.levels) {
+        // Method offsets in the demo are a few percent, lab shifts ±2.5 % (1 SD): 20 % either way is ample.
+        expect(level.target * 0.8, a.code).toBeGreaterThan(a.plausibleLow);
+        expect(level.target * 1.2, a.code).toBeLessThan(a.plausibleHigh);
+      }
+    }
+  });
 });
 
 describe('seeding the demo network into an empty database', () => {

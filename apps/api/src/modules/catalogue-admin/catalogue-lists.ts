@@ -71,12 +71,28 @@ function checkAnalyte(record: CatalogueRecord, changed: readonly string[] | 'all
     }
   }
   // A total allowable error is only usable with where it comes from and when that source was read.
-  const teaGiven = record.teaPct !== null && record.teaPct !== undefined;
-  if (teaGiven && touches(changed, ['teaPct', 'teaSource', 'teaDate'])) {
+  const given = (field: string) => record[field] !== null && record[field] !== undefined;
+  const teaGiven = given('teaPct') || given('teaAbsolute');
+  if (teaGiven && touches(changed, ['teaPct', 'teaAbsolute', 'teaSource', 'teaDate'])) {
     if (!record.teaSource)
       errors.push({ path: 'teaSource', message: 'give the source of the total allowable error' });
     if (!record.teaDate)
       errors.push({ path: 'teaDate', message: 'give the date of the total allowable error source' });
+  }
+  // Plausibility limits refuse data at upload: they need a source (or "common practice") and must make a range.
+  const limitsGiven = given('plausibleLow') || given('plausibleHigh');
+  if (limitsGiven && touches(changed, ['plausibleLow', 'plausibleHigh', 'plausibilitySource'])) {
+    if (!record.plausibilitySource)
+      errors.push({
+        path: 'plausibilitySource',
+        message: 'give the source of the plausibility limits, or write "common practice"',
+      });
+    if (
+      given('plausibleLow') &&
+      given('plausibleHigh') &&
+      !((record.plausibleLow as number) < (record.plausibleHigh as number))
+    )
+      errors.push({ path: 'plausibleHigh', message: 'the high limit must be above the low limit' });
   }
   return errors;
 }
@@ -98,8 +114,13 @@ export const simpleListSpecs: Record<SimpleList, SimpleListSpec> = {
       'molarMass',
       'decimals',
       'teaPct',
+      'teaAbsolute',
       'teaSource',
       'teaDate',
+      'plausibleLow',
+      'plausibleHigh',
+      'plausibilitySource',
+      'allowsNegative',
     ],
     defaults: {
       loinc: null,
@@ -107,8 +128,13 @@ export const simpleListSpecs: Record<SimpleList, SimpleListSpec> = {
       molarMass: null,
       decimals: 2,
       teaPct: null,
+      teaAbsolute: null,
       teaSource: null,
       teaDate: null,
+      plausibleLow: null,
+      plausibleHigh: null,
+      plausibilitySource: null,
+      allowsNegative: false,
     },
     searchFields: ['code', 'name', 'loinc'],
     csvColumns: {
@@ -120,11 +146,16 @@ export const simpleListSpecs: Record<SimpleList, SimpleListSpec> = {
       molar_mass: 'molarMass',
       decimals: 'decimals',
       tea_pct: 'teaPct',
+      tea_absolute: 'teaAbsolute',
       tea_source: 'teaSource',
       tea_date: 'teaDate',
+      plausible_low: 'plausibleLow',
+      plausible_high: 'plausibleHigh',
+      plausibility_source: 'plausibilitySource',
+      allows_negative: 'allowsNegative',
     },
-    numericColumns: ['molar_mass', 'decimals', 'tea_pct'],
-    blankNotGivenColumns: ['decimals'],
+    numericColumns: ['molar_mass', 'decimals', 'tea_pct', 'tea_absolute', 'plausible_low', 'plausible_high'],
+    blankNotGivenColumns: ['decimals', 'allows_negative'],
     check: checkAnalyte,
   },
   methods: {

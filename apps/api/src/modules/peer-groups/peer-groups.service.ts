@@ -4,7 +4,6 @@
 // are recorded as audit events (kind `peer-group.<adjustment>`), which are also the list the page
 // shows; an undo is a `peer-group.undo` event naming the adjustment.
 import { and, eq, sql } from 'drizzle-orm';
-import { DEFAULT_MIN_LABS } from '@plumbline/stats';
 import {
   PEER_TIERS,
   auditEvents,
@@ -17,6 +16,7 @@ import {
   type Executor,
   type PeerStatisticsTarget,
   type PeerTierName,
+  thresholds,
 } from '@plumbline/db';
 import {
   adjustmentListQuerySchema,
@@ -57,8 +57,8 @@ import {
 } from './peer-group-model.ts';
 import * as repo from './peer-groups.repository.ts';
 
-/** Labs that must remain for figures to be published (METHODS.md §2), as the peer report uses. */
-const MIN_LABS = DEFAULT_MIN_LABS;
+/** Labs that must remain for figures to be published (METHODS.md §2), the one setting the worker also uses. */
+const minLabs = () => thresholds().peerMinLabs;
 /** Adjustments and their undos run one at a time, so each sees the arrangement the previous one left. */
 const ADJUSTMENT_LOCK_KEY = 740_100_002;
 
@@ -196,7 +196,7 @@ export async function peerGroupsView(db: Database, rawQuery: unknown): Promise<P
     publication: publication
       ? { version: publication.version, publishedAt: publication.publishedAt.toISOString() }
       : null,
-    minLabs: MIN_LABS,
+    minLabs: minLabs(),
     tiers: PEER_TIERS.map((tier) => ({
       tier,
       groups: groups
@@ -263,7 +263,7 @@ function buildPreview(
         procedures: context.procedures,
         summaries: context.summaries,
         level,
-        minLabs: MIN_LABS,
+        minLabs: minLabs(),
       };
       return {
         level,
@@ -323,7 +323,7 @@ async function applyAdjustment(
     await requestPeerStatistics(tx, applied.targets);
     return event.id;
   });
-  await drainPeerStatisticsRequests(db, { minLabs: MIN_LABS });
+  await drainPeerStatisticsRequests(db, { minLabs: minLabs() });
   const [adjustment] = await loadAdjustments(db, { id: eventId });
   return adjustment;
 }
@@ -857,7 +857,7 @@ export async function undoAdjustment(db: Database, principal: Principal, rawId: 
         : await repo.dataTargets(tx, details.controlLotId, details.analyteId);
     await requestPeerStatistics(tx, targets);
   });
-  await drainPeerStatisticsRequests(db, { minLabs: MIN_LABS });
+  await drainPeerStatisticsRequests(db, { minLabs: minLabs() });
   const [adjustment] = await loadAdjustments(db, { id });
   return adjustment;
 }

@@ -1,4 +1,4 @@
-import { evaluateTea, pool, sigmaMetric, standing, DEFAULT_MIN_LABS } from '@plumbline/stats';
+import { evaluateTea, pool, sigmaMetric, standing } from '@plumbline/stats';
 import {
   PEER_TIERS,
   hasPendingPeerStatistics,
@@ -6,6 +6,7 @@ import {
   resolvePeerMembership,
   type Database,
   type PeerMembership,
+  thresholds,
 } from '@plumbline/db';
 import type {
   LabFigures,
@@ -46,7 +47,7 @@ export async function buildPeerReport(
   assertLabAccess(principal, labId);
   const lab = UUID.test(labId) ? await repo.findLab(db, labId) : null;
   if (!lab) throw notFound('Lab');
-  const minLabs = settings.minLabs ?? DEFAULT_MIN_LABS;
+  const minLabs = settings.minLabs ?? thresholds().peerMinLabs;
   const units: UnitSystem = settings.units ?? (lab.preferredUnits === 'conventional' ? 'conventional' : 'si');
 
   const publication = await repo.latestPublication(db, period);

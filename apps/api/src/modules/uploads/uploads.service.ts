@@ -1,12 +1,13 @@
 import { randomUUID } from 'node:crypto';
 import {
-  MAX_STORED_ROW_ERRORS,
   canonicalColumns,
   columnMappingProblems,
   detectDecimalComma,
   detectDelimiter,
   firstLine,
   parseCsvStart,
+  sniffTextFile,
+  duplicateHeader,
   stripBom,
   suggestMapping,
   uploadFieldsSchema,
@@ -19,7 +20,7 @@ import {
   type UploadPreview,
   type UploadSummary,
 } from '@plumbline/contracts';
-import { recordAudit } from '@plumbline/db';
+import { recordAudit, thresholds } from '@plumbline/db';
 import type { AppDeps } from '../../deps.ts';
 import type { Principal } from '../../auth/principal.ts';
 import { actorOf } from '../../auth/principal.ts';
@@ -177,8 +178,8 @@ export async function getUploadDetail(
   return {
     ...toSummary(row),
     errors: row.errors as UploadDetail['errors'],
-    // The worker keeps at most MAX_STORED_ROW_ERRORS errors; reaching the cap means some were left out.
-    errorsTruncated: row.errors.length >= MAX_STORED_ROW_ERRORS,
+    // The worker keeps at most the configured number of errors; reaching the cap means some were left out.
+    errorsTruncated: row.errors.length >= thresholds().maxRowErrors,
     columnMapping: row.columnMapping ?? null,
   };
 }
@@ -270,13 +271,9 @@ export async function previewUpload(
 ): Promise<UploadPreview> {
   const kind = parseInput(uploadKindSchema, input.fields.kind, 'kind');
   const labId = uploadLabFor(principal, input.fields.labId || undefined);
-  if (
-    input.head.length >= 2 &&
-    ((input.head[0] === 0xff && input.head[1] === 0xfe) || (input.head[0] === 0xfe && input.head[1] === 0xff))
-  ) {
-    throw badRequest(`"${input.filename}" is saved as UTF-16. Save it as UTF-8 (CSV UTF-8) and try again.`);
-  }
-  const decoded = new TextDecoder('utf-8').decode(input.head);
+  const sniffed = sniffTextFile(input.head, input.complete);
+  if ('problem' in sniffed) throw badRequest(`"${input.filename}": ${sniffed.problem}`);
+  const decoded = new TextDecoder(sniffed.encoding, { ignoreBOM: true }).decode(input.head);
   const { text, bom } = stripBom(decoded);
   if (text.trim() === '') throw badRequest(`The file "${input.filename}" is empty.`);
   const delimiter = detectDelimiter(firstLine(text));
@@ -284,6 +281,12 @@ export async function previewUpload(
     maxRows: PREVIEW_ROWS + 1,
     complete: input.complete,
   });
+  const repeated = duplicateHeader(headers.map((h) => h.trim()));
+  if (repeated !== null) {
+    throw badRequest(
+      `"${input.filename}": the header names the column "${repeated.trim()}" more than once; remove or rename one of them.`,
+    );
+  }
   const saved = await repo.findColumnMapping(deps.db, labId, kind);
   const suggestion = suggestMapping(
     kind,

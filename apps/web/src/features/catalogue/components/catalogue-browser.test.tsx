@@ -41,6 +41,9 @@ describe('catalogue page', () => {
     expect(rows).toHaveLength(2);
     expect(rows[0].textContent).toContain('2345-7');
     expect(rows[0].textContent).toContain('6.9 %');
+    // Both TEa parts, as the rule reads ("± X or Y %"), and the plausibility limits.
+    expect(rows[0].textContent).toContain('± 0.33 mmol/L or 6.9 %');
+    expect(rows[0].textContent).toContain('0.5 – 50');
     expect(rows[1].textContent).toContain('Sodium');
     expect(within(rows[1]).getByText('Retired')).toBeTruthy();
     expect(within(rows[1]).getByRole('button', { name: 'Restore NA' })).toBeTruthy();
@@ -130,6 +133,36 @@ describe('catalogue page', () => {
 
     expect(await within(dialog).findByText(/check digit does not match: 2345-7 expected/i)).toBeTruthy();
     expect(api.requests.some((r) => r.method === 'POST')).toBe(false);
+  });
+
+  it('when the coordinator fills in plausibility limits and a TEa absolute part, then they are sent as numbers with their source', async () => {
+    const api = mockApi({
+      ...me,
+      'GET /api/catalogue/analytes': { status: 200, body: { total: 0, items: [] } },
+      'POST /api/catalogue/analytes': { status: 201, body: buildAnalyte() },
+    });
+    const { user } = renderApp('/network/catalogue', { signedInAs: 'coordinator' });
+
+    await user.click(await screen.findByRole('button', { name: 'New analyte' }));
+    const dialog = await screen.findByRole('dialog', { name: 'New analyte' });
+    await user.type(within(dialog).getByLabelText('Code'), 'BE');
+    await user.type(within(dialog).getByLabelText('Name'), 'Base excess');
+    await user.type(within(dialog).getByLabelText('Unit (UCUM)'), 'mmol/L');
+    await user.type(within(dialog).getByLabelText('TEa (± in the unit)'), '0,5');
+    await user.type(within(dialog).getByLabelText('Low limit'), '-30');
+    await user.type(within(dialog).getByLabelText('High limit'), '30');
+    await user.type(within(dialog).getByLabelText('Source of the limits'), 'common practice');
+    await user.selectOptions(within(dialog).getByLabelText('Results below zero'), 'Possible');
+    await user.click(within(dialog).getByRole('button', { name: 'Create' }));
+
+    await waitFor(() => expect(api.requests.some((r) => r.method === 'POST')).toBe(true));
+    expect(api.requests.find((r) => r.method === 'POST')?.body).toMatchObject({
+      teaAbsolute: 0.5,
+      plausibleLow: -30,
+      plausibleHigh: 30,
+      plausibilitySource: 'common practice',
+      allowsNegative: true,
+    });
   });
 });
 

@@ -95,13 +95,31 @@ const analyteColumns = [
     meta: { align: 'right' },
     cell: (c) => {
       const item = c.row.original;
-      if (item.teaPct === null) return none;
+      if (item.teaPct === null && item.teaAbsolute === null) return none;
       const source = [item.teaSource, item.teaDate ? formatDate(item.teaDate) : null]
         .filter(Boolean)
         .join(', ');
+      // As published rules state it: the larger of the two parts at the control's concentration.
+      const parts = [
+        item.teaAbsolute !== null ? `± ${item.teaAbsolute} ${item.unit}` : null,
+        item.teaPct !== null ? `${item.teaPct} %` : null,
+      ].filter(Boolean);
       return (
         <span title={source || undefined} className="whitespace-nowrap">
-          {item.teaPct} %
+          {parts.join(' or ')}
+        </span>
+      );
+    },
+  }),
+  analyte.accessor('plausibleLow', {
+    header: 'Plausible range',
+    meta: { align: 'right' },
+    cell: (c) => {
+      const item = c.row.original;
+      if (item.plausibleLow === null && item.plausibleHigh === null) return none;
+      return (
+        <span title={item.plausibilitySource ?? undefined} className="whitespace-nowrap">
+          {item.plausibleLow ?? '−∞'} – {item.plausibleHigh ?? '∞'}
         </span>
       );
     },
