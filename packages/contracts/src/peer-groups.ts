@@ -255,3 +255,21 @@ export const adjustmentListQuerySchema = z.object({
 });
 export const adjustmentUndoSchema = z.object({ reason: optionalReasonSchema });
 export type AdjustmentUndo = z.infer<typeof adjustmentUndoSchema>;
+
+/** A peer group whose provisional figures the last recompute could not compute (the others were computed). */
+export const peerStatisticsFailureSchema = z.object({
+  peerGroupId: uuidSchema,
+  tier: peerTierSchema,
+  groupLabel: z.string(),
+  controlLot: z.object({ id: uuidSchema, lotNumber: z.string() }),
+  analyte: z.object({ id: uuidSchema, code: z.string(), name: z.string() }),
+  level: z.number().int(),
+  period: periodKeySchema,
+  /** 'period' (the month's figures) or 'cumulative' (lot to date). */
+  scope: z.enum(['period', 'cumulative']),
+  reason: z.string(),
+  failedAt: z.string(),
+});
+export type PeerStatisticsFailure = z.infer<typeof peerStatisticsFailureSchema>;
+export const peerStatisticsFailureListSchema = z.array(peerStatisticsFailureSchema);
+export const peerStatisticsFailuresQuerySchema = z.object({ period: periodKeySchema.optional() });

@@ -55,7 +55,8 @@ export function buildReportRow(input: RowInput): PeerReportRow {
     cvr: input.cvr,
     biasPct: (100 * (input.labMean - input.peerMean)) / input.peerMean,
     sigma: 3.1,
-    cumulative: { lab: null, peer: null, sdi: input.sdi - 0.2, cvr: null },
+    cumulative: { lab: null, peer: null, sdi: input.sdi - 0.2, cvr: null, notComputable: null },
+    notComputable: null,
     excluded: null,
     flags: input.flags,
   });
