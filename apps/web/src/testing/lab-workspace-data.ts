@@ -209,6 +209,7 @@ export function buildDrilldown(overrides: Partial<Drilldown> = {}): Drilldown {
       comparisons: [{ period: '2026-11', biasPct: 6.5, uRefPct: 0.6 }],
     },
     uncertaintyNote: null,
+    notComputable: [],
     ...overrides,
   });
 }

@@ -8,7 +8,8 @@ import type { LabFigures, NotComputable, PeerFigures, PeerReportRow } from '@plu
 export type Figures = { n: number; mean: number; sd: number; cv: number | null };
 
 export function figuresOf(s: { n: number; mean: number; sd: number }): Figures {
-  return { n: s.n, mean: s.mean, sd: s.sd, cv: s.mean !== 0 ? (100 * s.sd) / Math.abs(s.mean) : null };
+  const cv = Number.isFinite(s.mean) && s.mean !== 0 ? (100 * s.sd) / Math.abs(s.mean) : null;
+  return { n: s.n, mean: s.mean, sd: s.sd, cv };
 }
 
 /** SDI, CVR and bias %, or why they cannot be computed from these figures. */

@@ -53,6 +53,8 @@ export function peerReportCsv(report: PeerReport): string {
       'excluded',
       'peer_note',
       'late',
+      'not_computable',
+      'cumulative_not_computable',
     ],
     report.rows.map((r) => [
       report.period,
@@ -87,6 +89,8 @@ export function peerReportCsv(report: PeerReport): string {
       r.excluded ? `${r.excluded.reason}${r.excluded.note ? `: ${r.excluded.note}` : ''}` : '',
       r.peerNote,
       r.late ? 'yes' : 'no',
+      r.notComputable?.reason,
+      r.cumulative.notComputable?.reason,
     ]),
   );
 }
