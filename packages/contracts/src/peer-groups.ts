@@ -103,6 +103,8 @@ export const peerGroupSchema = z.object({
   labsWithData: z.number().int(),
   /** The current (version 0) figures of the period. */
   provisional: peerGroupFiguresSchema.nullable(),
+  /** Set when the last recompute could not compute the provisional figures (they are then null). */
+  notComputable: z.object({ reason: z.string(), failedAt: z.string() }).nullable().optional(),
   /** The figures of the period's latest publication. */
   published: peerGroupFiguresSchema.extend({ version: z.number().int() }).nullable(),
 });
@@ -206,8 +208,10 @@ export const previewGroupSchema = z.object({
   tier: peerTierSchema,
   label: z.string(),
   members: z.array(z.object({ procedureId: uuidSchema, procedureCode: z.string(), lab: peerGroupLabSchema })),
-  /** Null when no member has data for the level and period. */
+  /** Null when no member has data for the level and period, or when they cannot be computed. */
   figures: peerGroupFiguresSchema.nullable(),
+  /** Why the figures cannot be computed, when they cannot. */
+  notComputable: z.object({ reason: z.string() }).nullable().optional(),
 });
 export type PreviewGroup = z.infer<typeof previewGroupSchema>;
 

@@ -3,7 +3,7 @@ import request from 'supertest';
 import { and, eq } from 'drizzle-orm';
 import { parse } from 'csv-parse/sync';
 import { peerGroups, peerStatistics, peerStatisticsFailures } from '@plumbline/db';
-import type { Drilldown, LabOverview, PeerReport, PeerReportRow } from '@plumbline/contracts';
+import type { Drilldown, LabOverview, PeerGroupsView, PeerReport, PeerReportRow } from '@plumbline/contracts';
 import { createTestApp, type TestApp } from '../../testing/test-app.ts';
 import {
   seedWorkspaceNetwork,
@@ -170,6 +170,22 @@ describe('a report row that cannot be computed', () => {
         reason: 'the peer SD is not a finite number (Infinity)',
       }),
     ]);
+    // The coordinator's view of the groups marks the same group.
+    const view = await request(t.app)
+      .get('/api/peer-groups')
+      .query({
+        controlLotId: net.catalogue.lot.id,
+        analyteId: net.catalogue.analytes.creatinine.id,
+        level: 1,
+        period: PERIOD,
+      })
+      .set('Authorization', coordinator.auth);
+    expect(view.status).toBe(200);
+    const groupsShown = (view.body as PeerGroupsView).tiers.flatMap((tier) => tier.groups);
+    expect(groupsShown.find((g) => g.id === group.id)?.notComputable?.reason).toBe(
+      'the peer SD is not a finite number (Infinity)',
+    );
+
     const forbidden = await request(t.app)
       .get('/api/peer-groups/failures')
       .set('Authorization', net.labs.A.analyst.auth);
