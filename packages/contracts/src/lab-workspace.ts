@@ -131,6 +131,8 @@ export const trendPointSchema = z.object({
   tier: peerTierSchema.nullable(),
   /** From a published snapshot (true) or provisional figures (false). */
   published: z.boolean(),
+  /** Why SDI, CVR and bias cannot be computed for the period, when a peer comparison exists but fails. */
+  notComputable: z.string().nullable().optional(),
 });
 export type TrendPoint = z.infer<typeof trendPointSchema>;
 

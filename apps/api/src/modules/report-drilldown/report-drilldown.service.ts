@@ -114,6 +114,7 @@ export async function buildDrilldown(
       peerSd: chosen ? spread(chosen.row.sd!) : null,
       tier: chosen?.tier ?? null,
       published: chosen?.published ?? false,
+      notComputable: comparison?.problem ?? null,
     };
   });
 

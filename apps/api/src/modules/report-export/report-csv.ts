@@ -1,5 +1,11 @@
-import type { Comment, PeerReport, ReportFlag, TestMenuItem, UploadSummary } from '@plumbline/contracts';
-import { toCsv } from '../../http/csv.ts';
+import {
+  toCsv,
+  type Comment,
+  type PeerReport,
+  type ReportFlag,
+  type TestMenuItem,
+  type UploadSummary,
+} from '@plumbline/contracts';
 
 const severityRank: Record<ReportFlag['severity'], number> = {
   fine: 0,
