@@ -23,7 +23,6 @@ import * as repo from './report-drilldown.repository.ts';
 /** How many periods the SDI/CVR trend covers (issue 6: the last 12). */
 export const TREND_PERIODS = 12;
 
-type Figures = { n: number; mean: number; sd: number };
 type Chosen = { tier: PeerTierName; row: repo.PeerStatisticsRow; published: boolean };
 
 /**
