@@ -16,6 +16,7 @@ import { catalogueAdminRouter } from './modules/catalogue-admin/catalogue-admin.
 import { networkLabsRouter } from './modules/network-labs/network-labs.router.ts';
 import { cyclesRouter } from './modules/cycles/cycles.router.ts';
 import { peerGroupsRouter } from './modules/peer-groups/peer-groups.router.ts';
+import { recomputeFailuresRouter } from './modules/recompute-failures/recompute-failures.router.ts';
 import { publishingRouter } from './modules/publishing/publishing.router.ts';
 import { labOverviewRouter } from './modules/lab-overview/lab-overview.router.ts';
 import { labReviewRouter } from './modules/lab-review/lab-review.router.ts';
@@ -48,6 +49,7 @@ export function createApp(deps: AppDeps): Express {
   api.use(catalogueAdminRouter(deps, requireUser));
   api.use(networkLabsRouter(deps, requireUser));
   api.use(cyclesRouter(deps, requireUser));
+  api.use(recomputeFailuresRouter(deps, requireUser));
   api.use(peerGroupsRouter(deps, requireUser));
   api.use(publishingRouter(deps, requireUser));
   api.use(labOverviewRouter(deps, requireUser));

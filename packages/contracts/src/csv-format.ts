@@ -181,3 +181,42 @@ export function parseCsvStart(
     endRow();
   return rows;
 }
+
+// ---------- writing ----------
+
+/** A value of a CSV cell: text, a number, a yes/no, or nothing (an empty cell). */
+export type CsvValue = string | number | boolean | null | undefined;
+
+/** A whole cell that is a plain decimal number ("-1.5", "+2", "3.2e-5"): a spreadsheet reads it as a number. */
+const PLAIN_NUMBER = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
+
+/**
+ * Characters that make a spreadsheet read the start of a cell as a formula (OWASP, "CSV Injection":
+ * equals, plus, minus, at sign, tab, carriage return).
+ */
+const FORMULA_START = /^[=+\-@\t\r]/;
+
+/**
+ * One CSV cell, for every CSV the API and the web app write.
+ *
+ * - Formula injection: text that begins with `=`, `+`, `-`, `@`, a tab or a carriage return gets a
+ *   leading apostrophe, so a spreadsheet shows it as text instead of running it (OWASP CSV Injection
+ *   guidance: prepend a single quote). A cell that is a plain decimal number as a whole (a `number`, or
+ *   text such as "-1.5") is written as it is: a spreadsheet reads it as a number, and a number cannot
+ *   call a function or refer to another cell, so negative figures stay figures.
+ * - A true minus sign (U+2212) in front of a number becomes "-", so formatted figures stay numbers.
+ * - Quoting as RFC 4180 §2 asks: a cell holding a comma, a double quote, CR or LF is put in double
+ *   quotes, and a double quote inside it is doubled.
+ */
+export function csvCell(value: CsvValue): string {
+  if (value === null || value === undefined) return '';
+  let text = typeof value === 'boolean' ? (value ? 'yes' : 'no') : String(value);
+  if (text.startsWith('\u2212') && PLAIN_NUMBER.test(`-${text.slice(1)}`)) text = `-${text.slice(1)}`;
+  if (typeof value === 'string' && FORMULA_START.test(text) && !PLAIN_NUMBER.test(text)) text = `'${text}`;
+  return /[",\r\n]/.test(text) ? `"${text.replaceAll('"', '""')}"` : text;
+}
+
+/** A CSV text: the header line and the rows, comma-separated, every line ending in CRLF (RFC 4180 §2). */
+export function toCsv(header: readonly string[], rows: readonly (readonly CsvValue[])[]): string {
+  return `${[header, ...rows].map((row) => row.map(csvCell).join(',')).join('\r\n')}\r\n`;
+}

@@ -58,9 +58,12 @@ export const participationQuerySchema = z.object({
 });
 export type ParticipationQuery = z.infer<typeof participationQuerySchema>;
 
-/** An action-level finding for one of a lab's procedures (filled in once peer statistics exist). */
+/**
+ * An action-level finding for one of a lab's procedures (filled in once peer statistics exist);
+ * 'not-computable' marks a report row whose comparison cannot be computed.
+ */
 export const participationFlagSchema = z.object({
-  kind: z.enum(['sdi', 'cvr', 'excluded-outlier']),
+  kind: z.enum(['sdi', 'cvr', 'excluded-outlier', 'not-computable']),
   procedureId: uuidSchema,
   controlLotId: uuidSchema,
   level: z.number(),

@@ -50,6 +50,8 @@ export const attentionKinds = [
   'action-flags',
   /** Report rows with a warning flag. */
   'warning-flags',
+  /** Report rows whose comparison cannot be computed. */
+  'rows-not-computable',
 ] as const;
 export const attentionItemSchema = z.object({
   kind: z.enum(attentionKinds),
@@ -88,8 +90,10 @@ export const labOverviewSchema = z.object({
       period: periodKeySchema,
       published: z.boolean(),
       rows: z.number().int(),
-      /** Rows by their worst flag (a row without flags counts as fine). */
+      /** Rows by their worst flag (a row without flags counts as fine, unless it cannot be computed). */
       rowsBySeverity: severityCountsSchema,
+      /** Rows whose comparison cannot be computed (not counted in rowsBySeverity). */
+      rowsNotComputable: z.number().int(),
       bySeverity: severityCountsSchema,
     })
     .nullable(),
@@ -127,6 +131,8 @@ export const trendPointSchema = z.object({
   tier: peerTierSchema.nullable(),
   /** From a published snapshot (true) or provisional figures (false). */
   published: z.boolean(),
+  /** Why SDI, CVR and bias cannot be computed for the period, when a peer comparison exists but fails. */
+  notComputable: z.string().nullable().optional(),
 });
 export type TrendPoint = z.infer<typeof trendPointSchema>;
 
@@ -224,6 +230,11 @@ export const drilldownSchema = z.object({
     })
     .nullable(),
   uncertaintyNote: z.string().nullable(),
+  /**
+   * Parts of the drill-down that cannot be computed, each with the reason (e.g. "2026-02: The peer SD
+   * is 0, …"); the parts that can be computed are shown as usual.
+   */
+  notComputable: z.array(z.string()),
 });
 export type Drilldown = z.infer<typeof drilldownSchema>;
 

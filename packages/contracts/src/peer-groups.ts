@@ -103,6 +103,8 @@ export const peerGroupSchema = z.object({
   labsWithData: z.number().int(),
   /** The current (version 0) figures of the period. */
   provisional: peerGroupFiguresSchema.nullable(),
+  /** Set when the last recompute could not compute the provisional figures (they are then null). */
+  notComputable: z.object({ reason: z.string(), failedAt: z.string() }).nullable().optional(),
   /** The figures of the period's latest publication. */
   published: peerGroupFiguresSchema.extend({ version: z.number().int() }).nullable(),
 });
@@ -206,8 +208,10 @@ export const previewGroupSchema = z.object({
   tier: peerTierSchema,
   label: z.string(),
   members: z.array(z.object({ procedureId: uuidSchema, procedureCode: z.string(), lab: peerGroupLabSchema })),
-  /** Null when no member has data for the level and period. */
+  /** Null when no member has data for the level and period, or when they cannot be computed. */
   figures: peerGroupFiguresSchema.nullable(),
+  /** Why the figures cannot be computed, when they cannot. */
+  notComputable: z.object({ reason: z.string() }).nullable().optional(),
 });
 export type PreviewGroup = z.infer<typeof previewGroupSchema>;
 
@@ -255,3 +259,21 @@ export const adjustmentListQuerySchema = z.object({
 });
 export const adjustmentUndoSchema = z.object({ reason: optionalReasonSchema });
 export type AdjustmentUndo = z.infer<typeof adjustmentUndoSchema>;
+
+/** A peer group whose provisional figures the last recompute could not compute (the others were computed). */
+export const peerStatisticsFailureSchema = z.object({
+  peerGroupId: uuidSchema,
+  tier: peerTierSchema,
+  groupLabel: z.string(),
+  controlLot: z.object({ id: uuidSchema, lotNumber: z.string() }),
+  analyte: z.object({ id: uuidSchema, code: z.string(), name: z.string() }),
+  level: z.number().int(),
+  period: periodKeySchema,
+  /** 'period' (the month's figures) or 'cumulative' (lot to date). */
+  scope: z.enum(['period', 'cumulative']),
+  reason: z.string(),
+  failedAt: z.string(),
+});
+export type PeerStatisticsFailure = z.infer<typeof peerStatisticsFailureSchema>;
+export const peerStatisticsFailureListSchema = z.array(peerStatisticsFailureSchema);
+export const peerStatisticsFailuresQuerySchema = z.object({ period: periodKeySchema.optional() });

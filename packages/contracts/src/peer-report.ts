@@ -17,8 +17,10 @@ export type ReportFlag = z.infer<typeof flagSchema>;
 
 export const labFiguresSchema = z.object({
   n: z.number().int(),
-  mean: z.number(),
-  sd: z.number(),
+  /** Null only in a row that cannot be computed, when the figure is not a finite number. */
+  mean: z.number().nullable(),
+  /** Null only in a row that cannot be computed, when the figure is not a finite number. */
+  sd: z.number().nullable(),
   cv: z.number().nullable(),
 });
 export type LabFigures = z.infer<typeof labFiguresSchema>;
@@ -47,6 +49,14 @@ export function teaRuleText(
   if (absolute && percent) return `${absolute} or ${percent}, whichever is greater`;
   return absolute ?? percent;
 }
+
+/**
+ * Why a row's comparison cannot be computed (e.g. a peer SD of 0, a figure that is not a finite number,
+ * peer figures the recompute could not compute). The figures it could not compute are null; the other
+ * rows of the report are unaffected.
+ */
+export const notComputableSchema = z.object({ reason: z.string() });
+export type NotComputable = z.infer<typeof notComputableSchema>;
 
 export const peerReportRowSchema = z.object({
   procedure: z.object({ id: uuidSchema, code: z.string() }),
@@ -94,7 +104,11 @@ export const peerReportRowSchema = z.object({
     peer: peerFiguresSchema.nullable(),
     sdi: z.number().nullable(),
     cvr: z.number().nullable(),
+    /** Set when the lot-to-date comparison cannot be computed. */
+    notComputable: notComputableSchema.nullable(),
   }),
+  /** Set when the month's comparison cannot be computed; SDI, CVR, bias, sigma and flags are then absent. */
+  notComputable: notComputableSchema.nullable(),
   /** Set when this lab's data was left out of the peer figures. */
   excluded: z.object({ reason: z.enum(['outlier', 'manual']), note: z.string().nullable() }).nullable(),
   flags: z.array(flagSchema),

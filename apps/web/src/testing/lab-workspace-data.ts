@@ -57,7 +57,8 @@ export function buildReportRow(input: RowInput): PeerReportRow {
     biasPct: (100 * (input.labMean - input.peerMean)) / input.peerMean,
     sigma: 3.1,
     tea: { pct: 5.8, governing: 'percent' },
-    cumulative: { lab: null, peer: null, sdi: input.sdi - 0.2, cvr: null },
+    cumulative: { lab: null, peer: null, sdi: input.sdi - 0.2, cvr: null, notComputable: null },
+    notComputable: null,
     excluded: null,
     flags: input.flags,
   });
@@ -210,6 +211,7 @@ export function buildDrilldown(overrides: Partial<Drilldown> = {}): Drilldown {
       comparisons: [{ period: '2026-11', biasPct: 6.5, uRefPct: 0.6 }],
     },
     uncertaintyNote: null,
+    notComputable: [],
     ...overrides,
   });
 }

@@ -1,25 +1,28 @@
 import { and, asc, eq, gte, inArray, isNull, lte, or, sql } from 'drizzle-orm';
-import { peerStatistics as computePeerStatistics, pool, type PeerStatistics } from '@plumbline/stats';
 import {
   peerExclusions,
   peerGroups,
   peerStatistics,
+  peerStatisticsFailures,
   peerStatisticsRequests,
-  type ExcludedLab,
 } from '../schema/peer-groups.ts';
 import { procedures } from '../schema/procedures.ts';
 import { qcSummaries } from '../schema/qc-data.ts';
 import type { Database, Executor } from '../client.ts';
-import { PEER_TIERS, loadPeerKeyParts, resolvePeerMembership, type PeerMembership } from './peer-groups.ts';
+import { loadPeerKeyParts, resolvePeerMembership } from './peer-groups.ts';
 import { thresholds } from '../thresholds.ts';
+import {
+  cumulativeByProcedure,
+  groupFigures,
+  type ExclusionRow,
+  type PeerStatisticsSettings,
+  type SummaryRow,
+} from './peer-group-figures.ts';
+
+export type { ComputeGroupStatistics, PeerStatisticsSettings } from './peer-group-figures.ts';
 
 /** One lot, analyte, level and period whose peer statistics must be (re)computed. */
 export type PeerStatisticsTarget = { controlLotId: string; analyteId: string; level: number; period: string };
-
-export type PeerStatisticsSettings = {
-  /** Labs that must remain for figures to be published (METHODS.md §2: 3, a setting). */
-  minLabs?: number;
-};
 
 /** Only one recompute runs at a time across every worker: an advisory lock held for its transaction. */
 const RECOMPUTE_LOCK_KEY = 740_100_001;
@@ -179,18 +182,6 @@ export async function recomputeAllPeerStatistics(
   });
 }
 
-type SummaryRow = {
-  procedureId: string;
-  analyteId: string;
-  level: number;
-  period: string;
-  n: number;
-  mean: number;
-  sd: number;
-};
-
-type ExclusionRow = { procedureId: string; level: number | null; period: string; reason: string };
-
 /**
  * Recomputes provisional (version 0) peer statistics for the targets: for each peer group of the lot and
  * analyte, the period figures of each target level and period, and the lot-to-date cumulative figures of
@@ -279,17 +270,19 @@ async function recomputeLot(
         );
 
   const rows: (typeof peerStatistics.$inferInsert)[] = [];
+  const failures: (typeof peerStatisticsFailures.$inferInsert)[] = [];
 
   // Period figures of each target.
   for (const target of targets) {
     const entries = (series.get(`${target.analyteId}|${target.level}`) ?? []).filter(
       (s) => s.period === target.period,
     );
-    for (const g of groupFigures(membership, entries, settings, (id) =>
+    const computed = groupFigures(membership, entries, settings, (id) =>
       exclusionOf(id, target.level, target.period),
-    )) {
-      rows.push({ ...g, level: target.level, period: target.period, scope: 'period', version: 0 });
-    }
+    );
+    const at = { level: target.level, period: target.period, scope: 'period' } as const;
+    for (const g of computed.figures) rows.push({ ...g, ...at, version: 0 });
+    for (const f of computed.failures) failures.push({ ...f, ...at });
   }
 
   // Lot-to-date figures from the earliest target period on, per analyte and level.
@@ -306,9 +299,10 @@ async function recomputeLot(
       const toDate = cumulativeByProcedure(
         ofSeries.filter((s) => s.period <= period && !exclusionOf(s.procedureId, first.level, s.period)),
       );
-      for (const g of groupFigures(membership, toDate, settings, () => undefined)) {
-        rows.push({ ...g, level: first.level, period, scope: 'cumulative', version: 0 });
-      }
+      const computed = groupFigures(membership, toDate, settings, () => undefined);
+      const at = { level: first.level, period, scope: 'cumulative' } as const;
+      for (const g of computed.figures) rows.push({ ...g, ...at, version: 0 });
+      for (const f of computed.failures) failures.push({ ...f, ...at });
     }
   }
 
@@ -327,6 +321,26 @@ async function recomputeLot(
       .delete(peerStatistics)
       .where(and(eq(peerStatistics.version, 0), eq(peerStatistics.scope, 'period'), or(...periodConditions)));
   }
+  // Failures of the same groups, levels and periods are replaced too: a group computed now is cleared.
+  const failureConditions = (scope: 'period' | 'cumulative', list: readonly PeerStatisticsTarget[]) =>
+    list
+      .filter((t) => groupIdsOf(t.analyteId).length > 0)
+      .map((t) =>
+        and(
+          eq(peerStatisticsFailures.scope, scope),
+          inArray(peerStatisticsFailures.peerGroupId, groupIdsOf(t.analyteId)),
+          eq(peerStatisticsFailures.level, t.level),
+          scope === 'period'
+            ? eq(peerStatisticsFailures.period, t.period)
+            : gte(peerStatisticsFailures.period, t.period),
+        ),
+      );
+  const clearFailures = [
+    ...failureConditions('period', targets),
+    ...failureConditions('cumulative', [...firstPeriod.values()]),
+  ];
+  if (clearFailures.length) await tx.delete(peerStatisticsFailures).where(or(...clearFailures));
+  if (failures.length) await tx.insert(peerStatisticsFailures).values(failures);
   const cumulativeConditions = [...firstPeriod.values()]
     .filter((t) => groupIdsOf(t.analyteId).length > 0)
     .map((t) =>
@@ -384,84 +398,6 @@ function statisticsRecord(row: typeof peerStatistics.$inferInsert) {
     members: row.members,
   };
 }
-
-/** Each procedure's to-date figures: its monthly summaries pooled (METHODS.md §1). */
-function cumulativeByProcedure(rows: readonly SummaryRow[]): SummaryRow[] {
-  const byProcedure = new Map<string, SummaryRow[]>();
-  for (const r of rows) {
-    const list = byProcedure.get(r.procedureId);
-    if (list) list.push(r);
-    else byProcedure.set(r.procedureId, [r]);
-  }
-  const result: SummaryRow[] = [];
-  for (const [procedureId, parts] of byProcedure) {
-    const pooled = parts.length === 1 ? parts[0] : pool(parts);
-    const last = parts[parts.length - 1];
-    result.push({
-      procedureId,
-      analyteId: last.analyteId,
-      level: last.level,
-      period: last.period,
-      n: pooled.n,
-      mean: pooled.mean,
-      sd: pooled.sd,
-    });
-  }
-  return result;
-}
-
-type GroupFigures = Omit<typeof peerStatistics.$inferInsert, 'level' | 'period' | 'scope' | 'version'>;
-
-/** peerStatistics for every group that has members among the entries, at every tier. */
-function groupFigures(
-  membership: PeerMembership,
-  entries: readonly SummaryRow[],
-  settings: PeerStatisticsSettings,
-  exclusionOf: (procedureId: string) => ExclusionRow | undefined,
-): GroupFigures[] {
-  const members = new Map<string, SummaryRow[]>();
-  for (const entry of entries) {
-    const groups = membership.get(entry.procedureId);
-    if (!groups) continue;
-    for (const tier of PEER_TIERS) {
-      const group = groups[tier];
-      if (!group) continue;
-      const list = members.get(group.id);
-      if (list) list.push(entry);
-      else members.set(group.id, [entry]);
-    }
-  }
-  const result: GroupFigures[] = [];
-  for (const [peerGroupId, list] of members) {
-    const manual = list.filter((e) => exclusionOf(e.procedureId));
-    const stats: PeerStatistics = computePeerStatistics(
-      list.map((e) => ({ id: e.procedureId, n: e.n, mean: e.mean, sd: e.sd })),
-      { minLabs: settings.minLabs ?? thresholds().peerMinLabs, excludeIds: manual.map((e) => e.procedureId) },
-    );
-    const excluded: ExcludedLab[] = stats.excluded.map((x) => {
-      const note = x.reason === 'manual' ? exclusionOf(x.id)?.reason : undefined;
-      return note ? { id: x.id, reason: x.reason, note } : { id: x.id, reason: x.reason };
-    });
-    result.push({
-      peerGroupId,
-      labs: stats.labs,
-      n: stats.n,
-      mean: finiteOrNull(stats.mean),
-      sd: finiteOrNull(stats.sd),
-      cv: finiteOrNull(stats.cv),
-      withinSd: finiteOrNull(stats.withinSd),
-      withinCv: finiteOrNull(stats.withinCv),
-      robustMean: finiteOrNull(stats.robustMean),
-      robustSd: finiteOrNull(stats.robustSd),
-      sufficient: stats.sufficient,
-      excluded,
-      members: list.map((e) => e.procedureId),
-    });
-  }
-  return result;
-}
-
-const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
 function dedupeTargets(targets: readonly PeerStatisticsTarget[]): PeerStatisticsTarget[] {
   const seen = new Map<string, PeerStatisticsTarget>();

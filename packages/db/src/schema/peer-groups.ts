@@ -141,3 +141,23 @@ export const peerStatisticsRequests = pgTable(
   },
   (t) => [primaryKey({ columns: [t.controlLotId, t.analyteId, t.level, t.period] })],
 );
+
+/**
+ * A peer group whose provisional figures for one level, period and scope could not be computed on the
+ * last recompute, with the reason. The other groups of that recompute were still computed; the next
+ * recompute that computes the group removes the row. Shown to the coordinator.
+ */
+export const peerStatisticsFailures = pgTable(
+  'peer_statistics_failures',
+  {
+    peerGroupId: uuid()
+      .notNull()
+      .references(() => peerGroups.id),
+    level: integer().notNull(),
+    period: text().notNull(),
+    scope: text().notNull(),
+    reason: text().notNull(),
+    failedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.peerGroupId, t.level, t.period, t.scope] }), index().on(t.period)],
+);

@@ -1,9 +1,8 @@
 import { Router, type RequestHandler } from 'express';
-import { auditQuerySchema } from '@plumbline/contracts';
+import { auditQuerySchema, toCsv } from '@plumbline/contracts';
 import type { AppDeps } from '../../deps.ts';
 import { requireRole } from '../../auth/authenticate.ts';
 import { parseInput } from '../../http/validate.ts';
-import { toCsv } from '../../http/csv.ts';
 import { listAuditEvents } from './audit.repository.ts';
 
 /** The audit log, for the coordinator: filters by actor, lab, kind and date range; CSV export. */

@@ -21,8 +21,8 @@ const boardReader: Principal = {
 };
 
 /**
- * Action-level flags per lab for a period — |SDI| > 3, CVR > 2, or the lab's data excluded as an
- * outlier from the peer figures — taken from the same report rows the lab itself sees (the published
+ * Action-level flags per lab for a period — |SDI| > 3, CVR > 2, the lab's data excluded as an
+ * outlier from the peer figures, or a row whose comparison cannot be computed — taken from the same report rows the lab itself sees (the published
  * version once the period is published, the provisional figures before).
  */
 export async function participationFlags(
@@ -40,6 +40,7 @@ export async function participationFlags(
         found.push({ kind: 'sdi', ...where, value: row.sdi });
       if (row.cvr !== null && row.cvr > CVR_ACTION) found.push({ kind: 'cvr', ...where, value: row.cvr });
       if (row.excluded?.reason === 'outlier') found.push({ kind: 'excluded-outlier', ...where, value: null });
+      if (row.notComputable) found.push({ kind: 'not-computable', ...where, value: null });
     }
     flags.set(labId, found);
   }

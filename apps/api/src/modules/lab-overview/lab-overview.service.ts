@@ -161,7 +161,12 @@ export async function labOverview(
     const report = await buildPeerReport(db, principal, labId, latest, { units: lab.preferredUnits });
     const bySeverity = emptyCounts();
     const rowsBySeverity = emptyCounts();
+    let rowsNotComputable = 0;
     for (const row of report.rows) {
+      if (row.notComputable) {
+        rowsNotComputable += 1;
+        continue;
+      }
       let worst: ReportFlag['severity'] = 'fine';
       for (const flag of row.flags) {
         bySeverity[flag.severity] += 1;
@@ -174,8 +179,20 @@ export async function labOverview(
       published: report.published !== null,
       rows: report.rows.length,
       rowsBySeverity,
+      rowsNotComputable,
       bySeverity,
     };
+    if (rowsNotComputable > 0) {
+      attention.push(
+        item({
+          kind: 'rows-not-computable',
+          severity: 'warning',
+          period: latest,
+          count: rowsNotComputable,
+          message: `${plural(rowsNotComputable, 'report row')} of ${latest} cannot be computed; the report says why for each.`,
+        }),
+      );
+    }
     const signed = Boolean(await findSignoff(db, labId, latest));
     if (rowsBySeverity.action > 0) {
       attention.push(

@@ -76,21 +76,27 @@ const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : nul
 
 /**
  * The figures of a group from its members' summaries (METHODS.md §2, `peerStatistics`), with the
- * coordinator's exclusions of that level passed as manual exclusions. Null when no member has data.
+ * coordinator's exclusions of that level passed as manual exclusions. Null when no member has data;
+ * `{ notComputable }` when the statistics cannot be computed (the other groups of a preview still are).
  */
 export function groupFigures(
   entries: readonly SummaryEntry[],
   exclusions: readonly ExclusionEntry[],
   minLabs: number,
-): PeerGroupFigures | null {
+): PeerGroupFigures | { notComputable: string } | null {
   if (entries.length === 0) return null;
   const exclusionOf = (e: SummaryEntry) =>
     exclusions.find((x) => x.procedureId === e.procedureId && (x.level === null || x.level === e.level));
   const manual = entries.filter((e) => exclusionOf(e));
-  const stats = computePeerStatistics(
-    entries.map((e) => ({ id: e.procedureId, n: e.n, mean: e.mean, sd: e.sd })),
-    { minLabs, excludeIds: manual.map((e) => e.procedureId) },
-  );
+  let stats: ReturnType<typeof computePeerStatistics>;
+  try {
+    stats = computePeerStatistics(
+      entries.map((e) => ({ id: e.procedureId, n: e.n, mean: e.mean, sd: e.sd })),
+      { minLabs, excludeIds: manual.map((e) => e.procedureId) },
+    );
+  } catch (error) {
+    return { notComputable: (error as Error).message };
+  }
   return {
     labs: stats.labs,
     n: stats.n,
@@ -144,12 +150,23 @@ export function previewGroups(
         .map((pid) => procedureById.get(pid)!)
         .sort((a, b) => a.lab.code.localeCompare(b.lab.code) || a.code.localeCompare(b.code))
         .map((p) => ({ procedureId: p.id, procedureCode: p.code, lab: p.lab })),
-      figures: groupFigures(
-        entries,
-        scenario.exclusions.filter((x) => x.level === null || x.level === context.level),
-        context.minLabs,
+      ...previewFigures(
+        groupFigures(
+          entries,
+          scenario.exclusions.filter((x) => x.level === null || x.level === context.level),
+          context.minLabs,
+        ),
       ),
     });
   }
   return result;
+}
+
+function previewFigures(
+  figures: ReturnType<typeof groupFigures>,
+): Pick<PreviewGroup, 'figures' | 'notComputable'> {
+  if (figures && 'notComputable' in figures) {
+    return { figures: null, notComputable: { reason: figures.notComputable } };
+  }
+  return { figures, notComputable: null };
 }

@@ -10,6 +10,7 @@ import {
   peerGroupAssignments,
   peerGroups,
   peerStatistics,
+  peerStatisticsFailures,
   periods,
   procedures,
   publications,
@@ -249,6 +250,22 @@ export async function periodStatistics(
 }
 
 /** Every level and period of the lot and analyte with data (of one period, or some levels, when given): what a change must recompute. */
+/** The period-scope failures of the last recompute for these groups and level. */
+export async function periodFailures(db: Executor, groupIds: string[], level: number, period: string) {
+  if (groupIds.length === 0) return [];
+  return db
+    .select()
+    .from(peerStatisticsFailures)
+    .where(
+      and(
+        inArray(peerStatisticsFailures.peerGroupId, groupIds),
+        eq(peerStatisticsFailures.level, level),
+        eq(peerStatisticsFailures.period, period),
+        eq(peerStatisticsFailures.scope, 'period'),
+      ),
+    );
+}
+
 export async function dataTargets(
   db: Executor,
   controlLotId: string,

@@ -139,7 +139,10 @@ export async function peerGroupsView(db: Database, rawQuery: unknown): Promise<P
   for (const entry of membership.values()) for (const g of Object.values(entry)) if (g) shownIds.add(g.id);
   const versions = publication ? [0, publication.version] : [0];
   const statistics = await repo.periodStatistics(db, [...shownIds], query.level, query.period, versions);
+  const failures = await repo.periodFailures(db, [...shownIds], query.level, query.period);
 
+  const notComputableOf = (failure: (typeof failures)[number] | undefined) =>
+    failure ? { reason: failure.reason, failedAt: failure.failedAt.toISOString() } : null;
   const buildGroup = (group: GroupRow): PeerGroup => {
     const provisional = statistics.find((r) => r.peerGroupId === group.id && r.version === 0);
     const published = publication
@@ -182,6 +185,7 @@ export async function peerGroupsView(db: Database, rawQuery: unknown): Promise<P
       members,
       labsWithData: new Set(members.filter((m) => m.data).map((m) => m.lab.id)).size,
       provisional: provisional ? figuresOfRow(provisional) : null,
+      notComputable: notComputableOf(failures.find((f) => f.peerGroupId === group.id)),
       published:
         published && publication ? { ...figuresOfRow(published), version: publication.version } : null,
     };

@@ -5,6 +5,7 @@ import {
   labs,
   peerGroups,
   peerStatistics,
+  peerStatisticsFailures,
   procedures,
   publications,
   qcSummaries,
@@ -85,6 +86,18 @@ export async function summariesToDate(db: Executor, procedureIds: string[], peri
 }
 
 export type PeerStatisticsRow = typeof peerStatistics.$inferSelect;
+export type LabSummaryRow = Awaited<ReturnType<typeof labSummaries>>[number];
+
+/** Groups of the period whose provisional figures the last recompute could not compute. */
+export async function statisticsFailuresFor(db: Executor, groupIds: string[], period: string) {
+  if (groupIds.length === 0) return [];
+  return db
+    .select()
+    .from(peerStatisticsFailures)
+    .where(
+      and(inArray(peerStatisticsFailures.peerGroupId, groupIds), eq(peerStatisticsFailures.period, period)),
+    );
+}
 
 export async function peerStatisticsFor(
   db: Executor,

@@ -1,4 +1,4 @@
-import { evaluateTea, pool, sigmaMetric, standing } from '@plumbline/stats';
+import { evaluateTea, pool, sigmaMetric } from '@plumbline/stats';
 import {
   PEER_TIERS,
   hasPendingPeerStatistics,
@@ -19,7 +19,15 @@ import type {
 import type { Principal } from '../../auth/principal.ts';
 import { assertLabAccess } from '../../auth/authenticate.ts';
 import { notFound } from '../../errors/app-error.ts';
-import { cvrFlag, exclusionFlag, peerNote, sdiFlag, type TierCandidate } from './flags.ts';
+import { cvrFlag, exclusionFlag, peerNote, sdiFlag, tierDescription, type TierCandidate } from './flags.ts';
+import {
+  compare,
+  figuresOf,
+  finiteRow,
+  notComputableRow,
+  type Figures,
+  type RowIdentity,
+} from './report-row.ts';
 import * as repo from './peer-report.repository.ts';
 import { convertSpread, convertValue, displayUnitFor, type DisplayUnit } from '../../units/convert.ts';
 
@@ -96,7 +104,12 @@ export async function buildPeerReport(
 
   const toDate = await repo.summariesToDate(db, [...new Set(summaries.map((s) => s.procedureId))], period);
 
-  const rows: PeerReportRow[] = summaries.map((s) => {
+  // Groups the last recompute could not compute: a row that would be compared with one says so.
+  const failures = await repo.statisticsFailuresFor(db, [...groupIds], period);
+  const failureOf = (groupId: string, level: number, scope: 'period' | 'cumulative') =>
+    failures.find((f) => f.peerGroupId === groupId && f.level === level && f.scope === scope);
+
+  const rowOf = (s: repo.LabSummaryRow): PeerReportRow => {
     const groups = memberships.get(s.controlLotId)?.get(s.procedureId) ?? {};
     const choose = (scope: 'period' | 'cumulative') => {
       const candidates: (TierCandidate & { row: repo.PeerStatisticsRow | undefined })[] = PEER_TIERS.map(
@@ -112,13 +125,26 @@ export async function buildPeerReport(
           };
         },
       );
-      return { candidates, chosen: candidates.find((c) => c.sufficient) };
+      const chosen = candidates.find((c) => c.sufficient);
+      // A narrower group without figures because they failed might have been the one to compare with.
+      const narrower = chosen ? candidates.slice(0, candidates.indexOf(chosen)) : candidates;
+      const failed = narrower.find((c) => {
+        const group = groups[c.tier];
+        return !c.row && group && failureOf(group.id, s.level, scope);
+      });
+      const failure = failed && failureOf(groups[failed.tier]!.id, s.level, scope);
+      const problem = failure
+        ? `The peer figures of the group with ${tierDescription[failed!.tier]} could not be computed: ${failure.reason}`
+        : null;
+      return { candidates, chosen: problem ? undefined : chosen, problem };
     };
 
     const labFigures = figuresOf(s);
     const current = choose('period');
     const peer = current.chosen ? peerFiguresOf(current.chosen.tier, current.chosen.row!) : null;
-    const position = peer ? safeStanding(labFigures, peer) : null;
+    const comparison = peer ? compare(labFigures, peer) : null;
+    const position = comparison?.standing ?? null;
+    const problem = current.problem ?? comparison?.problem ?? null;
 
     const labToDateParts = toDate.filter(
       (t) => t.procedureId === s.procedureId && t.controlLotId === s.controlLotId && t.level === s.level,
@@ -130,7 +156,9 @@ export async function buildPeerReport(
     const peerToDate = cumulative.chosen
       ? peerFiguresOf(cumulative.chosen.tier, cumulative.chosen.row!)
       : null;
-    const positionToDate = labToDate && peerToDate ? safeStanding(labToDate, peerToDate) : null;
+    const comparisonToDate = labToDate && peerToDate ? compare(labToDate, peerToDate) : null;
+    const positionToDate = comparisonToDate?.standing ?? null;
+    const problemToDate = cumulative.problem ?? comparisonToDate?.problem ?? null;
 
     const excludedEntry = current.chosen?.row?.excluded.find((e) => e.id === s.procedureId);
     const excluded = excludedEntry
@@ -152,16 +180,8 @@ export async function buildPeerReport(
       { ...s.analyte, conventionalUnit: s.conventionalUnit, molarMass: s.molarMass },
       units,
     );
-    return {
-      procedure: { id: s.procedureId, code: s.procedureCode },
-      analyte: s.analyte,
-      controlLot: { id: s.controlLotId, lotNumber: s.lotNumber },
-      level: s.level,
-      unit: shown.unit,
-      canonicalUnit: s.analyte.unit,
-      decimals: shown.decimals,
-      source: s.source === 'values' ? 'values' : 'summary',
-      late: s.late,
+    return finiteRow({
+      ...identityOf(s, shown),
       lab: labFiguresIn(labFigures, shown),
       peer: peer && peerFiguresIn(peer, shown),
       peerNote: peerNote(current.candidates, minLabs),
@@ -175,10 +195,22 @@ export async function buildPeerReport(
         peer: peerToDate && peerFiguresIn(peerToDate, shown),
         sdi: positionToDate?.sdi ?? null,
         cvr: positionToDate?.cvr ?? null,
+        notComputable: problemToDate ? { reason: problemToDate } : null,
       },
       excluded,
       flags,
-    };
+      notComputable: problem ? { reason: problem } : null,
+    });
+  };
+
+  // Row by row: a row that throws is shown as not computable and the other rows stay as they are.
+  const rows = summaries.map((s) => {
+    try {
+      return rowOf(s);
+    } catch (error) {
+      const reason = `The figures of this row could not be computed: ${(error as Error).message}`;
+      return notComputableRow(identityOf(s, null), figuresOf(s), { reason });
+    }
   });
 
   return {
@@ -193,11 +225,22 @@ export async function buildPeerReport(
   };
 }
 
-function figuresOf(s: { n: number; mean: number; sd: number }): LabFigures {
-  return { n: s.n, mean: s.mean, sd: s.sd, cv: s.mean !== 0 ? (100 * s.sd) / Math.abs(s.mean) : null };
+/** A row's identity; with no display unit (something failed before it was known), the canonical unit. */
+function identityOf(s: repo.LabSummaryRow, shown: DisplayUnit | null): RowIdentity {
+  return {
+    procedure: { id: s.procedureId, code: s.procedureCode },
+    analyte: s.analyte,
+    controlLot: { id: s.controlLotId, lotNumber: s.lotNumber },
+    level: s.level,
+    unit: shown?.unit ?? s.analyte.unit,
+    canonicalUnit: s.analyte.unit,
+    decimals: shown?.decimals ?? s.analyte.decimals,
+    source: s.source === 'values' ? 'values' : 'summary',
+    late: s.late,
+  };
 }
 
-function labFiguresIn(figures: LabFigures, unit: DisplayUnit): LabFigures {
+function labFiguresIn(figures: Figures, unit: DisplayUnit): LabFigures {
   return { ...figures, mean: convertValue(figures.mean, unit), sd: convertSpread(figures.sd, unit) };
 }
 
@@ -209,19 +252,6 @@ function peerFiguresOf(tier: PeerFigures['tier'], row: repo.PeerStatisticsRow): 
   return { tier, labs: row.labs, n: row.n, mean: row.mean!, sd: row.sd!, cv: row.cv, withinCv: row.withinCv };
 }
 
-/** SDI, CVR and bias when the figures allow them (a peer SD or within-lab CV of 0 does not). */
-function safeStanding(lab: LabFigures, peer: PeerFigures) {
-  if (
-    !(peer.sd > 0) ||
-    !(peer.mean > 0) ||
-    !(peer.withinCv !== null && peer.withinCv > 0) ||
-    lab.mean === 0 ||
-    lab.n < 2
-  ) {
-    return null;
-  }
-  return standing(lab, { mean: peer.mean, sd: peer.sd, withinCv: peer.withinCv });
-}
 
 /**
  * The analyte's total allowable error rule ("± absolute or ± %, whichever is greater") evaluated at a

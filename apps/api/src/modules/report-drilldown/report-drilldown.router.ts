@@ -1,10 +1,9 @@
 import { Router, type RequestHandler } from 'express';
 import { z } from 'zod';
-import { drilldownQuerySchema } from '@plumbline/contracts';
+import { drilldownQuerySchema, toCsv } from '@plumbline/contracts';
 import type { AppDeps } from '../../deps.ts';
 import { principalOf } from '../../auth/authenticate.ts';
 import { parseInput } from '../../http/validate.ts';
-import { toCsv } from '../../http/csv.ts';
 import { buildDrilldown } from './report-drilldown.service.ts';
 
 const levelSchema = z.coerce.number().int().min(1).max(9);
@@ -48,6 +47,7 @@ export function reportDrilldownRouter(deps: AppDeps, requireUser: RequestHandler
         'cvr',
         'bias_pct',
         'published',
+        'not_computable',
       ],
       d.trend.map((t) => [
         t.period,
@@ -64,6 +64,7 @@ export function reportDrilldownRouter(deps: AppDeps, requireUser: RequestHandler
         t.cvr,
         t.biasPct,
         t.published ? 'yes' : 'no',
+        t.notComputable,
       ]),
     );
     sendCsv(res, `trend-${d.procedure.code}-${d.controlLot.lotNumber}-L${d.level}-${d.period}.csv`, csv);

@@ -3,9 +3,7 @@ import {
   measurementUncertainty,
   peerMeanUncertaintyPct,
   pool,
-  standing,
   type ControlPoint,
-  type Standing,
 } from '@plumbline/stats';
 import {
   PEER_TIERS,
@@ -14,38 +12,18 @@ import {
   type Database,
   type PeerTierName,
 } from '@plumbline/db';
-import type { Drilldown, DrilldownQuery, TrendPoint } from '@plumbline/contracts';
+import type { Drilldown, DrilldownQuery, PeerFigures, TrendPoint } from '@plumbline/contracts';
 import type { Principal } from '../../auth/principal.ts';
 import { notFound } from '../../errors/app-error.ts';
 import { convertSpread, convertValue, displayUnitFor } from '../../units/convert.ts';
 import { UUID, visibleLab } from '../lab-review/lab-scope.ts';
+import { compare, figuresOf } from '../peer-report/report-row.ts';
 import * as repo from './report-drilldown.repository.ts';
 
 /** How many periods the SDI/CVR trend covers (issue 6: the last 12). */
 export const TREND_PERIODS = 12;
 
-type Figures = { n: number; mean: number; sd: number };
 type Chosen = { tier: PeerTierName; row: repo.PeerStatisticsRow; published: boolean };
-
-/**
- * SDI, CVR and bias when the figures allow them — the same conditions as the peer report (a peer SD,
- * peer mean or within-lab CV of 0, or a lab mean of 0, gives none).
- */
-export function safeStanding(
-  lab: Figures,
-  peer: { mean: number; sd: number; withinCv: number | null },
-): Standing | null {
-  if (
-    !(peer.sd > 0) ||
-    !(peer.mean > 0) ||
-    !(peer.withinCv !== null && peer.withinCv > 0) ||
-    lab.mean === 0 ||
-    lab.n < 2
-  ) {
-    return null;
-  }
-  return standing(lab, { mean: peer.mean, sd: peer.sd, withinCv: peer.withinCv });
-}
 
 /**
  * Everything behind one report row (procedure, control lot, level) in a period: the SDI/CVR trend, the
@@ -115,12 +93,15 @@ export async function buildDrilldown(
     return null;
   };
 
+  // Parts that cannot be computed are listed with the reason; the rest of the drill-down still is.
+  const notComputable: string[] = [];
+
   // 1. Trend of SDI, CVR and bias.
   const trend: TrendPoint[] = trendRows.map((s) => {
     const chosen = choosePeer(level, s.period, 'period');
-    const position = chosen
-      ? safeStanding(s, { mean: chosen.row.mean!, sd: chosen.row.sd!, withinCv: chosen.row.withinCv })
-      : null;
+    const comparison = chosen ? compare(figuresOf(s), peerFiguresOfRow(chosen)) : null;
+    if (comparison?.problem) notComputable.push(`${s.period}: ${comparison.problem}`);
+    const position = comparison?.standing ?? null;
     return {
       period: s.period,
       sdi: position?.sdi ?? null,
@@ -132,6 +113,7 @@ export async function buildDrilldown(
       peerSd: chosen ? spread(chosen.row.sd!) : null,
       tier: chosen?.tier ?? null,
       published: chosen?.published ?? false,
+      notComputable: comparison?.problem ?? null,
     };
   });
 
@@ -176,11 +158,13 @@ export async function buildDrilldown(
           const a = data.find((s) => s.procedureId === id && s.level === pair[0]);
           const b = data.find((s) => s.procedureId === id && s.level === pair[1]);
           if (!a || !b) continue;
-          points.push({
+          const point = {
             sdi1: (a.mean - p1.mean!) / p1.sd!,
             sdi2: (b.mean - p2.mean!) / p2.sd!,
             own: id === procedure.id,
-          });
+          };
+          if (Number.isFinite(point.sdi1) && Number.isFinite(point.sdi2)) points.push(point);
+          else if (point.own) notComputable.push('Two-level plot: your SDI is not a finite number.');
         }
         points.sort((x, y) => x.sdi1 - y.sdi1 || x.sdi2 - y.sdi2);
         twoLevel = { levels: pair, points };
@@ -200,6 +184,7 @@ export async function buildDrilldown(
         own.filter((s) => s.level === lvl),
         period,
       ),
+    problem: (reason) => notComputable.push(`Levey-Jennings chart: ${reason}`),
     peerTarget: (lvl) => {
       const toDate = choosePeer(lvl, period, 'cumulative');
       if (toDate && toDate.row.sd! > 0)
@@ -261,6 +246,21 @@ export async function buildDrilldown(
       },
     },
     uncertaintyNote,
+    notComputable,
+  };
+}
+
+/** The chosen peer statistics in the shape the row comparison takes. */
+function peerFiguresOfRow(chosen: Chosen): PeerFigures {
+  const r = chosen.row;
+  return {
+    tier: chosen.tier,
+    labs: r.labs,
+    n: r.n,
+    mean: r.mean!,
+    sd: r.sd!,
+    cv: r.cv,
+    withinCv: r.withinCv,
   };
 }
 
@@ -300,6 +300,8 @@ async function leveyJenningsOf(
     kind: 'lab' | 'peer';
     labTarget: (level: number) => Target | null;
     peerTarget: (level: number) => Target | null;
+    /** Told why the chart cannot be computed, when it cannot. */
+    problem: (reason: string) => void;
   },
 ) {
   const values = await repo.dailyValues(db, input.procedureId, input.controlLotId, input.period);
@@ -336,7 +338,13 @@ async function leveyJenningsOf(
   const points: ControlPoint[] = ordered.map((v) => ({ run: runOf(v), level: v.level, value: v.value }));
   const record: Record<number, { mean: number; sd: number }> = {};
   for (const [lvl, t] of targets) record[lvl] = { mean: t.mean, sd: t.sd };
-  const result = evaluateMultirule(points, record);
+  let result: ReturnType<typeof evaluateMultirule>;
+  try {
+    result = evaluateMultirule(points, record);
+  } catch (error) {
+    input.problem(`the multirule evaluation failed: ${(error as Error).message}`);
+    return empty;
+  }
 
   const mine = result.points.flatMap((p, i) =>
     p.level === input.level
@@ -381,7 +389,15 @@ function uncertaintyOf(
     };
   }
   const k = 2;
-  const u = measurementUncertainty({ cvPct: cv, comparisons, coverageFactor: k });
+  let u: ReturnType<typeof measurementUncertainty>;
+  try {
+    u = measurementUncertainty({ cvPct: cv, comparisons, coverageFactor: k });
+  } catch (error) {
+    return {
+      uncertainty: null,
+      uncertaintyNote: `The measurement uncertainty cannot be computed: ${(error as Error).message}`,
+    };
+  }
   return {
     uncertainty: {
       ...u,

@@ -103,8 +103,8 @@ describe('unit preference', () => {
     const [gluSi, gluConv] = pair('GLU1', 1);
     expect(gluConv.unit).toBe('mg/dL');
     expect(gluConv.canonicalUnit).toBe('mmol/L');
-    expect(gluConv.lab.mean).toBeCloseTo(gluSi.lab.mean * 18.016, 9);
-    expect(gluConv.lab.sd).toBeCloseTo(gluSi.lab.sd * 18.016, 9);
+    expect(gluConv.lab.mean).toBeCloseTo(gluSi.lab.mean! * 18.016, 9);
+    expect(gluConv.lab.sd).toBeCloseTo(gluSi.lab.sd! * 18.016, 9);
     expect(gluConv.peer!.mean).toBeCloseTo(gluSi.peer!.mean * 18.016, 9);
     expect(gluConv.cumulative.peer!.sd).toBeCloseTo(gluSi.cumulative.peer!.sd * 18.016, 9);
     expect(gluConv.lab.cv).toBe(gluSi.lab.cv);
@@ -116,7 +116,7 @@ describe('unit preference', () => {
     // 113.12 g/mol the exact factor is 10000 / 113.12 = 88.40; the textbook's rounding differs by 0.03 %.
     const [creaSi, creaConv] = pair('CREA1', 2);
     expect(creaConv.unit).toBe('mg/dL');
-    expect(creaConv.lab.mean / (creaSi.lab.mean / 88.42)).toBeCloseTo(1, 3);
+    expect(creaConv.lab.mean! / (creaSi.lab.mean! / 88.42)).toBeCloseTo(1, 3);
     expect(creaConv.peer!.sd / (creaSi.peer!.sd / 88.42)).toBeCloseTo(1, 3);
     expect(creaConv.sdi).toBe(creaSi.sdi);
   });

@@ -240,6 +240,19 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
     }
   }
 
+  // Rows whose comparison cannot be computed, with the reason (the other rows are unaffected).
+  const notComputable = report.rows.filter((r) => r.notComputable || r.cumulative.notComputable);
+  if (notComputable.length > 0) {
+    heading('Rows that cannot be computed');
+    for (const row of notComputable) {
+      const reasons = [
+        row.notComputable && `this month: ${row.notComputable.reason}`,
+        row.cumulative.notComputable && `lot to date: ${row.cumulative.notComputable.reason}`,
+      ].filter(Boolean);
+      paragraph(`${rowLabel(row)}: ${reasons.join(' ')}`, { size: 8.5 });
+    }
+  }
+
   // Charts of the flagged rows.
   if (data.flagged.length > 0) {
     heading('Charts of the flagged rows', CHART_BLOCK_HEIGHT);
@@ -340,7 +353,11 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
       { title: 'CVR', width: 34, align: 'right', cell: (r) => formatNumber(r.cvr, 2) },
       { title: 'Bias %', width: 38, align: 'right', cell: (r) => formatNumber(r.biasPct, 1) },
       { title: 'Sigma', width: 34, align: 'right', cell: (r) => formatNumber(r.sigma, 1) },
-      { title: 'Flag', width: 0, cell: (r) => worstFlag(r.flags) ?? '—' },
+      {
+        title: 'Flag',
+        width: 0,
+        cell: (r) => (r.notComputable ? 'cannot be computed' : (worstFlag(r.flags) ?? '—')),
+      },
     ];
     const used = columns.reduce((sum, c) => sum + c.width, 0);
     columns[columns.length - 1].width = Math.max(40, width - used);

@@ -1,5 +1,11 @@
-import type { Comment, PeerReport, ReportFlag, TestMenuItem, UploadSummary } from '@plumbline/contracts';
-import { toCsv } from '../../http/csv.ts';
+import {
+  toCsv,
+  type Comment,
+  type PeerReport,
+  type ReportFlag,
+  type TestMenuItem,
+  type UploadSummary,
+} from '@plumbline/contracts';
 
 const severityRank: Record<ReportFlag['severity'], number> = {
   fine: 0,
@@ -53,6 +59,8 @@ export function peerReportCsv(report: PeerReport): string {
       'excluded',
       'peer_note',
       'late',
+      'not_computable',
+      'cumulative_not_computable',
     ],
     report.rows.map((r) => [
       report.period,
@@ -87,6 +95,8 @@ export function peerReportCsv(report: PeerReport): string {
       r.excluded ? `${r.excluded.reason}${r.excluded.note ? `: ${r.excluded.note}` : ''}` : '',
       r.peerNote,
       r.late ? 'yes' : 'no',
+      r.notComputable?.reason,
+      r.cumulative.notComputable?.reason,
     ]),
   );
 }

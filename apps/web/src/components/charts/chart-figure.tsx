@@ -4,7 +4,7 @@
 import { useId, type ReactNode } from 'react';
 import { saveFile } from '../../lib/api-client.ts';
 import type { ChartSize } from './chart-layout.ts';
-import { tableCsv } from './table-csv.ts';
+import { toCsv } from '@plumbline/contracts';
 
 export type LegendItem = { key: string; symbol: ReactNode; label: string };
 
@@ -174,7 +174,7 @@ export function ChartTable({
           saveFile(
             new Blob(
               [
-                tableCsv(
+                toCsv(
                   headers,
                   rows.map((row) => row.cells),
                 ),

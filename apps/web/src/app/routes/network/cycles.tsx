@@ -16,6 +16,7 @@ import {
   type PeriodTransition,
 } from '../../../features/cycles/components/period-transition-dialog.tsx';
 import { PeriodsTable } from '../../../features/cycles/components/periods-table.tsx';
+import { RecomputeFailuresNotice } from '../../../features/peer-groups/components/recompute-failures-notice.tsx';
 import { nextPeriod, periodOf } from '../../../features/cycles/utils/period-dates.ts';
 import { errorMessage } from '../../../lib/form-errors.ts';
 
@@ -59,6 +60,9 @@ export default function CyclesRoute() {
           </li>
         ))}
       </ol>
+
+      {/* Publishing freezes the figures: groups that could not be computed are shown before. */}
+      <RecomputeFailuresNotice />
 
       {periods.isPending ? (
         <PageLoading />

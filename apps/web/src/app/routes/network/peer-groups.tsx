@@ -1,5 +1,6 @@
 import { ContentLayout } from '../../../components/layouts/content-layout.tsx';
 import { PeerGroupsWorkspace } from '../../../features/peer-groups/components/peer-groups-workspace.tsx';
+import { RecomputeFailuresNotice } from '../../../features/peer-groups/components/recompute-failures-notice.tsx';
 
 export default function PeerGroupsRoute() {
   return (
@@ -9,6 +10,7 @@ export default function PeerGroupsRoute() {
       description="Which procedures are compared with each other, per control lot and level: merge, split or move groups, or leave a lab’s data out for a month, each with a preview of the statistics before and after."
       width="wide"
     >
+      <RecomputeFailuresNotice />
       <PeerGroupsWorkspace />
     </ContentLayout>
   );

@@ -2,8 +2,12 @@
 // with a copy button), see when each was last used, revoke one.
 import { useId, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
-import { labApiTokenCreateSchema, type LabApiToken, type LabApiTokenCreated } from '@plumbline/contracts';
-import { tableCsv } from '../../../components/charts/table-csv.ts';
+import {
+  labApiTokenCreateSchema,
+  toCsv,
+  type LabApiToken,
+  type LabApiTokenCreated,
+} from '@plumbline/contracts';
 import { Alert } from '../../../components/ui/alert.tsx';
 import { Badge } from '../../../components/ui/badge.tsx';
 import { Button } from '../../../components/ui/button.tsx';
@@ -54,7 +58,7 @@ export function ApiTokens({ labId }: { labId: string }) {
               saveFile(
                 new Blob(
                   [
-                    tableCsv(
+                    toCsv(
                       ['name', 'starts_with', 'created', 'last_used', 'revoked'],
                       list.map((t) => [t.name, t.prefix, t.createdAt, t.lastUsedAt, t.revokedAt]),
                     ),

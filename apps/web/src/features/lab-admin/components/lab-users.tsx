@@ -5,8 +5,7 @@ import { useQuery } from '@tanstack/react-query';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
-import { invitationCreateSchema, type InvitationCreated, type LabUser } from '@plumbline/contracts';
-import { tableCsv } from '../../../components/charts/table-csv.ts';
+import { invitationCreateSchema, toCsv, type InvitationCreated, type LabUser } from '@plumbline/contracts';
 import { Alert } from '../../../components/ui/alert.tsx';
 import { Badge } from '../../../components/ui/badge.tsx';
 import { Button } from '../../../components/ui/button.tsx';
@@ -71,7 +70,7 @@ export function LabUsers({ labId, currentUserId }: { labId: string; currentUserI
               saveFile(
                 new Blob(
                   [
-                    tableCsv(
+                    toCsv(
                       ['name', 'email', 'role', 'status', 'since'],
                       list.map((u) => [u.name, u.email, u.role, statusOf(u).label, u.createdAt]),
                     ),

@@ -24,6 +24,7 @@ function overview(late: boolean) {
       published: false,
       rows: 24,
       rowsBySeverity: { fine: 12, acceptable: 9, warning: 2, action: 1 },
+      rowsNotComputable: 0,
       bySeverity: { fine: 36, acceptable: 9, warning: 2, action: 2 },
     },
     recentUploads: [buildUploadSummary({ status: 'stored', rowsTotal: 24, rowsAccepted: 24 })],

@@ -165,6 +165,7 @@ function attentionLink(item: AttentionItem, links: OverviewLinks): { to: string;
     case 'no-procedures':
       return links.procedures ? { to: links.procedures, label: 'Register procedures' } : null;
     case 'unsigned-period':
+    case 'rows-not-computable':
       return { to: links.report({ period: item.period ?? undefined }), label: 'Open the report' };
     case 'action-flags':
     case 'warning-flags':

@@ -151,6 +151,20 @@ export function DrilldownView({
           Means and SDs in {drilldown.unit}.
         </p>
         <KeyFigures drilldown={drilldown} />
+        {drilldown.notComputable.length > 0 ? (
+          <div
+            role="note"
+            data-not-computable=""
+            className="rounded-md border border-alarm-200 bg-alarm-50 px-3 py-2 text-sm text-slate-800"
+          >
+            <p className="font-semibold text-alarm-700">Some figures cannot be computed</p>
+            <ul className="mt-1 list-disc pl-5 text-xs">
+              {drilldown.notComputable.map((reason) => (
+                <li key={reason}>{reason}</li>
+              ))}
+            </ul>
+          </div>
+        ) : null}
       </div>
 
       <Section

@@ -34,6 +34,7 @@ const flagLabels: Record<ParticipationFlag['kind'], string> = {
   sdi: '|SDI| > 3',
   cvr: 'CVR > 2',
   'excluded-outlier': 'Excluded as outlier',
+  'not-computable': 'Cannot be computed',
 };
 
 function FlagSummary({ flags }: { flags: ParticipationFlag[] }) {

@@ -8,6 +8,7 @@ import {
   peerGroupAdjustmentListSchema,
   peerGroupAnalyteListSchema,
   peerGroupsViewSchema,
+  peerStatisticsFailureListSchema,
   type AdjustmentKind,
   type PeerGroupsQuery,
 } from '@plumbline/contracts';
@@ -45,6 +46,15 @@ export function getAdjustments(filter: { controlLotId: string; analyteId: string
   });
 }
 
+/** Peer groups the last recompute could not compute (all periods, or one). */
+export function getRecomputeFailures(period: string | undefined, signal?: AbortSignal) {
+  return apiRequest('/peer-groups/failures', {
+    query: period ? { period } : {},
+    schema: peerStatisticsFailureListSchema,
+    signal,
+  });
+}
+
 /** A preview writes nothing, so it is read like any other query (and refetched when its input changes). */
 export function previewAdjustment(kind: AdjustmentKind, body: object, signal?: AbortSignal) {
   return apiRequest(`${adjustmentPaths[kind]}/preview`, {
@@ -78,6 +88,13 @@ export const peerGroupsKeys = {
     queryOptions({
       queryKey: [...peerGroupsKeys.all, 'adjustments', filter] as const,
       queryFn: ({ signal }) => getAdjustments(filter, signal),
+      staleTime: 0,
+    }),
+  failures: (period?: string) =>
+    queryOptions({
+      queryKey: [...peerGroupsKeys.all, 'failures', period ?? 'all'] as const,
+      queryFn: ({ signal }) => getRecomputeFailures(period, signal),
+      // A recompute may run at any time.
       staleTime: 0,
     }),
   preview: (kind: AdjustmentKind, body: object) =>

@@ -55,7 +55,11 @@ function GroupCard({ group, decimals, unit }: { group: PreviewGroup; decimals: n
             : `Members: ${group.members.map((m) => m.lab.code).join(', ')}`}
         </p>
       </header>
-      <FiguresList figures={group.figures} decimals={decimals} unit={unit} />
+      {group.notComputable ? (
+        <p className="text-sm text-alarm-700">The figures cannot be computed: {group.notComputable.reason}</p>
+      ) : (
+        <FiguresList figures={group.figures} decimals={decimals} unit={unit} />
+      )}
       <div className="mt-2 flex flex-wrap gap-1">
         {group.figures && !group.figures.sufficient ? (
           <Badge tone="brass">Too few labs to publish</Badge>

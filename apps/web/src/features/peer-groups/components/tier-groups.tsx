@@ -218,7 +218,12 @@ function GroupStatus({ group }: { group: PeerGroup }) {
   const manual = group.provisional?.excluded.filter((x) => x.reason === 'manual').length ?? 0;
   return (
     <span className="flex flex-wrap gap-1">
-      {!group.provisional ? (
+      {group.notComputable ? (
+        <span title={group.notComputable.reason}>
+          <Badge tone="alarm">Cannot be computed</Badge>
+          <span className="sr-only">: {group.notComputable.reason}</span>
+        </span>
+      ) : !group.provisional ? (
         <Badge tone="muted">No data</Badge>
       ) : group.provisional.sufficient ? (
         <Badge tone="solid">Enough labs</Badge>

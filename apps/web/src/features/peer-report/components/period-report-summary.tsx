@@ -93,7 +93,7 @@ function ReportFigures({ report }: { report: PeerReport }) {
               </th>
               <td className="py-1.5 pr-2">{row.level}</td>
               <td className="py-1.5 pr-2 text-right whitespace-nowrap">
-                {row.lab.mean.toFixed(row.analyte.decimals + 1)}{' '}
+                {row.lab.mean === null ? '—' : row.lab.mean.toFixed(row.analyte.decimals + 1)}{' '}
                 <span className="text-xs text-slate-500">{row.unit}</span>
               </td>
               <td className="py-1.5 text-right">{formatSdi(row.sdi)}</td>

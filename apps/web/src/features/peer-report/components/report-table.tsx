@@ -150,7 +150,14 @@ function buildColumns(
           header: 'SDI',
           meta: { align: 'right' },
           sortUndefined: 'last',
-          cell: ({ row: { original: row } }) => <span className="font-semibold">{signed(row.sdi)}</span>,
+          cell: ({ row: { original: row } }) =>
+            row.notComputable ? (
+              <span className="block w-[4.5rem] text-xs leading-snug font-medium whitespace-normal text-alarm-700">
+                cannot be computed
+              </span>
+            ) : (
+              <span className="font-semibold">{signed(row.sdi)}</span>
+            ),
         }),
         column.accessor((row) => row.cvr ?? undefined, {
           id: 'cvr',
@@ -185,7 +192,14 @@ function buildColumns(
           ),
           meta: { align: 'right' },
           sortUndefined: 'last',
-          cell: ({ row: { original: row } }) => signed(row.cumulative.sdi),
+          cell: ({ row: { original: row } }) =>
+            row.cumulative.notComputable ? (
+              <span className="text-xs text-alarm-700" title={row.cumulative.notComputable.reason}>
+                cannot be computed
+              </span>
+            ) : (
+              signed(row.cumulative.sdi)
+            ),
         }),
       ],
     }),
@@ -268,6 +282,28 @@ function HeaderCell({ header }: { header: Header<PeerReportRow, unknown> }) {
   );
 }
 
+/** The line under a row whose comparison cannot be computed, saying why (the other rows are unaffected). */
+function NotComputableLine({ row, colSpan, edge }: { row: PeerReportRow; colSpan: number; edge: string }) {
+  return (
+    <tr data-not-computable="" className={`border-b border-slate-100 border-l-4 bg-slate-50 ${edge}`}>
+      <td colSpan={colSpan} className="px-2 pb-2 pl-6 text-xs text-slate-700">
+        {row.notComputable ? (
+          <span className="block">
+            <span className="font-semibold text-alarm-700">Comparison cannot be computed:</span>{' '}
+            {row.notComputable.reason}
+          </span>
+        ) : null}
+        {row.cumulative.notComputable ? (
+          <span className="block">
+            <span className="font-semibold text-alarm-700">Lot-to-date comparison cannot be computed:</span>{' '}
+            {row.cumulative.notComputable.reason}
+          </span>
+        ) : null}
+      </td>
+    </tr>
+  );
+}
+
 const rowTint = { fine: '', acceptable: '', warning: 'bg-brass-100/40', action: 'bg-alarm-50/70' } as const;
 const rowEdge = {
   fine: 'border-l-transparent',
@@ -344,6 +380,9 @@ export function ReportTable({
                       </td>
                     ))}
                   </tr>
+                  {row.original.notComputable || row.original.cumulative.notComputable ? (
+                    <NotComputableLine row={row.original} colSpan={leafCount} edge={rowEdge[worst]} />
+                  ) : null}
                   {note?.latest ? (
                     <tr
                       className={`border-b border-slate-100 border-l-4 ${rowEdge[worst]} ${rowTint[worst]}`}

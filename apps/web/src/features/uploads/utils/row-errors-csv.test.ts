@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { csvCell, rowErrorsCsv, rowErrorsFilename } from './row-errors-csv.ts';
+import { rowErrorsCsv, rowErrorsFilename } from './row-errors-csv.ts';
 
 // Quoting rules: RFC 4180 §2 (fields with commas, quotes or line breaks are enclosed in double quotes,
 // a quote inside is doubled; lines end in CRLF). The apostrophe before = + - @ is the OWASP "CSV
@@ -17,12 +17,23 @@ describe('rejected rows as CSV', () => {
     );
   });
 
-  it('when a cell starts like a spreadsheet formula, then it is written as text', () => {
-    expect(csvCell('=SUM(A1:A9)')).toBe("'=SUM(A1:A9)");
-    expect(csvCell('@cmd')).toBe("'@cmd");
-    expect(csvCell('-0.04')).toBe("'-0.04");
-    expect(csvCell(-3)).toBe('-3');
-    expect(csvCell('Lot')).toBe('Lot');
+  it('when a message or column quotes formula-like text from the file, then it is written as text', () => {
+    const text = rowErrorsCsv([
+      {
+        row: 2,
+        column: '=HYPERLINK("http://attacker.invalid")',
+        code: 'missing_column',
+        message: '@SUM(A1)',
+      },
+      { row: 3, column: 'lot', code: 'unknown_control_lot', message: '+cmd' },
+      { row: 4, column: 'mean', code: 'required', message: '-0.04' },
+    ]);
+    expect(text.split('\r\n').slice(1, 4)).toEqual([
+      `2,"'=HYPERLINK(""http://attacker.invalid"")",missing_column,'@SUM(A1)`,
+      "3,lot,unknown_control_lot,'+cmd",
+      // A whole cell that is a plain number stays a number (see csvCell in @plumbline/contracts).
+      '4,mean,required,-0.04',
+    ]);
   });
 
   it('when the upload has a file name, then the download is named after it', () => {
