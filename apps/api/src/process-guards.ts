@@ -11,7 +11,9 @@ export function installProcessGuards(name: string, options = { maxPerMinute: 20 
     const detail = error instanceof Error ? (error.stack ?? error.message) : String(error);
     console.error(`${name}: ${kind} (kept running): ${detail}`);
     if (recent.length > options.maxPerMinute) {
-      console.error(`${name}: ${recent.length} unexpected errors within a minute; exiting so the supervisor restarts it`);
+      console.error(
+        `${name}: ${recent.length} unexpected errors within a minute; exiting so the supervisor restarts it`,
+      );
       process.exit(1);
     }
   };

@@ -149,18 +149,17 @@ describe('malformed multipart bodies on every upload and import route', () => {
           .send(c.body(route.maxBytes));
         const key = `${c.label} → ${res.status}`;
         seen.set(key, (seen.get(key) ?? 0) + 1);
-        expect(res.status, `${c.label} on ${route.path}: ${JSON.stringify(res.body).slice(0, 300)}`).toBeGreaterThanOrEqual(
-          400,
-        );
+        expect(
+          res.status,
+          `${c.label} on ${route.path}: ${JSON.stringify(res.body).slice(0, 300)}`,
+        ).toBeGreaterThanOrEqual(400);
         expect(res.status).toBeLessThan(500);
         expect(res.body.error?.code).toEqual(expect.any(String));
         expect(res.body.error?.message).toEqual(expect.any(String));
       }),
       { numRuns: RUNS },
     );
-    console.log(
-      `multipart fuzz: ${RUNS} cases; ${[...seen].map(([k, n]) => `${k}: ${n}`).join('; ')}`,
-    );
+    console.log(`multipart fuzz: ${RUNS} cases; ${[...seen].map(([k, n]) => `${k}: ${n}`).join('; ')}`);
     expect((await request(server).get('/api/health')).status).toBe(200);
     expect(storedFiles()).toEqual([]);
     expect(await t.db.select().from(uploads)).toEqual([]);

@@ -71,8 +71,7 @@ export async function readMultipart<T>(
         stream.resume();
         return;
       }
-      const filename =
-        (info.filename ?? 'upload.csv').split(/[\\/]/).pop()!.slice(0, 255) || 'upload.csv';
+      const filename = (info.filename ?? 'upload.csv').split(/[\\/]/).pop()!.slice(0, 255) || 'upload.csv';
       fileOutcome = options.handleFile(stream, filename).then(
         (result): FileOutcome<T> => ({
           ok: true,

@@ -392,6 +392,14 @@ async function storeInOneTransaction(
 ): Promise<boolean> {
   const client = await deps.pool.connect();
   let broken = false;
+  // The pool listens for errors on idle connections only. A connection that dies while checked out
+  // (PostgreSQL restarting mid-COPY: EPIPE, ECONNRESET) also fails the running statement, which is what
+  // the job acts on; this listener only keeps the event from ending the process.
+  const onConnectionError = (error: Error) => {
+    broken = true;
+    (deps.log ?? (() => {}))(`upload ${upload.id}: database connection lost: ${error.message}`);
+  };
+  client.on('error', onConnectionError);
   try {
     // No JIT compilation in this transaction: its statements touch a few rows each, but with statistics
     // lagging behind a burst of uploads the planner can price them above jit_above_cost, and compiling
@@ -441,6 +449,7 @@ async function storeInOneTransaction(
     });
     throw error;
   } finally {
+    client.off('error', onConnectionError);
     client.release(broken);
   }
 }
