@@ -7,7 +7,7 @@ import { installProcessGuards } from './process-guards.ts';
 
 installProcessGuards('worker');
 const env = loadWorkerEnv();
-const { db, pool } = createDb(env.DATABASE_URL);
+const { db, pool } = createDb(env.DATABASE_URL, { max: env.DB_POOL_MAX });
 const connection = new Redis(env.REDIS_URL, {
   maxRetriesPerRequest: null,
   // Reconnect after a Redis restart with backoff: 100 ms, 200 ms, … at most 5 s between attempts.
@@ -32,6 +32,7 @@ const ingest = startIngestWorker(
     files: createFileSource(env),
     minLabs: env.PEER_MIN_LABS,
     holdBeforeCommitMs: env.INGEST_HOLD_BEFORE_COMMIT_MS,
+    maxStoredErrors: env.MAX_STORED_ROW_ERRORS,
     log,
   },
   {

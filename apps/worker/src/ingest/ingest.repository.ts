@@ -1,6 +1,12 @@
 import { and, eq, inArray, isNull, sql } from 'drizzle-orm';
 import { uploads, type Executor } from '@plumbline/db';
-import type { ColumnMapping, RowError, UploadKind } from '@plumbline/contracts';
+import {
+  MAX_ERROR_TEXT_LENGTH,
+  boundText,
+  type ColumnMapping,
+  type RowError,
+  type UploadKind,
+} from '@plumbline/contracts';
 import type { LotInfo, PeriodInfo, ProcedureInfo } from './row-schemas.ts';
 
 export type UploadRecord = typeof uploads.$inferSelect;
@@ -39,15 +45,32 @@ export async function saveProgress(db: Executor, id: string, progress: number): 
     .where(and(eq(uploads.id, id), eq(uploads.status, 'processing')));
 }
 
+/** A row error as stored: its message and column name cut to MAX_ERROR_TEXT_LENGTH characters. */
+export function boundError(error: RowError): RowError {
+  return {
+    ...error,
+    column: error.column === null ? null : boundText(error.column),
+    message: boundText(error.message),
+  };
+}
+
 export async function markNeedsReview(
   db: Executor,
   id: string,
   counts: { rowsTotal: number; rowsAccepted: number; rowsRejected: number },
   errors: RowError[],
+  errorsTotal: number,
 ): Promise<boolean> {
   const rows = await db
     .update(uploads)
-    .set({ status: 'needs-review', progress: 1, ...counts, errors, updatedAt: new Date() })
+    .set({
+      status: 'needs-review',
+      progress: 1,
+      ...counts,
+      errors: errors.map(boundError),
+      errorsTotal,
+      updatedAt: new Date(),
+    })
     .where(and(eq(uploads.id, id), eq(uploads.status, 'processing')))
     .returning({ id: uploads.id });
   return rows.length === 1;
@@ -58,10 +81,19 @@ export async function markFailed(
   id: string,
   message: string,
   errors: RowError[] = [],
+  errorsTotal = errors.length,
 ): Promise<void> {
   await db
     .update(uploads)
-    .set({ status: 'failed', progress: 1, failureMessage: message, errors, updatedAt: new Date() })
+    .set({
+      status: 'failed',
+      progress: 1,
+      // A message may quote the file (a header, a cell): kept short whatever the file held.
+      failureMessage: boundText(message, 4 * MAX_ERROR_TEXT_LENGTH),
+      errors: errors.map(boundError),
+      errorsTotal,
+      updatedAt: new Date(),
+    })
     .where(
       and(eq(uploads.id, id), inArray(uploads.status, ['queued', 'processing']), isNull(uploads.storedAt)),
     );

@@ -1,6 +1,5 @@
 import { randomUUID } from 'node:crypto';
 import {
-  MAX_STORED_ROW_ERRORS,
   canonicalColumns,
   columnMappingProblems,
   detectDecimalComma,
@@ -137,7 +136,7 @@ export function newUploadId(): string {
   return randomUUID();
 }
 
-function toSummary(row: repo.UploadRow): UploadSummary {
+function toSummary(row: repo.UploadListRow): UploadSummary {
   return {
     id: row.id,
     labId: row.labId,
@@ -177,8 +176,9 @@ export async function getUploadDetail(
   return {
     ...toSummary(row),
     errors: row.errors as UploadDetail['errors'],
-    // The worker keeps at most MAX_STORED_ROW_ERRORS errors; reaching the cap means some were left out.
-    errorsTruncated: row.errors.length >= MAX_STORED_ROW_ERRORS,
+    errorsTotal: Math.max(row.errorsTotal, row.errors.length),
+    // The worker keeps the first errors only (its MAX_STORED_ROW_ERRORS setting) but counts them all.
+    errorsTruncated: row.errorsTotal > row.errors.length,
     columnMapping: row.columnMapping ?? null,
   };
 }
