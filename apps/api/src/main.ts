@@ -9,12 +9,24 @@ import { installProcessGuards } from './process-guards.ts';
 installProcessGuards('api');
 
 const env = loadEnv();
-const { db, pool } = createDb(env.DATABASE_URL);
+const { db, pool } = createDb(env.DATABASE_URL, { max: env.DB_POOL_MAX });
 const redis = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
 // ioredis reconnects by itself; without a listener it would print every failed attempt as unhandled.
 redis.on('error', (error: Error) => logRedisError(error));
 const ingestQueue = createIngestQueue(redis, env.QUEUE_PREFIX);
-const app = createApp({ env, db, redis, storage: createFileStorage(env), ingestQueue });
+const storage = createFileStorage(env);
+const app = createApp({ env, db, redis, storage, ingestQueue });
+
+// Uploads cut off by a crash of this process leave partial files; sweep them now and every hour.
+async function sweepPartials() {
+  const removed = await storage.sweepAbandoned?.(env.STALE_PARTIAL_MS).catch((error: Error) => {
+    console.error(`api: sweeping partial upload files: ${error.message}`);
+    return 0;
+  });
+  if (removed) console.log(`api: removed ${removed} partial upload file(s) left by interrupted uploads`);
+}
+void sweepPartials();
+setInterval(() => void sweepPartials(), 3_600_000).unref();
 
 const server = app.listen(env.PORT, env.HOST, () => {
   console.log(`api: listening on http://${env.HOST}:${env.PORT}`);
