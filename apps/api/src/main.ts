@@ -31,6 +31,10 @@ setInterval(() => void sweepPartials(), 3_600_000).unref();
 const server = app.listen(env.PORT, env.HOST, () => {
   console.log(`api: listening on http://${env.HOST}:${env.PORT}`);
 });
+// Idle keep-alive connections stay open longer than clients and proxies keep theirs (common practice:
+// above the 60 s of most load balancers), so the server never closes one a client is about to reuse.
+server.keepAliveTimeout = 65_000;
+server.headersTimeout = 66_000;
 
 async function shutdown(signal: string) {
   console.log(`api: ${signal} received, shutting down`);
