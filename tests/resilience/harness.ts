@@ -134,11 +134,20 @@ export async function createStack(label: string) {
     return { ...api, url: `http://127.0.0.1:${port}` };
   }
 
-  /** The worker under scripts/supervise.sh, as `npm start` runs it. */
+  /** The worker under scripts/supervise.sh at a lower CPU priority, as `npm start` runs it. */
   async function startSupervisedWorker(env: Record<string, string> = {}) {
     const worker = run(
-      'bash',
-      ['scripts/supervise.sh', 'worker', process.execPath, ...tsxArgs, 'apps/worker/src/main.ts'],
+      'nice',
+      [
+        '-n',
+        process.env.WORKER_NICE ?? '10',
+        'bash',
+        'scripts/supervise.sh',
+        'worker',
+        process.execPath,
+        ...tsxArgs,
+        'apps/worker/src/main.ts',
+      ],
       {
         ...shared,
         // Quick to notice a dead worker's job and the uploads a lost queue forgot, so tests stay short.
