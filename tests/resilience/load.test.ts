@@ -1,14 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { performance } from 'node:perf_hooks';
-import {
-  createStack,
-  sleep,
-  storedRows,
-  uploadFile,
-  valuesFile,
-  waitStored,
-  type Stack,
-} from './harness.ts';
+import { createStack, sleep, storedRows, uploadFile, valuesFile, waitStored, type Stack } from './harness.ts';
 import { recordFigure } from './figures.ts';
 
 // Load: LOAD_UPLOADS labs upload LOAD_ROWS rows each at the same moment while LOAD_READERS clients read
@@ -49,7 +41,7 @@ describe('load', () => {
   it(`when ${UPLOADS} uploads of ${ROWS.toLocaleString('en')} rows arrive while ${READERS} clients read peer reports for ${SECONDS} s, then every upload is stored once and every read answered`, async () => {
     const lot = stack.catalogue.lot.lotNumber;
     // Labs whose reports are read: data of their own, and peers.
-    const readerLabs = [];
+    const readerLabs: { lab: Awaited<ReturnType<Stack['makeLab']>>; id: string; reader: string }[] = [];
     for (let i = 0; i < READER_LABS; i++) {
       const lab = await stack.makeLab();
       const id = await uploadFile(api.url, lab.labToken, valuesFile(lot, 2_000, 100 + i));
@@ -109,6 +101,5 @@ describe('load', () => {
     expect(statuses).toEqual(ids.map(() => 'stored'));
     for (const id of ids) expect(await storedRows(stack.db, id)).toBe(ROWS);
     expect([...failures]).toEqual([]);
-
   });
 });

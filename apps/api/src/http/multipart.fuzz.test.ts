@@ -58,7 +58,7 @@ const fieldPart = (name: string, value: string) =>
 const closing = `--${BOUNDARY}--${CRLF}`;
 
 const csvText = fc
-  .array(fc.stringMatching(/^[A-Za-z0-9 .,;"\-]{0,40}$/), { minLength: 1, maxLength: 20 })
+  .array(fc.stringMatching(/^[A-Za-z0-9 .,;"-]{0,40}$/), { minLength: 1, maxLength: 20 })
   .map((lines) => ['period,procedure,control_lot,level,n,mean,sd,unit', ...lines].join('\n'));
 
 type Case = { label: string; contentType: string; body: (maxBytes: number) => Buffer };
