@@ -1,8 +1,9 @@
 /**
  * Requests for the same expensive answer that arrive while it is being computed share that one
  * computation instead of each starting their own: under many readers of the same report, the work per
- * report stays one computation at a time, and every reader still gets an answer computed after their
- * request arrived. Nothing is kept once the computation settles (this is not a cache).
+ * report stays one computation at a time. A reader gets an answer that was being computed when their
+ * request arrived, never one kept from earlier: nothing is kept once the computation settles (this is
+ * not a cache).
  */
 export function createSingleFlight<T>() {
   const inFlight = new Map<string, Promise<T>>();
