@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # Start, stop or report the local PostgreSQL and Redis that Plumbline runs on (loopback only).
-# Usage: scripts/services.sh start|stop|status|env
+# Usage: scripts/services.sh start|stop|status|env, or pg-start|pg-stop|redis-start|redis-stop for one
+# service (the resilience tests restart one while the rest keeps running).
 #
 # Settings (environment): PG_PORT (54329), REDIS_PORT (63790), PLUMBLINE_DATA_DIR (<project>/.data),
 # PG_DB (plumbline). Data directories live in the project when the postgres user can reach it,
@@ -136,5 +137,9 @@ case "${1:-}" in
     if command -v redis-cli >/dev/null && redis-cli -h "$HOST" -p "$REDIS_PORT" ping >/dev/null 2>&1; then echo "redis: running on $HOST:$REDIS_PORT"; else echo "redis: stopped"; rc=3; fi
     exit $rc ;;
   env) print_env ;;
-  *) echo "usage: $0 start|stop|status|env" >&2; exit 2 ;;
+  pg-start) ensure_binaries; pg_start ;;
+  pg-stop) PG_BIN="$(find_pg_bin || echo /nonexistent)"; pg_stop ;;
+  redis-start) ensure_binaries; redis_start ;;
+  redis-stop) redis_stop ;;
+  *) echo "usage: $0 start|stop|status|env|pg-start|pg-stop|redis-start|redis-stop" >&2; exit 2 ;;
 esac

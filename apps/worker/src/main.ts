@@ -3,13 +3,29 @@ import { createDb, thresholds } from '@plumbline/db';
 import { loadWorkerEnv } from './config/env.ts';
 import { createFileSource } from './storage/file-source.ts';
 import { startIngestWorker } from './queues/ingest.queue.ts';
+import { installProcessGuards } from './process-guards.ts';
 
+installProcessGuards('worker');
 const env = loadWorkerEnv();
 // Read now, so a bad threshold setting stops the worker at start-up.
 const limits = thresholds();
-const { db, pool } = createDb(env.DATABASE_URL);
-const connection = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
+const { db, pool } = createDb(env.DATABASE_URL, { max: env.DB_POOL_MAX });
+const connection = new Redis(env.REDIS_URL, {
+  maxRetriesPerRequest: null,
+  // Reconnect after a Redis restart with backoff: 100 ms, 200 ms, … at most 5 s between attempts.
+  retryStrategy: (times) => Math.min(100 * 2 ** Math.min(times, 6), 5000),
+});
 const log = (message: string) => console.log(`worker: ${message}`);
+let lastRedisError = '';
+connection.on('error', (error: Error) => {
+  if (error.message === lastRedisError) return; // one line per kind of failure, not one per retry
+  lastRedisError = error.message;
+  log(`redis: ${error.message} (reconnecting)`);
+});
+connection.on('ready', () => {
+  if (lastRedisError) log('redis: connected again');
+  lastRedisError = '';
+});
 
 const ingest = startIngestWorker(
   {
@@ -18,6 +34,7 @@ const ingest = startIngestWorker(
     files: createFileSource(env),
     minLabs: limits.peerMinLabs,
     holdBeforeCommitMs: env.INGEST_HOLD_BEFORE_COMMIT_MS,
+    maxStoredErrors: limits.maxRowErrors,
     log,
   },
   {
@@ -32,7 +49,7 @@ const ingest = startIngestWorker(
   },
 );
 
-const recovered = await ingest.recover();
+const recovered = await recoverWithBackoff();
 log(
   `ready (queue prefix ${env.QUEUE_PREFIX}, concurrency ${env.INGEST_CONCURRENCY}; ${recovered} upload(s) re-enqueued)`,
 );
@@ -51,3 +68,16 @@ async function shutdown(signal: string) {
 }
 process.on('SIGTERM', () => void shutdown('SIGTERM'));
 process.on('SIGINT', () => void shutdown('SIGINT'));
+
+/** The start-up recovery needs PostgreSQL and Redis; while either is away, try again with backoff. */
+async function recoverWithBackoff(): Promise<number> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await ingest.recover();
+    } catch (error) {
+      const waitMs = Math.min(500 * 2 ** attempt, 30_000);
+      log(`start-up recovery failed (${(error as Error).message}); retrying in ${waitMs} ms`);
+      await new Promise((resolve) => setTimeout(resolve, waitMs));
+    }
+  }
+}

@@ -15,3 +15,17 @@ export type IngestJob = z.infer<typeof ingestJobSchema>;
 export function ingestJobId(uploadId: string, phase: 'initial' | 'confirmed'): string {
   return `upload-${uploadId}-${phase}`;
 }
+
+/**
+ * Options of every ingest job, whoever enqueues it. Attempts are many because a database or Redis
+ * restart fails a running job through no fault of the file: retried with exponential backoff (2 s, 4 s,
+ * … about 17 minutes in all) the job outlasts any ordinary restart. A failure that is not about the
+ * connection is given up after INGEST_MAX_FAULTY_ATTEMPTS (the worker decides).
+ */
+export const INGEST_JOB_OPTIONS = {
+  attempts: 10,
+  backoff: { type: 'exponential' as const, delay: 2000 },
+  removeOnComplete: true,
+  removeOnFail: true,
+};
+export const INGEST_MAX_FAULTY_ATTEMPTS = 3;

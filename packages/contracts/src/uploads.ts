@@ -104,6 +104,14 @@ export const rowErrorSchema = z.object({
 });
 export type RowError = z.infer<typeof rowErrorSchema>;
 
+/** Every stored error message (and so every cell it quotes) is cut to this many characters. */
+export const MAX_ERROR_TEXT_LENGTH = 200;
+
+/** `text` cut to at most `max` characters, with an ellipsis when something was cut. */
+export function boundText(text: string, max = MAX_ERROR_TEXT_LENGTH): string {
+  return text.length <= max ? text : `${text.slice(0, max - 1)}…`;
+}
+
 /** Canonical column name → the file's own header. */
 export const columnMappingSchema = z.record(z.string(), z.string().trim().min(1).max(200));
 export type ColumnMapping = z.infer<typeof columnMappingSchema>;
@@ -169,7 +177,9 @@ export type UploadSummary = z.infer<typeof uploadSummarySchema>;
 
 export const uploadDetailSchema = uploadSummarySchema.extend({
   errors: z.array(rowErrorSchema),
-  /** True when there were more row errors than the worker keeps (INGEST_MAX_ROW_ERRORS). */
+  /** Row errors found in the file; more than `errors` holds when the stored list was capped. */
+  errorsTotal: z.number().int().min(0),
+  /** True when only the first of the row errors were kept (errorsTotal > errors.length). */
   errorsTruncated: z.boolean(),
   columnMapping: columnMappingSchema.nullable(),
 });

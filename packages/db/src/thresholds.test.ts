@@ -3,7 +3,7 @@ import { parseThresholds } from './thresholds.ts';
 
 describe('parseThresholds', () => {
   it('when nothing is set, then the documented defaults apply (METHODS.md §2: 3 labs; 50 % CV and n 10,000, common practice)', () => {
-    expect(parseThresholds({})).toEqual({ peerMinLabs: 3, maxCvPct: 50, maxN: 10_000, maxRowErrors: 2000 });
+    expect(parseThresholds({})).toEqual({ peerMinLabs: 3, maxCvPct: 50, maxN: 10_000, maxRowErrors: 1000 });
   });
 
   it('when values are set (an empty one meaning unset), then they are read as numbers', () => {

@@ -13,7 +13,7 @@ const thresholdsSchema = z.object({
   /** A monthly summary's n must be at most this (a month of QC has far fewer values; common practice). */
   INGEST_MAX_N: z.coerce.number().int().min(2).max(10_000_000).default(10_000),
   /** Row errors kept per upload; `rowsRejected` still counts them all. */
-  INGEST_MAX_ROW_ERRORS: z.coerce.number().int().min(1).max(100_000).default(2000),
+  INGEST_MAX_ROW_ERRORS: z.coerce.number().int().min(1).max(100_000).default(1000),
 });
 
 export type Thresholds = {

@@ -28,6 +28,10 @@ const envSchema = z.object({
   QUEUE_PREFIX: z.string().min(1).default('plumbline'),
   WEB_DIST_DIR: z.string().optional(),
   PUBLIC_URL: z.string().default('http://127.0.0.1:5180'),
+  /** Partial files of uploads that never finished (the API died mid-write) are deleted after this long, in ms. */
+  STALE_PARTIAL_MS: z.coerce.number().int().min(1000).default(3_600_000),
+  /** Connections of this process's PostgreSQL pool. */
+  DB_POOL_MAX: z.coerce.number().int().min(1).max(100).default(10),
 });
 
 export type Env = z.infer<typeof envSchema> & { JWT_SECRET: string };

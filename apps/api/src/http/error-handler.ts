@@ -1,6 +1,10 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { randomUUID } from 'node:crypto';
+import { isDatabaseUnavailable } from '@plumbline/db';
 import { AppError } from '../errors/app-error.ts';
+
+/** Seconds a client is asked to wait while the database is away (a restart takes a few). */
+export const RETRY_AFTER_SECONDS = 5;
 
 export const requestId: RequestHandler = (req, res, next) => {
   const id = randomUUID();
@@ -23,12 +27,21 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
     appError = new AppError('bad_request', 'The request body is not valid JSON.');
   } else if (err?.type === 'entity.too.large') {
     appError = new AppError('payload_too_large', 'The request body is too large.');
+  } else if (isDatabaseUnavailable(err)) {
+    // Not the request's fault and not a bug: the database is restarting or unreachable. The pool
+    // reconnects by itself, so the client is told when to try again.
+    console.error(`[${requestIdValue}] database unavailable: ${(err as Error).message}`);
+    appError = new AppError(
+      'service_unavailable',
+      'The service is briefly unavailable (its database is restarting). Try again in a few seconds.',
+    );
   } else {
     // Never leak internals; log the cause with the request id so operators can find it.
     console.error(`[${requestIdValue}]`, err);
     appError = new AppError('internal', 'Something went wrong on our side. Please try again.');
   }
   if (res.headersSent) return;
+  if (appError.status === 503) res.setHeader('Retry-After', String(RETRY_AFTER_SECONDS));
   res.status(appError.status).json({
     error: {
       code: appError.code,

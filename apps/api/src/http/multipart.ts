@@ -6,11 +6,16 @@ import { AppError, badRequest } from '../errors/app-error.ts';
 export type MultipartFile<T> = { filename: string; result: T; truncated: boolean };
 export type MultipartBody<T> = { fields: Record<string, string>; file: MultipartFile<T> | null };
 
+type FileOutcome<T> = { ok: true; file: MultipartFile<T> } | { ok: false; error: unknown };
+
 /**
  * Reads a multipart/form-data request as a stream: text fields are collected, the one file field is
  * handed to `handleFile` as a stream (never buffered whole here). A file over `maxFileBytes` is cut at
  * the limit and reported as `truncated`; the caller decides what to do with what was written.
- * Errors from `handleFile` are rethrown once the request has been read to its end.
+ *
+ * Every failure — a body that ends inside a part, a malformed header, a second file, a client that
+ * hangs up — becomes a 400 once `handleFile` has settled, and a handled file is then `discard`ed, so a
+ * bad request never leaves anything behind and never throws outside the request.
  */
 export async function readMultipart<T>(
   req: Request,
@@ -26,7 +31,7 @@ export async function readMultipart<T>(
   if (!/^multipart\/form-data/i.test(contentType)) {
     throw new AppError(
       'unsupported_media_type',
-      'Send the file as multipart/form-data with the file in the "file" field.',
+      `Send the file as multipart/form-data with the file in the "${options.fileField}" field.`,
     );
   }
   const declared = Number(req.headers['content-length'] ?? NaN);
@@ -36,62 +41,84 @@ export async function readMultipart<T>(
     throw tooLarge(options.maxFileBytes);
   }
 
-  return new Promise<MultipartBody<T>>((resolve, reject) => {
-    const fields: Record<string, string> = {};
-    let filePromise: Promise<MultipartFile<T>> | null = null;
-    let extraFile = false;
-    let parser: busboy.Busboy;
-    try {
-      parser = busboy({
-        headers: req.headers,
-        limits: { files: 1, fileSize: options.maxFileBytes, fields: 20, fieldSize: 256 * 1024, parts: 30 },
-      });
-    } catch (error) {
-      reject(badRequest(`The multipart body cannot be read: ${(error as Error).message}`));
-      return;
-    }
+  let parser: busboy.Busboy;
+  try {
+    parser = busboy({
+      headers: req.headers,
+      // Two files are allowed through the parser so that a second one can be refused, not ignored.
+      limits: { files: 2, fileSize: options.maxFileBytes, fields: 20, fieldSize: 256 * 1024, parts: 30 },
+    });
+  } catch (error) {
+    req.resume();
+    throw badRequest(`The multipart body cannot be read: ${(error as Error).message}.`);
+  }
 
-    parser.on('field', (name, value) => {
+  const fields: Record<string, string> = {};
+  let fileOutcome: Promise<FileOutcome<T>> | null = null;
+  let refusal: AppError | null = null;
+  const refuse = (error: AppError) => (refusal ??= error);
+
+  const finished = new Promise<void>((resolve) => {
+    parser.on('field', (name, value, info) => {
+      if (info.valueTruncated) refuse(badRequest(`The form field "${name}" is too long.`));
       fields[name] = value;
     });
     parser.on('file', (name, stream, info) => {
-      if (name !== options.fileField || filePromise) {
-        extraFile = true;
+      // A stream error must never go unobserved, even before (or without) a consumer.
+      stream.on('error', () => {});
+      if (name !== options.fileField || fileOutcome) {
+        refuse(exactlyOneFile(options.fileField));
         stream.resume();
         return;
       }
       const filename = (info.filename ?? 'upload.csv').split(/[\\/]/).pop()!.slice(0, 255) || 'upload.csv';
-      filePromise = options.handleFile(stream, filename).then(
-        (result) => ({ filename, result, truncated: Boolean((stream as { truncated?: boolean }).truncated) }),
-        (error: unknown) => {
+      fileOutcome = options.handleFile(stream, filename).then(
+        (result): FileOutcome<T> => ({
+          ok: true,
+          file: { filename, result, truncated: Boolean((stream as { truncated?: boolean }).truncated) },
+        }),
+        (error: unknown): FileOutcome<T> => {
           stream.resume(); // keep the parser going so the request is read to its end
-          throw error;
+          return { ok: false, error };
         },
       );
-      // Handled when awaited below; this only stops an early failure from being reported as unhandled.
-      filePromise.catch(() => {});
     });
-    parser.on('error', async (error: Error) => {
-      if (filePromise && options.discard) {
-        await filePromise.then((f) => options.discard!(f.result)).catch(() => {});
-      }
-      reject(badRequest(`The upload was interrupted or is not valid multipart data: ${error.message}`));
+    parser.on('filesLimit', () => refuse(exactlyOneFile(options.fileField)));
+    parser.on('fieldsLimit', () => refuse(badRequest('The form has too many fields.')));
+    parser.on('partsLimit', () => refuse(badRequest('The form has too many parts.')));
+    parser.on('error', (error: Error) => {
+      refuse(
+        badRequest(
+          `The upload was interrupted or is not valid multipart data (${error.message}). Send the whole file again.`,
+        ),
+      );
+      resolve();
     });
-    parser.on('close', () => {
-      if (extraFile) {
-        const cleanup =
-          filePromise && options.discard ? filePromise.then((f) => options.discard!(f.result)) : null;
-        Promise.resolve(cleanup)
-          .catch(() => {})
-          .then(() => reject(badRequest(`Send exactly one file, in the "${options.fileField}" field.`)));
-        return;
-      }
-      if (!filePromise) return resolve({ fields, file: null });
-      filePromise.then((file) => resolve({ fields, file }), reject);
+    parser.on('close', () => resolve());
+    // A client that hangs up mid-body: stop the parser, which fails the file stream, so the partial
+    // file is deleted by whoever was writing it.
+    req.on('close', () => {
+      if (req.complete) return;
+      parser.destroy(new Error('the connection closed before the body was complete'));
     });
-    req.pipe(parser);
+    req.on('error', () => {});
   });
+  req.pipe(parser);
+  await finished;
+  req.unpipe(parser);
+  if (!req.complete) req.resume();
+
+  const outcome = fileOutcome ? await (fileOutcome as Promise<FileOutcome<T>>) : null;
+  if (refusal) {
+    if (outcome?.ok && options.discard) await options.discard(outcome.file.result).catch(() => {});
+    throw refusal;
+  }
+  if (outcome && !outcome.ok) throw outcome.error;
+  return { fields, file: outcome?.ok ? outcome.file : null };
 }
+
+const exactlyOneFile = (field: string) =>
+  badRequest(`Send exactly one file, in the "${field}" field (the form carried another file).`);
 
 export const tooLarge = (maxBytes: number) =>
   new AppError(

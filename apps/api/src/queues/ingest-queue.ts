@@ -1,6 +1,6 @@
 import { Queue } from 'bullmq';
 import type { Redis } from 'ioredis';
-import { INGEST_QUEUE_NAME, ingestJobId, type IngestJob } from '@plumbline/contracts';
+import { INGEST_JOB_OPTIONS, INGEST_QUEUE_NAME, ingestJobId, type IngestJob } from '@plumbline/contracts';
 
 /** Hands uploads to the ingest worker. PostgreSQL stays the source of truth: a lost job is re-enqueued by the worker. */
 export interface IngestQueue {
@@ -10,20 +10,12 @@ export interface IngestQueue {
 
 export function createIngestQueue(connection: Redis, prefix: string): IngestQueue {
   const queue = new Queue<IngestJob>(INGEST_QUEUE_NAME, { connection, prefix });
+  // Connection trouble is reported here; an 'error' event without a listener would end the process.
+  queue.on('error', () => {});
   return {
     async enqueue(uploadId, phase) {
       const adding: Promise<unknown> = queue
-        .add(
-          'ingest',
-          { uploadId },
-          {
-            jobId: ingestJobId(uploadId, phase),
-            attempts: 3,
-            backoff: { type: 'exponential', delay: 2000 },
-            removeOnComplete: true,
-            removeOnFail: true,
-          },
-        )
+        .add('ingest', { uploadId }, { ...INGEST_JOB_OPTIONS, jobId: ingestJobId(uploadId, phase) })
         .then(
           () => 'added',
           (error: unknown) => error,

@@ -1,5 +1,5 @@
 import { createReadStream, createWriteStream } from 'node:fs';
-import { mkdir, rename, rm, stat } from 'node:fs/promises';
+import { mkdir, readdir, rename, rm, stat } from 'node:fs/promises';
 import { dirname, join, resolve, sep } from 'node:path';
 import { randomBytes } from 'node:crypto';
 import type { Readable } from 'node:stream';
@@ -47,5 +47,21 @@ export class LocalFileStorage implements FileStorage {
 
   async delete(key: string): Promise<void> {
     await rm(this.pathOf(key), { force: true });
+  }
+
+  /** Deletes `.partial` files (writes that never finished: the process died) older than `olderThanMs`. */
+  async sweepAbandoned(olderThanMs: number): Promise<number> {
+    let removed = 0;
+    const entries = await readdir(this.root, { recursive: true, withFileTypes: true }).catch(() => []);
+    for (const entry of entries) {
+      if (!entry.isFile() || !entry.name.endsWith('.partial')) continue;
+      const path = join(entry.parentPath, entry.name);
+      const info = await stat(path).catch(() => null);
+      if (info && Date.now() - info.mtimeMs > olderThanMs) {
+        await rm(path, { force: true });
+        removed += 1;
+      }
+    }
+    return removed;
   }
 }

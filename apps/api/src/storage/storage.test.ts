@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createHash, randomBytes } from 'node:crypto';
-import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readdirSync, rmSync, utimesSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Readable } from 'node:stream';
@@ -113,5 +113,24 @@ describe('S3 storage, large files', () => {
     ).rejects.toBeInstanceOf(FileTooLargeError);
     await expect(storage.read(key)).rejects.toThrow();
     if (fake) expect(fake.requests).toContain('AbortMultipartUpload');
+  });
+});
+
+describe('sweeping partial files of interrupted writes', () => {
+  it('when the directory holds an old partial file, a fresh one and a stored file, then only the old partial is removed', async () => {
+    const root = mkdtempSync(join(tmpdir(), 'plumbline-sweep-'));
+    dirs.push(root);
+    const storage = new LocalFileStorage(root);
+    await storage.write('uploads/2026/02/kept', Readable.from([Buffer.from('a,b\n')]), { maxBytes: 100 });
+    mkdirSync(join(root, 'uploads/2026/02'), { recursive: true });
+    const stale = join(root, 'uploads/2026/02/abandoned.1234abcd.partial');
+    const fresh = join(root, 'uploads/2026/02/writing.5678abcd.partial');
+    writeFileSync(stale, 'period,');
+    writeFileSync(fresh, 'period,');
+    const twoHoursAgo = new Date(Date.now() - 2 * 3600_000);
+    utimesSync(stale, twoHoursAgo, twoHoursAgo);
+
+    expect(await storage.sweepAbandoned(3600_000)).toBe(1);
+    expect(readdirSync(join(root, 'uploads/2026/02')).sort()).toEqual(['kept', 'writing.5678abcd.partial']);
   });
 });

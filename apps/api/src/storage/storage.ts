@@ -13,6 +13,11 @@ export interface FileStorage {
   write(key: string, body: Readable, options: { maxBytes: number }): Promise<StoredObject>;
   read(key: string): Promise<Readable>;
   delete(key: string): Promise<void>;
+  /**
+   * Removes what interrupted writes left behind (a process killed mid-write) that is older than
+   * `olderThanMs`; returns how many were removed. A store that leaves nothing behind has none.
+   */
+  sweepAbandoned?(olderThanMs: number): Promise<number>;
 }
 
 export class FileTooLargeError extends Error {

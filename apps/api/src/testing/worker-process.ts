@@ -8,12 +8,15 @@ const workerMain = fileURLToPath(new URL('../../../worker/src/main.ts', import.m
 export type WorkerProcess = { child: ChildProcess; output: () => string; stop: () => Promise<void> };
 
 /** Runs the ingest worker against a test app's database, storage directory and queue prefix. */
-export async function spawnWorkerFor(t: {
-  databaseUrl: string;
-  storageDir: string;
-  queuePrefix: string;
-  env: { REDIS_URL: string };
-}): Promise<WorkerProcess> {
+export async function spawnWorkerFor(
+  t: {
+    databaseUrl: string;
+    storageDir: string;
+    queuePrefix: string;
+    env: { REDIS_URL: string };
+  },
+  extraEnv: Record<string, string> = {},
+): Promise<WorkerProcess> {
   const child = spawn(process.execPath, ['--import', 'tsx', workerMain], {
     cwd: repoRoot,
     env: {
@@ -25,6 +28,7 @@ export async function spawnWorkerFor(t: {
       STORAGE_DIR: t.storageDir,
       S3_BUCKET: '',
       RECOVERY_INTERVAL_MS: '600000',
+      ...extraEnv,
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });

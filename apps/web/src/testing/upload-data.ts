@@ -42,8 +42,14 @@ export function buildUploadSummary(overrides: Partial<UploadSummary> = {}): Uplo
 }
 
 export function buildUploadDetail(overrides: Partial<UploadDetail> = {}): UploadDetail {
-  const { errors = [], errorsTruncated = false, columnMapping = null, ...summary } = overrides;
-  return uploadDetailSchema.parse({ ...buildUploadSummary(summary), errors, errorsTruncated, columnMapping });
+  const { errors = [], errorsTruncated = false, columnMapping = null, errorsTotal, ...summary } = overrides;
+  return uploadDetailSchema.parse({
+    ...buildUploadSummary(summary),
+    errors,
+    errorsTotal: errorsTotal ?? errors.length,
+    errorsTruncated,
+    columnMapping,
+  });
 }
 
 /** A summary file whose headers are the lab's own names, not the canonical ones. */

@@ -25,6 +25,8 @@ const envSchema = z.object({
   INGEST_LOCK_MS: z.coerce.number().int().min(1000).default(60_000),
   /** How often, in ms, the worker looks for jobs whose worker died. */
   INGEST_STALLED_CHECK_MS: z.coerce.number().int().min(500).default(30_000),
+  /** Connections of this process's PostgreSQL pool. */
+  DB_POOL_MAX: z.coerce.number().int().min(1).max(100).default(10),
   /**
    * Crash-recovery testing only: keep the storing transaction open this long before COMMIT, so a test
    * can kill the process mid-transaction. 0 (the default) in every real deployment.

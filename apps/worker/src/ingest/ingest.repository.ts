@@ -1,6 +1,8 @@
 import { and, eq, inArray, isNull, sql } from 'drizzle-orm';
 import { uploads, type Executor } from '@plumbline/db';
 import {
+  MAX_ERROR_TEXT_LENGTH,
+  boundText,
   stripControlCharacters,
   type ColumnMapping,
   type RowError,
@@ -45,15 +47,15 @@ export async function saveProgress(db: Executor, id: string, progress: number): 
 }
 
 /**
- * Row errors as they are stored: messages and column names quote the file, so control characters
- * (NUL above all, which PostgreSQL refuses in JSON) are removed first.
+ * A row error as stored: messages and column names quote the file, so control characters (NUL above
+ * all, which PostgreSQL refuses in JSON) are removed, then the text is cut to MAX_ERROR_TEXT_LENGTH.
  */
-export function storableErrors(errors: readonly RowError[]): RowError[] {
-  return errors.map((e) => ({
-    ...e,
-    column: e.column === null ? null : stripControlCharacters(e.column),
-    message: stripControlCharacters(e.message),
-  }));
+export function boundError(error: RowError): RowError {
+  return {
+    ...error,
+    column: error.column === null ? null : boundText(stripControlCharacters(error.column)),
+    message: boundText(stripControlCharacters(error.message)),
+  };
 }
 
 export async function markNeedsReview(
@@ -61,6 +63,7 @@ export async function markNeedsReview(
   id: string,
   counts: { rowsTotal: number; rowsAccepted: number; rowsRejected: number },
   errors: RowError[],
+  errorsTotal: number,
 ): Promise<boolean> {
   const rows = await db
     .update(uploads)
@@ -68,7 +71,8 @@ export async function markNeedsReview(
       status: 'needs-review',
       progress: 1,
       ...counts,
-      errors: storableErrors(errors),
+      errors: errors.map(boundError),
+      errorsTotal,
       updatedAt: new Date(),
     })
     .where(and(eq(uploads.id, id), eq(uploads.status, 'processing')))
@@ -81,14 +85,17 @@ export async function markFailed(
   id: string,
   message: string,
   errors: RowError[] = [],
+  errorsTotal = errors.length,
 ): Promise<void> {
   await db
     .update(uploads)
     .set({
       status: 'failed',
       progress: 1,
-      failureMessage: stripControlCharacters(message),
-      errors: storableErrors(errors),
+      // A message may quote the file (a header, a cell): cleaned and kept short whatever the file held.
+      failureMessage: boundText(stripControlCharacters(message), 4 * MAX_ERROR_TEXT_LENGTH),
+      errors: errors.map(boundError),
+      errorsTotal,
       updatedAt: new Date(),
     })
     .where(

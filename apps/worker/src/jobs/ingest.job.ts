@@ -34,6 +34,8 @@ export type IngestDeps = {
   minLabs: number;
   /** Crash-recovery tests only: keep the storing transaction open this long before COMMIT. */
   holdBeforeCommitMs?: number;
+  /** At most this many row errors are stored per upload (all are counted). */
+  maxStoredErrors?: number;
   log?: (message: string) => void;
 };
 
@@ -78,7 +80,7 @@ export async function processUpload(
     read = await readUpload(deps, upload, (fraction) => progress(0.6 * fraction));
   } catch (error) {
     if (error instanceof FileFormatError) {
-      await repo.markFailed(deps.db, uploadId, error.message, [error.error]);
+      await repo.markFailed(deps.db, uploadId, error.message, [error.error], 1);
       log(`upload ${uploadId}: failed: ${error.message}`);
       return 'failed';
     }
@@ -91,7 +93,7 @@ export async function processUpload(
     rowsRejected: read.rowsRejected,
   };
   if (read.rowsRejected > 0 && !upload.confirmedAt) {
-    await repo.markNeedsReview(deps.db, uploadId, counts, read.errors);
+    await repo.markNeedsReview(deps.db, uploadId, counts, read.errors, read.errorsTotal);
     log(`upload ${uploadId}: needs review (${read.rowsRejected} of ${read.rowsTotal} rows rejected)`);
     return 'needs-review';
   }
@@ -101,6 +103,7 @@ export async function processUpload(
       uploadId,
       'No row of the file is valid, so nothing was stored.',
       read.errors,
+      read.errorsTotal,
     );
     return 'failed';
   }
@@ -122,7 +125,10 @@ type ReadResult = {
   rowsTotal: number;
   rowsAccepted: number;
   rowsRejected: number;
+  /** The first row errors, each message bounded (see addErrors). */
   errors: RowError[];
+  /** Every row error found. */
+  errorsTotal: number;
   summaries: SummaryRow[];
   values: ValuesBuffer;
 };
@@ -195,11 +201,16 @@ async function readUpload(
     rowsAccepted: 0,
     rowsRejected: 0,
     errors: [],
+    errorsTotal: 0,
     summaries: [],
     values: new ValuesBuffer(),
   };
+  // A file can carry any number of bad rows and any size of cell: what is kept stays small.
+  const maxStoredErrors = deps.maxStoredErrors ?? limits.maxRowErrors;
   const addErrors = (errors: RowError[]) => {
-    for (const e of errors) if (result.errors.length < limits.maxRowErrors) result.errors.push(e);
+    result.errorsTotal += errors.length;
+    for (const e of errors)
+      if (result.errors.length < maxStoredErrors) result.errors.push(repo.boundError(e));
   };
   const summaryLines = new Map<string, number>();
   const summarySchema = upload.kind === 'qc-summary' ? summaryRowSchema(context) : null;
@@ -403,6 +414,14 @@ async function storeInOneTransaction(
 ): Promise<boolean> {
   const client = await deps.pool.connect();
   let broken = false;
+  // The pool listens for errors on idle connections only. A connection that dies while checked out
+  // (PostgreSQL restarting mid-COPY: EPIPE, ECONNRESET) also fails the running statement, which is what
+  // the job acts on; this listener only keeps the event from ending the process.
+  const onConnectionError = (error: Error) => {
+    broken = true;
+    (deps.log ?? (() => {}))(`upload ${upload.id}: database connection lost: ${error.message}`);
+  };
+  client.on('error', onConnectionError);
   try {
     // No JIT compilation in this transaction: its statements touch a few rows each, but with statistics
     // lagging behind a burst of uploads the planner can price them above jit_above_cost, and compiling
@@ -425,14 +444,15 @@ async function storeInOneTransaction(
     // The update locks the upload row and re-checks it after any concurrent change has committed.
     const marked = await client.query(
       `update uploads set status = 'stored', stored_at = now(), progress = 1, rows_total = $2, rows_accepted = $3,
-              rows_rejected = $4, errors = $5::jsonb, updated_at = now()
+              rows_rejected = $4, errors = $5::jsonb, errors_total = $6, updated_at = now()
         where id = $1 and status = 'processing' and stored_at is null`,
       [
         upload.id,
         counts.rowsTotal,
         counts.rowsAccepted,
         counts.rowsRejected,
-        JSON.stringify(repo.storableErrors(read.errors)),
+        JSON.stringify(read.errors),
+        read.errorsTotal,
       ],
     );
     if (marked.rowCount !== 1) {
@@ -458,6 +478,7 @@ async function storeInOneTransaction(
     });
     throw error;
   } finally {
+    client.off('error', onConnectionError);
     client.release(broken);
   }
 }

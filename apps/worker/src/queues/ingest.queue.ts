@@ -1,6 +1,14 @@
 import { Queue, UnrecoverableError, Worker, type Job } from 'bullmq';
 import type { Redis } from 'ioredis';
-import { INGEST_QUEUE_NAME, ingestJobId, ingestJobSchema, type IngestJob } from '@plumbline/contracts';
+import {
+  INGEST_JOB_OPTIONS,
+  INGEST_MAX_FAULTY_ATTEMPTS,
+  INGEST_QUEUE_NAME,
+  ingestJobId,
+  ingestJobSchema,
+  type IngestJob,
+} from '@plumbline/contracts';
+import { isDatabaseUnavailable } from '@plumbline/db';
 import { processUpload, type IngestDeps, type IngestOutcome } from '../jobs/ingest.job.ts';
 import { createPeerStatisticsDrainer, type PeerStatisticsDrainer } from '../jobs/peer-statistics.job.ts';
 import * as repo from '../ingest/ingest.repository.ts';
@@ -30,13 +38,6 @@ export type IngestWorker = {
   recover(): Promise<number>;
   /** Stops taking jobs, lets running ones finish, and closes the queue handles. */
   close(): Promise<void>;
-};
-
-const JOB_OPTIONS = {
-  attempts: 3,
-  backoff: { type: 'exponential' as const, delay: 2000 },
-  removeOnComplete: true,
-  removeOnFail: true,
 };
 
 /** The ingest queue's consumer: one processor, payloads parsed at the door (a bad payload is not retried). */
@@ -85,9 +86,14 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
             .catch(() => {});
           throw new UnrecoverableError(`check constraint ${constraint}`);
         }
-        const lastAttempt = job.attemptsMade + 1 >= (job.opts.attempts ?? 1);
+        // A lost connection is retried with backoff until the attempts run out; a fault of any other
+        // kind only a few times. Either way PostgreSQL rolled back the attempt, so a retry stores once.
+        const attempt = job.attemptsMade + 1;
+        const unavailable = isDatabaseUnavailable(error) || isRedisUnavailable(error);
+        const lastAttempt =
+          attempt >= (job.opts.attempts ?? 1) || (!unavailable && attempt >= INGEST_MAX_FAULTY_ATTEMPTS);
         log(
-          `upload ${payload.data.uploadId}: attempt ${job.attemptsMade + 1} failed: ${(error as Error).message}`,
+          `upload ${payload.data.uploadId}: attempt ${attempt} failed${unavailable ? ' (connection lost, will retry)' : ''}: ${(error as Error).message}`,
         );
         if (lastAttempt) {
           await repo
@@ -97,6 +103,7 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
               'The file could not be processed because of a problem on our side. Upload it again, or contact the network coordinator if this repeats.',
             )
             .catch(() => {});
+          throw new UnrecoverableError((error as Error).message);
         }
         throw error;
       } finally {
@@ -112,6 +119,7 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
     },
   );
   worker.on('error', (error) => log(`ingest worker: ${error.message}`));
+  queue.on('error', (error) => log(`ingest queue: ${error.message}`));
 
   async function recover(): Promise<number> {
     const pending = await repo.uploadsToRecover(deps.db);
@@ -120,7 +128,7 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
       await queue.add(
         'ingest',
         { uploadId: upload.id },
-        { ...JOB_OPTIONS, jobId: ingestJobId(upload.id, upload.confirmed ? 'confirmed' : 'initial') },
+        { ...INGEST_JOB_OPTIONS, jobId: ingestJobId(upload.id, upload.confirmed ? 'confirmed' : 'initial') },
       );
     }
     // Recompute requests left by a crash between storing and recomputing.
@@ -160,4 +168,10 @@ function checkViolation(error: unknown): string | null {
     if (e.code === '23514') return e.constraint ?? 'a check constraint';
   }
   return null;
+}
+
+/** Redis connection errors as ioredis and BullMQ word them. */
+function isRedisUnavailable(error: unknown): boolean {
+  const message = (error as Error)?.message ?? '';
+  return /ECONNREFUSED|ECONNRESET|Connection is closed|connection lost|MaxRetriesPerRequest/i.test(message);
 }

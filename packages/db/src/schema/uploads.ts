@@ -47,7 +47,10 @@ export const uploads = pgTable(
     rowsTotal: integer().notNull().default(0),
     rowsAccepted: integer().notNull().default(0),
     rowsRejected: integer().notNull().default(0),
+    /** The first row errors (at most the INGEST_MAX_ROW_ERRORS threshold), each message bounded. */
     errors: jsonb().$type<RowError[]>().notNull().default([]),
+    /** Every row error found, also those not kept in `errors`. */
+    errorsTotal: integer().notNull().default(0),
     failureMessage: text(),
     /** An earlier upload of the same lab with identical content, when there is one. */
     duplicateOf: uuid(),

@@ -1,6 +1,6 @@
 import type { Request } from 'express';
-import busboy from 'busboy';
 import { AppError } from '../../errors/app-error.ts';
+import { readMultipart } from '../../http/multipart.ts';
 
 /** Catalogue lists are small; a few megabytes is far more than any of them needs. */
 export const MAX_CATALOGUE_CSV_BYTES = 5 * 1024 * 1024;
@@ -32,36 +32,19 @@ function readRaw(req: Request): Promise<Buffer> {
   });
 }
 
-function readMultipartFile(req: Request): Promise<Buffer> {
-  return new Promise((resolve, reject) => {
-    let parser: busboy.Busboy;
-    try {
-      parser = busboy({ headers: req.headers, limits: { files: 1, fileSize: MAX_CATALOGUE_CSV_BYTES } });
-    } catch {
-      reject(new AppError('bad_request', 'The multipart body could not be read.'));
-      return;
-    }
-    let file: Buffer | null = null;
-    let failure: AppError | null = null;
-    parser.on('file', (field, stream) => {
-      if (field !== 'file') {
-        stream.resume();
-        return;
-      }
+async function readMultipartFile(req: Request): Promise<Buffer> {
+  const body = await readMultipart<Buffer>(req, {
+    fileField: 'file',
+    maxFileBytes: MAX_CATALOGUE_CSV_BYTES,
+    handleFile: async (stream) => {
       const chunks: Buffer[] = [];
-      stream.on('data', (chunk: Buffer) => chunks.push(chunk));
-      stream.on('limit', () => (failure = tooLarge()));
-      stream.on('end', () => (file = Buffer.concat(chunks)));
-    });
-    parser.on('error', () => reject(new AppError('bad_request', 'The multipart body could not be read.')));
-    parser.on('close', () => {
-      if (failure) reject(failure);
-      else if (!file)
-        reject(new AppError('bad_request', 'Attach the CSV file in a form field named "file".'));
-      else resolve(file);
-    });
-    req.pipe(parser);
+      for await (const chunk of stream) chunks.push(chunk as Buffer);
+      return Buffer.concat(chunks);
+    },
   });
+  if (!body.file) throw new AppError('bad_request', 'Attach the CSV file in a form field named "file".');
+  if (body.file.truncated) throw tooLarge();
+  return body.file.result;
 }
 
 /** The CSV text of an import request: a text/csv body or a multipart form with a `file` field. */

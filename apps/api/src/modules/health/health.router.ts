@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import { sql } from 'drizzle-orm';
 import type { AppDeps } from '../../deps.ts';
+import { RETRY_AFTER_SECONDS } from '../../http/error-handler.ts';
 
 /** 200 when PostgreSQL and Redis answer; 503 naming the part that does not. */
 export function healthRouter(deps: AppDeps): Router {
@@ -17,6 +18,7 @@ export function healthRouter(deps: AppDeps): Router {
       ),
     ]);
     const healthy = db === 'ok' && redis === 'ok';
+    if (!healthy) res.setHeader('Retry-After', String(RETRY_AFTER_SECONDS));
     res.status(healthy ? 200 : 503).json({ status: healthy ? 'ok' : 'degraded', db, redis });
   });
   return router;

@@ -1,10 +1,14 @@
-import { and, desc, eq, inArray, isNull, sql } from 'drizzle-orm';
+import { and, desc, eq, getTableColumns, inArray, isNull, sql } from 'drizzle-orm';
 import { columnMappings, labs, uploads, users, type Executor } from '@plumbline/db';
 import type { ColumnMapping, UploadKind, UploadStatus } from '@plumbline/contracts';
 
 export type UploadRow = typeof uploads.$inferSelect & { uploaderName: string | null };
 
 const uploadColumns = { upload: uploads, uploaderName: users.name };
+
+/** An upload as lists show it: never its row errors, which may be large (read them one upload at a time). */
+export type UploadListRow = Omit<UploadRow, 'errors'>;
+const { errors: _errors, ...listedColumns } = getTableColumns(uploads);
 
 export async function findLab(db: Executor, labId: string): Promise<{ id: string; active: boolean } | null> {
   const [lab] = await db
@@ -26,9 +30,9 @@ export async function findUpload(db: Executor, id: string): Promise<UploadRow | 
 }
 
 /** Most recent first; `labId` null lists every lab (coordinator). */
-export async function listUploads(db: Executor, labId: string | null, limit = 200): Promise<UploadRow[]> {
+export async function listUploads(db: Executor, labId: string | null, limit = 200): Promise<UploadListRow[]> {
   const rows = await db
-    .select(uploadColumns)
+    .select({ upload: listedColumns, uploaderName: users.name })
     .from(uploads)
     .leftJoin(users, eq(users.id, uploads.uploadedBy))
     .where(labId ? eq(uploads.labId, labId) : undefined)

@@ -138,7 +138,7 @@ export function newUploadId(): string {
   return randomUUID();
 }
 
-function toSummary(row: repo.UploadRow): UploadSummary {
+function toSummary(row: repo.UploadListRow): UploadSummary {
   return {
     id: row.id,
     labId: row.labId,
@@ -178,8 +178,9 @@ export async function getUploadDetail(
   return {
     ...toSummary(row),
     errors: row.errors as UploadDetail['errors'],
-    // The worker keeps at most the configured number of errors; reaching the cap means some were left out.
-    errorsTruncated: row.errors.length >= thresholds().maxRowErrors,
+    errorsTotal: Math.max(row.errorsTotal, row.errors.length),
+    // The worker keeps the first errors only (the INGEST_MAX_ROW_ERRORS threshold) but counts them all.
+    errorsTruncated: row.errorsTotal > row.errors.length,
     columnMapping: row.columnMapping ?? null,
   };
 }

@@ -1,0 +1,1 @@
+ALTER TABLE "uploads" ADD COLUMN "errors_total" integer DEFAULT 0 NOT NULL;
