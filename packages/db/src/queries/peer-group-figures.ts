@@ -94,7 +94,10 @@ export function groupFigures(
     try {
       stats = compute(
         list.map((e) => ({ id: e.procedureId, n: e.n, mean: e.mean, sd: e.sd })),
-        { minLabs: settings.minLabs ?? thresholds().peerMinLabs, excludeIds: manual.map((e) => e.procedureId) },
+        {
+          minLabs: settings.minLabs ?? thresholds().peerMinLabs,
+          excludeIds: manual.map((e) => e.procedureId),
+        },
       );
     } catch (error) {
       failures.push({ peerGroupId, reason: messageOf(error) });

@@ -10,7 +10,6 @@ import { procedures } from '../schema/procedures.ts';
 import { qcSummaries } from '../schema/qc-data.ts';
 import type { Database, Executor } from '../client.ts';
 import { loadPeerKeyParts, resolvePeerMembership } from './peer-groups.ts';
-import { thresholds } from '../thresholds.ts';
 import {
   cumulativeByProcedure,
   groupFigures,

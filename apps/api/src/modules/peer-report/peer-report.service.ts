@@ -252,7 +252,6 @@ function peerFiguresOf(tier: PeerFigures['tier'], row: repo.PeerStatisticsRow): 
   return { tier, labs: row.labs, n: row.n, mean: row.mean!, sd: row.sd!, cv: row.cv, withinCv: row.withinCv };
 }
 
-
 /**
  * The analyte's total allowable error rule ("± absolute or ± %, whichever is greater") evaluated at a
  * control level's concentration; null when no rule is set or it has no value there (an absolute limit

@@ -10,7 +10,15 @@ const peer: PeerFigures = { tier: 'instrument', labs: 6, n: 120, mean: 5.5, sd: 
 
 const identity: RowIdentity = {
   procedure: { id: '7e1f0c2a-5b3d-4e8f-9a1b-2c3d4e5f6001', code: 'GLU1' },
-  analyte: { code: 'GLU', name: 'Glucose', unit: 'mmol/L', decimals: 2, teaPct: null, teaAbsolute: null, teaSource: null },
+  analyte: {
+    code: 'GLU',
+    name: 'Glucose',
+    unit: 'mmol/L',
+    decimals: 2,
+    teaPct: null,
+    teaAbsolute: null,
+    teaSource: null,
+  },
   controlLot: { id: '7e1f0c2a-5b3d-4e8f-9a1b-2c3d4e5f6002', lotNumber: 'LOT-1' },
   level: 1,
   unit: 'mmol/L',

@@ -20,7 +20,7 @@ import {
   type UploadPreview,
   type UploadSummary,
 } from '@plumbline/contracts';
-import { recordAudit, thresholds } from '@plumbline/db';
+import { recordAudit } from '@plumbline/db';
 import type { AppDeps } from '../../deps.ts';
 import type { Principal } from '../../auth/principal.ts';
 import { actorOf } from '../../auth/principal.ts';
