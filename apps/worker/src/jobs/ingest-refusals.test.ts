@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { gzipSync } from 'node:zlib';
-import { eq } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
 import { qcSummaries } from '@plumbline/db';
 import { createWorkerHarness, type WorkerHarness } from '../testing/harness.ts';
 
@@ -57,5 +57,21 @@ describe('files that must not be stored', () => {
     expect(done.errors).toEqual([expect.objectContaining({ row: 1, code: 'not_text' })]);
     expect(done.attempts).toBe(1);
     expect(stored).toEqual([]);
+  });
+
+  it('when the database refuses a figure the checks let through, then the upload fails naming the constraint', async () => {
+    // A constraint stricter than the ingest checks stands in for a gap between the two.
+    await h.db.execute(
+      sql.raw('alter table qc_summaries add constraint test_mean_below_1000 check (mean < 1000)'),
+    );
+    try {
+      const lot = h.catalogue.lot.lotNumber;
+      const { done, stored } = await run(`${HEADER}\n2026-02,GLU1,${lot},1,20,2000,10,mmol/L\n`);
+      expect(done.status).toBe('failed');
+      expect(done.failureMessage).toMatch(/database refuses \(test_mean_below_1000\)/);
+      expect(stored).toEqual([]);
+    } finally {
+      await h.db.execute(sql.raw('alter table qc_summaries drop constraint test_mean_below_1000'));
+    }
   });
 });
