@@ -175,6 +175,8 @@ export async function recomputeAllPeerStatistics(
       .from(qcSummaries)
       .innerJoin(procedures, eq(procedures.id, qcSummaries.procedureId));
     await tx.delete(peerStatistics).where(eq(peerStatistics.version, 0));
+    // A full recompute records its own failures; older ones may concern data that is gone.
+    await tx.delete(peerStatisticsFailures);
     await recomputePeerStatistics(tx, targets, settings);
     await tx.delete(peerStatisticsRequests);
     return targets.length;

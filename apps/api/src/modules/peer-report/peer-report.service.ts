@@ -104,8 +104,8 @@ export async function buildPeerReport(
 
   const toDate = await repo.summariesToDate(db, [...new Set(summaries.map((s) => s.procedureId))], period);
 
-  // Groups the last recompute could not compute: a row that would be compared with one says so.
-  const failures = await repo.statisticsFailuresFor(db, [...groupIds], period);
+  // Groups the last recompute could not compute: a provisional row that would be compared with one says so.
+  const failures = version === 0 ? await repo.statisticsFailuresFor(db, [...groupIds], period) : [];
   const failureOf = (groupId: string, level: number, scope: 'period' | 'cumulative') =>
     failures.find((f) => f.peerGroupId === groupId && f.level === level && f.scope === scope);
 
@@ -128,13 +128,14 @@ export async function buildPeerReport(
       const chosen = candidates.find((c) => c.sufficient);
       // A narrower group without figures because they failed might have been the one to compare with.
       const narrower = chosen ? candidates.slice(0, candidates.indexOf(chosen)) : candidates;
-      const failed = narrower.find((c) => {
-        const group = groups[c.tier];
-        return !c.row && group && failureOf(group.id, s.level, scope);
-      });
-      const failure = failed && failureOf(groups[failed.tier]!.id, s.level, scope);
-      const problem = failure
-        ? `The peer figures of the group with ${tierDescription[failed!.tier]} could not be computed: ${failure.reason}`
+      const failed = narrower
+        .map((c) => {
+          const group = groups[c.tier];
+          return { tier: c.tier, failure: !c.row && group ? failureOf(group.id, s.level, scope) : undefined };
+        })
+        .find((c) => c.failure);
+      const problem = failed?.failure
+        ? `The peer figures of the group with ${tierDescription[failed.tier]} could not be computed: ${failed.failure.reason}`
         : null;
       return { candidates, chosen: problem ? undefined : chosen, problem };
     };

@@ -178,6 +178,7 @@ export function PeerReportView({
   }
   const units = report.data?.units ?? choice.units ?? 'si';
   const flaggedCount = report.data ? report.data.rows.filter(isFlagged).length : 0;
+  const notComputableCount = report.data ? report.data.rows.filter((r) => r.notComputable).length : 0;
 
   return (
     <div className="space-y-5">
@@ -270,8 +271,11 @@ export function PeerReportView({
               <p className="text-sm text-slate-700" aria-live="polite">
                 Showing <span className="font-semibold">{rows.length}</span> of {report.data.rows.length}{' '}
                 results
-                {flaggedCount > 0 ? ` · ${flaggedCount} flagged` : ''}. Open a procedure for its charts and
-                comments.
+                {flaggedCount > 0 ? ` · ${flaggedCount} flagged` : ''}
+                {notComputableCount > 0
+                  ? ` · ${notComputableCount} cannot be computed (the reason is under the row)`
+                  : ''}
+                . Open a procedure for its charts and comments.
               </p>
               <ReportTable
                 rows={rows}

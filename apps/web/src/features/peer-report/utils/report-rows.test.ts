@@ -32,6 +32,13 @@ describe('report rows', () => {
     ).toEqual([warning, action]);
   });
 
+  it('when filtering to flagged rows, then a row that cannot be computed stays in view', () => {
+    const notComputable = { ...unflagged, notComputable: { reason: 'The peer SD is 0.' } };
+    expect(
+      filterRows([fine, notComputable, unflagged], { flaggedOnly: true, analyte: '', severity: '' }),
+    ).toEqual([notComputable]);
+  });
+
   it('when filtering by analyte and severity, then both apply; a row without flags counts as fine', () => {
     const rows = [fine, warning, action, unflagged];
     expect(filterRows(rows, { flaggedOnly: false, analyte: 'GLU', severity: '' })).toEqual([

@@ -48,7 +48,8 @@ export const noFilters: ReportFilters = { flaggedOnly: false, analyte: '', sever
 
 export function filterRows(rows: readonly PeerReportRow[], filters: ReportFilters): PeerReportRow[] {
   return rows.filter((row) => {
-    if (filters.flaggedOnly && !isFlagged(row)) return false;
+    // A row that cannot be computed needs a look as much as a flagged one.
+    if (filters.flaggedOnly && !isFlagged(row) && !row.notComputable) return false;
     if (filters.analyte && row.analyte.code !== filters.analyte) return false;
     if (filters.severity && (worstFlag(row) ?? 'fine') !== filters.severity) return false;
     return true;
