@@ -36,11 +36,13 @@ cleanup() {
 trap cleanup INT TERM EXIT
 
 # Each process runs under the supervisor: a crash restarts it (with backoff, logged), never the stack.
-bash scripts/supervise.sh api "$(tsx_bin)" apps/api/src/main.ts & pids+=($!)
+# `node --import tsx` (not the tsx command, which runs node as a child of its own) so the supervised
+# process is the server itself: a kill reaches it and its exit is what the supervisor sees.
+bash scripts/supervise.sh api node --import tsx apps/api/src/main.ts & pids+=($!)
 # The worker streams files; a bounded heap keeps its memory predictable on a shared machine. It runs
 # at a lower CPU priority (WORKER_NICE), so storing uploads never starves the API's readers.
 NODE_OPTIONS="${WORKER_NODE_OPTIONS:---max-old-space-size=384}" nice -n "${WORKER_NICE:-10}" \
-  bash scripts/supervise.sh worker "$(tsx_bin)" apps/worker/src/main.ts & pids+=($!)
+  bash scripts/supervise.sh worker node --import tsx apps/worker/src/main.ts & pids+=($!)
 
 for _ in $(seq 1 100); do curl -fs "http://127.0.0.1:$PORT/api/health" >/dev/null 2>&1 && break; sleep 0.2; done
 cat <<MSG
