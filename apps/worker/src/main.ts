@@ -16,6 +16,7 @@ const ingest = startIngestWorker(
     files: createFileSource(env),
     minLabs: env.PEER_MIN_LABS,
     holdBeforeCommitMs: env.INGEST_HOLD_BEFORE_COMMIT_MS,
+    sampleKeySalt: env.SAMPLE_KEY_SALT,
     log,
   },
   {

@@ -32,6 +32,12 @@ const envSchema = z.object({
    * can kill the process mid-transaction. 0 (the default) in every real deployment.
    */
   INGEST_HOLD_BEFORE_COMMIT_MS: z.coerce.number().int().min(0).default(0),
+  /**
+   * Secret salt of the hash that replaces the sample keys of patient files (equal keys of a lab give
+   * equal hashes, so repeats of a person can be dropped, and the key itself is never stored). Set your
+   * own in production; changing it makes earlier and later hashes incomparable.
+   */
+  SAMPLE_KEY_SALT: z.string().min(16).default('plumbline-development-sample-key-salt'),
 });
 
 export type WorkerEnv = z.infer<typeof envSchema>;
