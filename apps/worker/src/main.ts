@@ -3,6 +3,7 @@ import { createDb } from '@plumbline/db';
 import { loadWorkerEnv } from './config/env.ts';
 import { createFileSource } from './storage/file-source.ts';
 import { startIngestWorker } from './queues/ingest.queue.ts';
+import { startStudyWorker } from './queues/study.queue.ts';
 
 const env = loadWorkerEnv();
 const { db, pool } = createDb(env.DATABASE_URL);
@@ -31,7 +32,10 @@ const ingest = startIngestWorker(
   },
 );
 
+const studies = startStudyWorker(db, { connection, prefix: env.QUEUE_PREFIX, log });
+
 const recovered = await ingest.recover();
+await studies.recover();
 log(
   `ready (queue prefix ${env.QUEUE_PREFIX}, concurrency ${env.INGEST_CONCURRENCY}; ${recovered} upload(s) re-enqueued)`,
 );
@@ -45,6 +49,7 @@ async function shutdown(signal: string) {
   const deadline = setTimeout(() => process.exit(1), 30_000);
   deadline.unref();
   await ingest.close().catch((error: Error) => log(`closing: ${error.message}`));
+  await studies.close().catch((error: Error) => log(`closing studies: ${error.message}`));
   await Promise.allSettled([pool.end(), connection.quit()]);
   process.exit(0);
 }

@@ -15,3 +15,8 @@ export type IngestJob = z.infer<typeof ingestJobSchema>;
 export function ingestJobId(uploadId: string, phase: 'initial' | 'confirmed'): string {
   return `upload-${uploadId}-${phase}`;
 }
+
+/** BullMQ queue that runs reference-interval studies. */
+export const STUDY_QUEUE_NAME = 'ri-study';
+export const studyJobSchema = z.object({ studyId: uuidSchema });
+export type StudyJob = z.infer<typeof studyJobSchema>;

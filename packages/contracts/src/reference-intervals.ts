@@ -88,7 +88,9 @@ export const partitionResultSchema = z.object({
   label: z.string(),
   /** Values read before screening (after dropping repeats of the same sample key). */
   n: z.number().int(),
+  /** Values removed by outlier screening (at most the first 5000 are listed). */
   excluded: z.array(z.number()),
+  excludedCount: z.number().int(),
   method: studyMethodSchema,
   lower: limitSchema.nullable(),
   upper: limitSchema.nullable(),

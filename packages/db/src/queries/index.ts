@@ -2,3 +2,4 @@ export * from './audit.ts';
 export * from './peer-groups.ts';
 export * from './peer-statistics.ts';
 export * from './publishing.ts';
+export * from './patient-results.ts';
