@@ -61,7 +61,8 @@ export function identifierInHeader(header: string): IdentifierKind | null {
 
 const EMAIL = /[^\s@]+@[^\s@]+\.[a-z]{2,}/i;
 // Seven or more digits in a phone layout: +country, brackets, spaces, dots or dashes between groups.
-const PHONE = /^\+?\(?\d{1,4}\)?([ .-]\d{2,5}){2,5}$/;
+const PHONE = /^\+?\(?\d{1,4}\)?([ .-]\d{1,5}){2,5}$/;
+const ISO_DATE = /^\d{4}-\d{2}(-\d{2})?([T ].*)?$/;
 // An ISO calendar date with a day (YYYY-MM-DD) or a day-first/month-first date (DD/MM/YYYY).
 const FULL_DATE = /^(\d{4}-\d{2}-\d{2}|\d{1,2}[./]\d{1,2}[./]\d{4})/;
 
@@ -73,7 +74,9 @@ export function identifierInCell(column: string, value: string): IdentifierKind 
   const text = value.trim();
   if (text === '') return null;
   if (EMAIL.test(text)) return 'e-mail address';
-  if (column !== 'value' && column !== 'age_years' && PHONE.test(text)) return 'phone number';
+  const digits = text.replace(/\D/g, '').length;
+  if (column !== 'value' && column !== 'age_years' && !ISO_DATE.test(text) && digits >= 7 && PHONE.test(text))
+    return 'phone number';
   if (column !== 'collected_month' && FULL_DATE.test(text)) return 'full birth date';
   return null;
 }

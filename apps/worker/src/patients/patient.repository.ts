@@ -16,7 +16,15 @@ const CHUNK = 5000;
  * Stores an upload's rows, replacing the rows of earlier uploads of the same lab with identical content
  * (a re-upload replaces), and marks the upload stored — in one transaction.
  */
-export async function storePatientRows(
+export async function storePatientRows(...args: Parameters<typeof storeRows>): Promise<boolean> {
+  // Driver errors quote the statement's parameters; the message must not carry stored content to the log.
+  return storeRows(...args).catch((error: unknown) => {
+    const code = (error as { cause?: { code?: string } }).cause?.code ?? 'unknown';
+    throw new Error(`storing the patient results failed (database error ${code})`);
+  });
+}
+
+async function storeRows(
   db: Database,
   upload: { id: string; labId: string; sha256: string },
   rows: PatientRow[],
@@ -34,10 +42,10 @@ export async function storePatientRows(
         insert into patient_results
           (lab_id, upload_id, analyte_id, value, sex, age_years, collected_month, setting, sample_hash)
         select ${upload.labId}, ${upload.id}, * from unnest(
-          ${chunk.map((r) => r.analyteId)}::uuid[], ${chunk.map((r) => r.value)}::float8[],
-          ${chunk.map((r) => r.sex)}::text[], ${chunk.map((r) => r.ageYears)}::int2[],
-          ${chunk.map((r) => r.collectedMonth)}::text[], ${chunk.map((r) => r.setting)}::text[],
-          ${chunk.map((r) => r.sampleHash)}::text[])`);
+          ${sql.param(chunk.map((r) => r.analyteId))}::uuid[], ${sql.param(chunk.map((r) => r.value))}::float8[],
+          ${sql.param(chunk.map((r) => r.sex))}::text[], ${sql.param(chunk.map((r) => r.ageYears))}::int2[],
+          ${sql.param(chunk.map((r) => r.collectedMonth))}::text[], ${sql.param(chunk.map((r) => r.setting))}::text[],
+          ${sql.param(chunk.map((r) => r.sampleHash))}::text[])`);
       }
       const marked = await tx.execute(sql`
       update uploads set status = 'stored', stored_at = now(), progress = 1, rows_total = ${counts.rowsTotal},

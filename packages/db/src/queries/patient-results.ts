@@ -11,7 +11,7 @@ function where(labId: string, analyteId: string, selection: StudySelection, part
   const parts: SQL[] = [sql`lab_id = ${labId}`, sql`analyte_id = ${analyteId}`];
   if (selection.fromMonth) parts.push(sql`collected_month >= ${selection.fromMonth}`);
   if (selection.toMonth) parts.push(sql`collected_month <= ${selection.toMonth}`);
-  if (selection.settings?.length) parts.push(sql`setting = any(${selection.settings}::text[])`);
+  if (selection.settings?.length) parts.push(sql`setting = any(${sql.param(selection.settings)}::text[])`);
   const ageLow = Math.max(selection.ageLow, partition?.ageLow ?? 0);
   const ageHigh = Math.min(selection.ageHigh, partition?.ageHigh ?? 200);
   parts.push(sql`age_years between ${ageLow} and ${ageHigh}`);
