@@ -67,21 +67,28 @@ try {
   let status = 'queued';
   while (status !== 'done' && status !== 'failed') {
     await new Promise((r) => setTimeout(r, 20));
-    status = (await db.execute<{ status: string }>(sql`select status from ri_studies where id = ${studyId}`)).rows[0].status;
+    status = (await db.execute<{ status: string }>(sql`select status from ri_studies where id = ${studyId}`))
+      .rows[0].status;
   }
   const studyMs = performance.now() - started;
   if (status === 'failed') throw new Error(`the study failed:\n${worker.output()}`);
-  const peakKb = Number(/VmHWM:\s+(\d+)/.exec(readFileSync(`/proc/${worker.child.pid}/status`, 'utf8'))?.[1] ?? 0);
+  const peakKb = Number(
+    /VmHWM:\s+(\d+)/.exec(readFileSync(`/proc/${worker.child.pid}/status`, 'utf8'))?.[1] ?? 0,
+  );
   await queue.close();
 
   // Baseline: the same values, in memory, sorted.
-  const text = (await db.execute<{ v: string }>(sql`select string_agg(value::text, ',') as v from patient_results`)).rows[0].v;
+  const text = (
+    await db.execute<{ v: string }>(sql`select string_agg(value::text, ',') as v from patient_results`)
+  ).rows[0].v;
   const values = Float64Array.from(text.split(','), Number);
   const b0 = performance.now();
   values.sort();
   const sortMs = performance.now() - b0;
 
-  log(`study (2 partitions, ${ROWS.toLocaleString('en')} results, through the job): ${studyMs.toFixed(0)} ms`);
+  log(
+    `study (2 partitions, ${ROWS.toLocaleString('en')} results, through the job): ${studyMs.toFixed(0)} ms`,
+  );
   log(`baseline (sort ${values.length.toLocaleString('en')} values in memory): ${sortMs.toFixed(0)} ms`);
   log(`ratio: ${(studyMs / sortMs).toFixed(2)} (target ≤ 3.0)`);
   log(`worker peak RSS: ${(peakKb / 1024).toFixed(0)} MB (target ≤ 512 MB)`);
