@@ -34,6 +34,7 @@ import {
   saveCurrentInterval,
 } from './intervals.service.ts';
 import { studyResultCsv } from './study-export.ts';
+import { renderStudyPdf } from './study-pdf.ts';
 
 const labQuery = z.object({ labId: uuidSchema.optional() });
 
@@ -76,6 +77,16 @@ export function referenceIntervalsRouter(deps: AppDeps, requireUser: RequestHand
     res.setHeader('Content-Type', 'text/csv; charset=utf-8');
     res.setHeader('Content-Disposition', `attachment; filename="study-${study.id}-v${result.version}.csv"`);
     res.send(studyResultCsv(study, result, REFERENCE_INTERVAL_CAUTION));
+  });
+
+  router.get(`${base}/studies/:id/versions/:version/export.pdf`, requireUser, async (req, res) => {
+    const study = await getStudy(deps, principalOf(req), String(req.params.id));
+    const result = study.results.find((r) => r.version === Number(req.params.version));
+    if (!result) throw notFound('Study result');
+    const pdf = await renderStudyPdf(study, result, REFERENCE_INTERVAL_CAUTION);
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `attachment; filename="study-${study.id}-v${result.version}.pdf"`);
+    res.send(pdf);
   });
 
   router.get(`${base}/current`, requireUser, async (req, res) => {

@@ -20,13 +20,11 @@ let ri: Awaited<ReturnType<typeof makeRiAnalytes>>;
 let supervisor: { auth: string };
 let analyst: { auth: string };
 let otherAnalyst: { auth: string };
-let labId: string;
 
 beforeAll(async () => {
   t = await createTestApp('ristudies', { env: { MAX_UPLOAD_BYTES: String(20 * 1024 * 1024) } });
   ri = await makeRiAnalytes(t);
   const lab = await t.makeLab();
-  labId = lab.id;
   supervisor = await t.makeUser('supervisor', lab.id);
   analyst = await t.makeUser('analyst', lab.id);
   otherAnalyst = await t.makeUser('analyst', (await t.makeLab()).id);
@@ -63,7 +61,7 @@ function readNhanes(): NhanesRow[] {
   });
 }
 
-const post = (path: string, auth: string, body: unknown) =>
+const post = (path: string, auth: string, body: object) =>
   request(t.app).post(`/api/reference-intervals${path}`).set('Authorization', auth).send(body);
 
 describe.skipIf(!haveNhanes)('a study on NHANES 2017–2018 (NCHS) results', () => {
@@ -200,6 +198,17 @@ describe('studies: approval, versions and adoption', () => {
     expect(csv.status).toBe(200);
     expect(csv.text).toMatch(/laboratory director/);
     expect(csv.text).toMatch(/Reviewed with the laboratory director/);
+    const pdf = await request(t.app)
+      .get(`/api/reference-intervals/studies/${studyId}/versions/1/export.pdf`)
+      .set('Authorization', analyst.auth)
+      .buffer(true)
+      .parse((res, done) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () => done(null, Buffer.concat(chunks)));
+      });
+    expect(pdf.status).toBe(200);
+    expect((pdf.body as Buffer).subarray(0, 5).toString()).toBe('%PDF-');
   });
 
   it('when another lab’s analyst asks for any study or verification route, then it is not found (404)', async () => {
@@ -225,6 +234,7 @@ describe('studies: approval, versions and adoption', () => {
       ['post', `/studies/${studyId}/run`, {}],
       ['post', `/studies/${studyId}/versions/1/approve`, { statement: 'Not my lab, still trying.' }],
       ['get', `/studies/${studyId}/versions/1/export.csv`],
+      ['get', `/studies/${studyId}/versions/1/export.pdf`],
       ['get', `/verifications/${vid}`],
       ['post', `/verifications/${vid}/rounds`, { values: Array.from({ length: 20 }, () => 4) }],
       ['post', `/verifications/${vid}/approve`, { statement: 'Not my lab, still trying.' }],
@@ -236,9 +246,11 @@ describe('studies: approval, versions and adoption', () => {
       ['post', '/current/adopt', { resultId: studyId, partition: 'x' }],
     ];
     for (const [method, path, body] of routes) {
-      const req = request(t.app)
-        [method as 'get' | 'post'](`/api/reference-intervals${path}`)
-        .set('Authorization', otherAnalyst.auth);
+      const url = `/api/reference-intervals${path}`;
+      const req = (method === 'get' ? request(t.app).get(url) : request(t.app).post(url)).set(
+        'Authorization',
+        otherAnalyst.auth,
+      );
       const r = body === undefined ? await req : await req.send(body as object);
       expect(r.status, `${method} ${path}`).toBe(404);
     }
