@@ -1,6 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { existsSync, readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { nonparametricInterval, screenOutliers, verifyInterval } from '@plumbline/stats';
 import { createTestApp, type TestApp } from '../../testing/test-app.ts';
 import { spawnWorkerFor, type WorkerProcess } from '../../testing/worker-process.ts';
@@ -9,7 +11,16 @@ import { makeRiAnalytes, uploadFile, waitForStudy, waitForUpload } from './testi
 // Data source: US National Center for Health Statistics (NCHS/CDC), NHANES 2017–2018 public-use files
 // BIOPRO_J (standard biochemistry profile) joined with DEMO_J (demographics), as placed in the shared
 // reference-data folder (see its README for provenance and terms).
-const NHANES = '/work/shared/reference-data/nhanes-2017-2018-biopro/nhanes_2017_2018_biopro_demo.csv';
+// REFERENCE_DATA_DIR overrides; otherwise ../shared/reference-data beside the checkout.
+const referenceRoots = [
+  process.env.REFERENCE_DATA_DIR,
+  resolve(fileURLToPath(new URL('.', import.meta.url)), '../../../../../../shared/reference-data'),
+  '/work/shared/reference-data',
+].filter((p): p is string => Boolean(p));
+const NHANES = resolve(
+  referenceRoots.find((p) => existsSync(p)) ?? referenceRoots[0],
+  'nhanes-2017-2018-biopro/nhanes_2017_2018_biopro_demo.csv',
+);
 const haveNhanes = existsSync(NHANES);
 if (!haveNhanes)
   console.warn(`NHANES 2017–2018 (NCHS) file not found at ${NHANES}: the NHANES study test is skipped.`);
