@@ -74,10 +74,11 @@ export function identifierInCell(column: string, value: string): IdentifierKind 
   const text = value.trim();
   if (text === '') return null;
   if (EMAIL.test(text)) return 'e-mail address';
+  // Dates first: a dotted date would otherwise read as a phone number.
+  if (FULL_DATE.test(text) || ISO_DATE.test(text))
+    return column !== 'collected_month' && FULL_DATE.test(text) ? 'full birth date' : null;
   const digits = text.replace(/\D/g, '').length;
-  if (column !== 'value' && column !== 'age_years' && !ISO_DATE.test(text) && digits >= 7 && PHONE.test(text))
-    return 'phone number';
-  if (column !== 'collected_month' && FULL_DATE.test(text)) return 'full birth date';
+  if (column !== 'value' && column !== 'age_years' && digits >= 7 && PHONE.test(text)) return 'phone number';
   return null;
 }
 
