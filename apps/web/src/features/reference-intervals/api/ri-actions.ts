@@ -5,7 +5,10 @@ import {
   studyResultSchema,
   studySummarySchema,
   verificationSchema,
+  uploadCreatedSchema,
+  uploadSummarySchema,
   type CurrentIntervalInput,
+  type PatientUploadKind,
   type StudyInput,
 } from '@plumbline/contracts';
 import { apiRequest } from '../../../lib/api-client.ts';
@@ -73,5 +76,22 @@ export const useApproveVerification = () =>
       method: 'POST',
       body: { statement: input.statement },
       schema: verificationSchema,
+    }),
+  );
+
+/** POST /api/uploads with a patient file: the same pipeline as QC files, kind patient-results or fhir-bundle. */
+export const useUploadPatientFile = () =>
+  useRiMutation((input: { file: File; kind: PatientUploadKind }) => {
+    const form = new FormData();
+    form.append('kind', input.kind);
+    form.append('file', input.file, input.file.name);
+    return apiRequest('/uploads', { method: 'POST', body: form, schema: uploadCreatedSchema });
+  });
+
+export const useDecidePatientUpload = () =>
+  useRiMutation((input: { id: string; decision: 'confirm' | 'cancel' }) =>
+    apiRequest(`/uploads/${encodeURIComponent(input.id)}/${input.decision}`, {
+      method: 'POST',
+      schema: uploadSummarySchema,
     }),
   );

@@ -6,6 +6,7 @@ import {
   analyteItemSchema,
   currentIntervalSchema,
   studyCountSchema,
+  uploadDetailSchema,
   studyDetailSchema,
   studySummarySchema,
   verificationSchema,
@@ -87,5 +88,16 @@ export const riKeys = {
       queryKey: [...riKeys.all, 'analytes'] as const,
       queryFn: ({ signal }) => getAnalytes(signal),
       staleTime: 5 * 60_000,
+    }),
+};
+
+export const getPatientUpload = (id: string, signal?: AbortSignal) =>
+  apiRequest(`/uploads/${encodeURIComponent(id)}`, { schema: uploadDetailSchema, signal });
+
+export const riUploadKeys = {
+  upload: (id: string) =>
+    queryOptions({
+      queryKey: [...riKeys.all, 'upload', id] as const,
+      queryFn: ({ signal }) => getPatientUpload(id, signal),
     }),
 };

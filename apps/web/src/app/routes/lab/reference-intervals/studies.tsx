@@ -3,6 +3,8 @@ import { Link } from 'react-router-dom';
 import { ContentLayout } from '../../../../components/layouts/content-layout.tsx';
 import { paths } from '../../../../config/paths.ts';
 import { StudiesList } from '../../../../features/reference-intervals/components/studies-list.tsx';
+import { PatientUpload } from '../../../../features/reference-intervals/components/patient-upload.tsx';
+import { IntervalCaution } from '../../../../features/reference-intervals/components/interval-caution.tsx';
 import { useSession } from '../../../../lib/auth.tsx';
 import { canAccess } from '../../../../lib/authorization.ts';
 
@@ -25,7 +27,11 @@ export default function StudiesRoute() {
         ) : null
       }
     >
-      <StudiesList />
+      <div className="grid gap-8">
+        <IntervalCaution />
+        <StudiesList />
+        <PatientUpload />
+      </div>
     </ContentLayout>
   );
 }
