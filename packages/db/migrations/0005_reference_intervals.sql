@@ -35,7 +35,7 @@ CREATE TABLE "interval_verifications" (
 CREATE TABLE "patient_results" (
 	"id" bigserial PRIMARY KEY NOT NULL,
 	"lab_id" uuid NOT NULL,
-	"upload_id" uuid NOT NULL,
+	"upload_id" uuid,
 	"analyte_id" uuid NOT NULL,
 	"value" double precision NOT NULL,
 	"sex" text NOT NULL,

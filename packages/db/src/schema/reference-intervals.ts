@@ -31,9 +31,8 @@ export const patientResults = pgTable(
     labId: uuid()
       .notNull()
       .references(() => labs.id),
-    uploadId: uuid()
-      .notNull()
-      .references(() => uploads.id),
+    /** The upload the result came in with (null for the invented demo results the seed writes). */
+    uploadId: uuid().references(() => uploads.id),
     analyteId: uuid()
       .notNull()
       .references(() => analytes.id),

@@ -65,11 +65,6 @@ export async function seedReferenceIntervals(
   let count = 0;
   for (const [index, [labCode, labId]] of [...ids.labs.entries()].slice(0, 3).entries()) {
     const supervisor = ids.supervisors.get(labCode) ?? null;
-    const upload = await tx.execute<{ id: string }>(sql`
-      insert into uploads (lab_id, kind, filename, size, sha256, storage_key, status, progress, stored_at)
-      values (${labId}, 'patient-results', 'demo-routine-results.csv', 0, ${`demo-${labCode}`}, 'demo/none', 'stored', 1, now())
-      returning id`);
-    const uploadId = upload.rows[0].id;
     const bias = 1 + (index - 1) * 0.01;
     for (const plan of PLANS) {
       const analyteId = ids.analytes.get(plan.code);
@@ -90,16 +85,13 @@ export async function seedReferenceIntervals(
         };
       });
       await tx.execute(sql`
-        insert into patient_results (lab_id, upload_id, analyte_id, value, sex, age_years, collected_month, setting)
-        select ${labId}, ${uploadId}, ${analyteId}, * from unnest(
+        insert into patient_results (lab_id, analyte_id, value, sex, age_years, collected_month, setting)
+        select ${labId}, ${analyteId}, * from unnest(
           ${sql.param(rows.map((r) => r.value))}::float8[], ${sql.param(rows.map((r) => r.sex))}::text[],
           ${sql.param(rows.map((r) => r.age))}::int2[], ${sql.param(rows.map((r) => r.month))}::text[],
           ${sql.param(rows.map((r) => r.setting))}::text[])`);
       count += rows.length;
     }
-    await tx.execute(
-      sql`update uploads set rows_total = ${count}, rows_accepted = ${count} where id = ${uploadId}`,
-    );
 
     for (const c of CURRENT) {
       await tx.execute(sql`
