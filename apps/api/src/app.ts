@@ -23,6 +23,7 @@ import { labReviewRouter } from './modules/lab-review/lab-review.router.ts';
 import { labProceduresRouter } from './modules/lab-procedures/lab-procedures.router.ts';
 import { reportDrilldownRouter } from './modules/report-drilldown/report-drilldown.router.ts';
 import { reportExportRouter } from './modules/report-export/report-export.router.ts';
+import { referenceIntervalsRouter } from './modules/reference-intervals/reference-intervals.router.ts';
 
 /** Builds the HTTP app (never listens, so tests drive it in-process). */
 export function createApp(deps: AppDeps): Express {
@@ -57,6 +58,7 @@ export function createApp(deps: AppDeps): Express {
   api.use(labProceduresRouter(deps, requireUser));
   api.use(reportDrilldownRouter(deps, requireUser));
   api.use(reportExportRouter(deps, requireUser));
+  api.use(referenceIntervalsRouter(deps, requireUser));
   api.use(notFoundHandler);
   api.use(errorHandler);
   app.use('/api', api);

@@ -4,6 +4,7 @@ import { loadWorkerEnv } from './config/env.ts';
 import { createFileSource } from './storage/file-source.ts';
 import { startIngestWorker } from './queues/ingest.queue.ts';
 import { installProcessGuards } from './process-guards.ts';
+import { startStudyWorker } from './queues/study.queue.ts';
 
 installProcessGuards('worker');
 const env = loadWorkerEnv();
@@ -35,6 +36,7 @@ const ingest = startIngestWorker(
     minLabs: limits.peerMinLabs,
     holdBeforeCommitMs: env.INGEST_HOLD_BEFORE_COMMIT_MS,
     maxStoredErrors: limits.maxRowErrors,
+    sampleKeySalt: env.SAMPLE_KEY_SALT,
     log,
   },
   {
@@ -49,7 +51,10 @@ const ingest = startIngestWorker(
   },
 );
 
+const studies = startStudyWorker(db, { connection, prefix: env.QUEUE_PREFIX, log });
+
 const recovered = await recoverWithBackoff();
+await studies.recover();
 log(
   `ready (queue prefix ${env.QUEUE_PREFIX}, concurrency ${env.INGEST_CONCURRENCY}; ${recovered} upload(s) re-enqueued)`,
 );
@@ -63,6 +68,7 @@ async function shutdown(signal: string) {
   const deadline = setTimeout(() => process.exit(1), 30_000);
   deadline.unref();
   await ingest.close().catch((error: Error) => log(`closing: ${error.message}`));
+  await studies.close().catch((error: Error) => log(`closing studies: ${error.message}`));
   await Promise.allSettled([pool.end(), connection.quit()]);
   process.exit(0);
 }

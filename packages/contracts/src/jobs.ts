@@ -29,3 +29,8 @@ export const INGEST_JOB_OPTIONS = {
   removeOnFail: true,
 };
 export const INGEST_MAX_FAULTY_ATTEMPTS = 3;
+
+/** BullMQ queue that runs reference-interval studies. */
+export const STUDY_QUEUE_NAME = 'ri-study';
+export const studyJobSchema = z.object({ studyId: uuidSchema });
+export type StudyJob = z.infer<typeof studyJobSchema>;

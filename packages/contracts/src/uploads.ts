@@ -1,10 +1,16 @@
 import { z } from 'zod';
 import { uuidSchema } from './common.ts';
 
-/** The two QC file formats a lab can upload. */
-export const uploadKinds = ['qc-summary', 'qc-values'] as const;
+/** The QC file formats a lab can upload. */
+export const qcUploadKinds = ['qc-summary', 'qc-values'] as const;
+/** De-identified patient results for reference-interval studies: canonical CSV, or a FHIR R4 Bundle (JSON). */
+export const patientUploadKinds = ['patient-results', 'fhir-bundle'] as const;
+export const uploadKinds = [...qcUploadKinds, ...patientUploadKinds] as const;
 export const uploadKindSchema = z.enum(uploadKinds);
 export type UploadKind = z.infer<typeof uploadKindSchema>;
+export type PatientUploadKind = (typeof patientUploadKinds)[number];
+export const isPatientUploadKind = (kind: UploadKind): kind is PatientUploadKind =>
+  (patientUploadKinds as readonly string[]).includes(kind);
 
 /**
  * Life of an upload: queued → processing → stored; a file with rejected rows stops at needs-review until
@@ -57,6 +63,30 @@ export const canonicalColumns: Record<UploadKind, readonly CanonicalColumn[]> = 
     { name: 'run', required: false, description: 'run identifier; values with the same run form one run' },
     { name: 'comment', required: false, description: 'free text, at most 500 characters' },
   ],
+  'patient-results': [
+    { name: 'analyte', required: true, description: 'analyte code of the catalogue, or its LOINC code' },
+    { name: 'value', required: true, description: 'the result' },
+    { name: 'unit', required: true, description: 'UCUM unit of the value' },
+    { name: 'sex', required: true, description: 'female or male (F or M)' },
+    { name: 'age_years', required: true, description: 'age at collection in whole years' },
+    {
+      name: 'collected_month',
+      required: true,
+      description: 'month of collection, YYYY-MM (a full date is cut to its month)',
+    },
+    {
+      name: 'setting',
+      required: true,
+      description: 'outpatient, inpatient, screening or emergency',
+    },
+    {
+      name: 'sample_id',
+      required: false,
+      description: 'the lab’s own pseudonymous key of the person; stored only as a salted hash',
+    },
+  ],
+  // A Bundle is read by its structure, not by columns.
+  'fhir-bundle': [],
 };
 
 export const canonicalColumnNames = (kind: UploadKind): string[] => canonicalColumns[kind].map((c) => c.name);
@@ -79,6 +109,13 @@ export const rowErrorCodes = [
   'sd_not_positive',
   'invalid_timestamp',
   'invalid_unit',
+  'direct_identifier',
+  'unknown_analyte',
+  'implausible_value',
+  'invalid_sex',
+  'invalid_age',
+  'invalid_setting',
+  'invalid_fhir',
   'unit_not_convertible',
   'too_long',
   'duplicate_row',

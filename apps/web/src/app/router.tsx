@@ -50,6 +50,26 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
                 { path: paths.lab.peerReport.path, lazy: page(() => import('./routes/lab/peer-report.tsx')) },
                 { path: paths.lab.reportRow.path, lazy: page(() => import('./routes/lab/report-row.tsx')) },
                 {
+                  path: paths.lab.riStudies.path,
+                  lazy: page(() => import('./routes/lab/reference-intervals/studies.tsx')),
+                },
+                {
+                  path: paths.lab.riNewStudy.path,
+                  lazy: page(() => import('./routes/lab/reference-intervals/new-study.tsx')),
+                },
+                {
+                  path: paths.lab.riStudy.path,
+                  lazy: page(() => import('./routes/lab/reference-intervals/study.tsx')),
+                },
+                {
+                  path: paths.lab.riCurrent.path,
+                  lazy: page(() => import('./routes/lab/reference-intervals/current.tsx')),
+                },
+                {
+                  path: paths.lab.riVerifications.path,
+                  lazy: page(() => import('./routes/lab/reference-intervals/verifications.tsx')),
+                },
+                {
                   element: <RequireRole policy="labManagement" />,
                   children: [
                     {

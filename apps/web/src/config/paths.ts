@@ -61,6 +61,20 @@ export const paths = {
     },
     procedures: { path: '/lab/procedures', getHref: () => '/lab/procedures' },
     administration: { path: '/lab/administration', getHref: () => '/lab/administration' },
+    riStudies: { path: '/lab/reference-intervals', getHref: () => '/lab/reference-intervals' },
+    riNewStudy: { path: '/lab/reference-intervals/new', getHref: () => '/lab/reference-intervals/new' },
+    riStudy: {
+      path: '/lab/reference-intervals/studies/:studyId',
+      getHref: (studyId: string) => `/lab/reference-intervals/studies/${encodeURIComponent(studyId)}`,
+    },
+    riCurrent: {
+      path: '/lab/reference-intervals/current',
+      getHref: () => '/lab/reference-intervals/current',
+    },
+    riVerifications: {
+      path: '/lab/reference-intervals/verifications',
+      getHref: () => '/lab/reference-intervals/verifications',
+    },
   },
 
   // Network area: the coordinator.

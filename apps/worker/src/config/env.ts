@@ -1,5 +1,7 @@
 import { z } from 'zod';
 
+const DEVELOPMENT_SALT = 'plumbline-development-sample-key-salt';
+
 /** Worker configuration, read once at start-up; a bad value stops the process with a clear message. */
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
@@ -32,12 +34,25 @@ const envSchema = z.object({
    * can kill the process mid-transaction. 0 (the default) in every real deployment.
    */
   INGEST_HOLD_BEFORE_COMMIT_MS: z.coerce.number().int().min(0).default(0),
+  /**
+   * Secret salt of the hash that replaces the sample keys of patient files (equal keys of a lab give
+   * equal hashes, so repeats of a person can be dropped, and the key itself is never stored). Set your
+   * own in production; changing it makes earlier and later hashes incomparable.
+   */
+  SAMPLE_KEY_SALT: z.string().min(16).default(DEVELOPMENT_SALT),
 });
+const checkedEnvSchema = envSchema.refine(
+  (env) => env.NODE_ENV !== 'production' || env.SAMPLE_KEY_SALT !== DEVELOPMENT_SALT,
+  {
+    message: 'set your own SAMPLE_KEY_SALT in production',
+    path: ['SAMPLE_KEY_SALT'],
+  },
+);
 
 export type WorkerEnv = z.infer<typeof envSchema>;
 
 export function loadWorkerEnv(source: NodeJS.ProcessEnv = process.env): WorkerEnv {
-  const parsed = envSchema.safeParse(source);
+  const parsed = checkedEnvSchema.safeParse(source);
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`).join('\n');
     throw new Error(`Invalid worker configuration:\n${lines}`);

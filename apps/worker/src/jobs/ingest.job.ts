@@ -25,6 +25,8 @@ import { UnitConverter } from '../ingest/units.ts';
 import { ValuesBuffer } from '../ingest/values-buffer.ts';
 import { storeSummaries, storeValues, type StoreContext } from '../ingest/store.ts';
 import * as repo from '../ingest/ingest.repository.ts';
+import { processPatientUpload } from '../patients/patient-upload.job.ts';
+import { isPatientUploadKind } from '@plumbline/contracts';
 
 export type IngestDeps = {
   db: Database;
@@ -37,6 +39,8 @@ export type IngestDeps = {
   /** At most this many row errors are stored per upload (all are counted). */
   maxStoredErrors?: number;
   log?: (message: string) => void;
+  /** Salt of the hash that replaces a patient file's sample keys. */
+  sampleKeySalt?: string;
 };
 
 export type IngestOutcome = 'stored' | 'needs-review' | 'failed' | 'skipped';
@@ -73,6 +77,8 @@ export async function processUpload(
     const clamped = Math.max(0, Math.min(1, value));
     await Promise.all([reportProgress(clamped), repo.saveProgress(deps.db, uploadId, clamped)]);
   };
+
+  if (isPatientUploadKind(upload.kind)) return processPatientUpload(deps, upload, progress);
 
   const t0 = performance.now();
   let read: ReadResult;

@@ -1,6 +1,6 @@
-import { GetObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import { DeleteObjectCommand, GetObjectCommand, S3Client } from '@aws-sdk/client-s3';
 import { createReadStream } from 'node:fs';
-import { stat } from 'node:fs/promises';
+import { rm, stat } from 'node:fs/promises';
 import { join, resolve, sep } from 'node:path';
 import { Readable } from 'node:stream';
 import type { WorkerEnv } from '../config/env.ts';
@@ -8,6 +8,8 @@ import type { WorkerEnv } from '../config/env.ts';
 /** Reads uploaded files back by their storage key (the API writes them; see apps/api/src/storage). */
 export interface FileSource {
   open(key: string): Promise<Readable>;
+  /** Removes a file once it is processed (patient files are not kept); a missing file is no error. */
+  delete(key: string): Promise<void>;
 }
 
 export class LocalFileSource implements FileSource {
@@ -21,6 +23,12 @@ export class LocalFileSource implements FileSource {
       throw new Error(`storage key outside the storage directory: ${key}`);
     await stat(path);
     return createReadStream(path, { highWaterMark: 256 * 1024 });
+  }
+  async delete(key: string): Promise<void> {
+    const path = resolve(join(this.root, key));
+    if (!path.startsWith(this.root + sep))
+      throw new Error(`storage key outside the storage directory: ${key}`);
+    await rm(path, { force: true });
   }
 }
 
@@ -44,6 +52,9 @@ export class S3FileSource implements FileSource {
     const result = await this.client.send(new GetObjectCommand({ Bucket: this.bucket, Key: key }));
     if (!(result.Body instanceof Readable)) throw new Error(`S3 object ${key} has no readable body`);
     return result.Body;
+  }
+  async delete(key: string): Promise<void> {
+    await this.client.send(new DeleteObjectCommand({ Bucket: this.bucket, Key: key }));
   }
 }
 

@@ -14,7 +14,12 @@ import {
 import { labs } from './labs.ts';
 import { labApiTokens, users } from './users.ts';
 
-export const uploadKindEnum = pgEnum('upload_kind', ['qc-summary', 'qc-values']);
+export const uploadKindEnum = pgEnum('upload_kind', [
+  'qc-summary',
+  'qc-values',
+  'patient-results',
+  'fhir-bundle',
+]);
 export const uploadStatusEnum = pgEnum('upload_status', [
   'queued',
   'processing',

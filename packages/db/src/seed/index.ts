@@ -18,6 +18,7 @@ import {
 } from '../schema/index.ts';
 import { recordAudit } from '../queries/audit.ts';
 import { buildDemoNetwork, demoPassword, type DemoAccount } from './demo-network.ts';
+import { seedReferenceIntervals } from './reference-intervals.ts';
 
 export {
   buildDemoNetwork,
@@ -215,15 +216,27 @@ export async function seedDemoNetwork(db: Database, options: SeedOptions = {}): 
       ),
     );
 
-    await tx.insert(users).values(
-      plan.accounts.map((a, index) => ({
-        email: a.email,
-        name: a.name,
-        passwordHash: passwordHashes[index],
-        role: a.role,
-        labId: a.labCode ? lookup(labIds, a.labCode, 'lab') : null,
-      })),
-    );
+    const userRows = await tx
+      .insert(users)
+      .values(
+        plan.accounts.map((a, index) => ({
+          email: a.email,
+          name: a.name,
+          passwordHash: passwordHashes[index],
+          role: a.role,
+          labId: a.labCode ? lookup(labIds, a.labCode, 'lab') : null,
+        })),
+      )
+      .returning({ id: users.id, email: users.email });
+
+    // Reference intervals for the labs that have demo accounts.
+    const accountLabs = plan.accounts.filter((a) => a.labCode && a.role === 'supervisor');
+    const userIdByEmail = new Map(userRows.map((u) => [u.email, u.id]));
+    await seedReferenceIntervals(tx, {
+      labs: new Map(accountLabs.map((a) => [a.labCode!, lookup(labIds, a.labCode!, 'lab')])),
+      analytes: analyteIds,
+      supervisors: new Map(accountLabs.map((a) => [a.labCode!, userIdByEmail.get(a.email)!])),
+    });
 
     await recordAudit(tx, {
       kind: 'seed.demo-network',

@@ -132,6 +132,25 @@ describe('seeding the demo network into an empty database', () => {
     expect(await isDatabaseEmpty(scratch.db)).toBe(false);
   });
 
+  it('gives three labs routine results for sodium, potassium, creatinine and ALT, current intervals, studies and a verification', async () => {
+    const perLab = await query<{ lab_id: string; analytes: string[] }>(
+      `select p.lab_id, array_agg(distinct a.code order by a.code) as analytes
+         from patient_results p join analytes a on a.id = p.analyte_id group by p.lab_id`,
+    );
+    expect(perLab).toHaveLength(3);
+    for (const lab of perLab) expect(lab.analytes).toEqual(['ALT', 'CREA', 'K', 'NA']);
+    // A pathological share sits outside the current interval (invented data; common practice that
+    // routine results hold some): more than 2.5 % of sodium results fall outside 135–145.
+    const [na] = await query<{ share: number }>(
+      `select avg(case when value < 135 or value > 145 then 1.0 else 0 end)::float8 as share
+         from patient_results p join analytes a on a.id = p.analyte_id where a.code = 'NA'`,
+    );
+    expect(na.share).toBeGreaterThan(0.025);
+    expect(await count('current_intervals')).toBeGreaterThanOrEqual(12);
+    expect(await count('ri_studies')).toBeGreaterThanOrEqual(3);
+    expect(await count('interval_verifications')).toBe(3);
+  });
+
   it('when seeded a second time, then it refuses and leaves the data alone', async () => {
     await expect(seedDemoNetwork(scratch.db)).rejects.toThrow(/already holds/);
     expect(await count('labs')).toBe(summary.labs);

@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import {
   canonicalColumns,
   columnMappingProblems,
+  isPatientUploadKind,
   detectDecimalComma,
   detectDelimiter,
   firstLine,
@@ -257,6 +258,8 @@ export async function cancelUpload(
     const now = await repo.findUpload(deps.db, id);
     throw conflict(`This upload can no longer be cancelled: it is ${now?.status ?? row.status}.`);
   }
+  // A patient file is kept only while it waits for a decision.
+  if (isPatientUploadKind(row.kind)) await deps.storage.delete(row.storageKey).catch(() => {});
   return toSummary((await repo.findUpload(deps.db, id))!);
 }
 
@@ -271,6 +274,8 @@ export async function previewUpload(
   input: { fields: Record<string, string>; head: Buffer; complete: boolean; filename: string },
 ): Promise<UploadPreview> {
   const kind = parseInput(uploadKindSchema, input.fields.kind, 'kind');
+  if (kind === 'fhir-bundle')
+    throw badRequest('A FHIR Bundle has no columns to map: upload it directly with kind "fhir-bundle".');
   const labId = uploadLabFor(principal, input.fields.labId || undefined);
   const sniffed = sniffTextFile(input.head, input.complete);
   if ('problem' in sniffed) throw badRequest(`"${input.filename}": ${sniffed.problem}`);

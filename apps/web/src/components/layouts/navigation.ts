@@ -27,6 +27,14 @@ export const navigationSections: NavigationSection[] = [
     ],
   },
   {
+    title: 'Reference intervals',
+    items: [
+      { label: 'Studies', to: paths.lab.riStudies.getHref(), policy: 'lab', end: true },
+      { label: 'Current intervals', to: paths.lab.riCurrent.getHref(), policy: 'lab' },
+      { label: 'Verifications', to: paths.lab.riVerifications.getHref(), policy: 'lab' },
+    ],
+  },
+  {
     title: 'Lab management',
     items: [
       { label: 'Procedures', to: paths.lab.procedures.getHref(), policy: 'labManagement' },

@@ -14,6 +14,13 @@ import { errorMessage } from '../../../lib/form-errors.ts';
 import { formatDate, formatDateTime, formatPeriod } from '../../../utils/format.ts';
 import { downloadUploadsCsv, labOverviewKeys } from '../api/lab-overview-keys.ts';
 
+const uploadKindWords = {
+  'qc-summary': 'monthly summary',
+  'qc-values': 'daily values',
+  'patient-results': 'patient results',
+  'fhir-bundle': 'patient results (FHIR)',
+} as const;
+
 export type OverviewLinks = {
   uploads: string;
   report: (search?: Record<string, string | undefined>) => string;
@@ -302,7 +309,7 @@ function RecentUploads({
                 >
                   {upload.filename}
                   <span className="block text-xs font-normal text-slate-500">
-                    {upload.kind === 'qc-summary' ? 'monthly summary' : 'daily values'}
+                    {uploadKindWords[upload.kind]}
                   </span>
                 </th>
                 <td className="py-1.5 pr-2">

@@ -1,15 +1,19 @@
 import { useId } from 'react';
-import { canonicalColumns, uploadKinds, type UploadKind } from '@plumbline/contracts';
+import { canonicalColumns, qcUploadKinds, type UploadKind } from '@plumbline/contracts';
 
 export const uploadKindLabels: Record<UploadKind, string> = {
   'qc-summary': 'Monthly summary',
   'qc-values': 'Daily values',
+  'patient-results': 'Patient results (CSV)',
+  'fhir-bundle': 'Patient results (FHIR Bundle)',
 };
 
 const kindDescriptions: Record<UploadKind, string> = {
   'qc-summary': 'One row per procedure, control lot, level and month, with that month’s n, mean and SD.',
   'qc-values':
     'One row per control measurement. Plumbline works out the monthly figures and the multirule checks.',
+  'patient-results': 'De-identified patient results for reference-interval studies, one row per result.',
+  'fhir-bundle': 'A FHIR R4 Bundle of Observations with their Patients; identifiers are refused.',
 };
 
 /** The two file kinds as radio cards, each with the columns a file of that kind holds. */
@@ -27,7 +31,7 @@ export function UploadKindChoice({
     <fieldset disabled={disabled}>
       <legend className="text-sm font-semibold text-slate-900">What does the file hold?</legend>
       <div className="mt-2 grid gap-3 md:grid-cols-2">
-        {uploadKinds.map((kind) => {
+        {qcUploadKinds.map((kind) => {
           const id = `${name}-${kind}`;
           const checked = value === kind;
           return (
