@@ -28,6 +28,13 @@ const envSchema = z.object({
   QUEUE_PREFIX: z.string().min(1).default('plumbline'),
   WEB_DIST_DIR: z.string().optional(),
   PUBLIC_URL: z.string().default('http://127.0.0.1:5180'),
+  /** Sign-in throttling: failures allowed per account and per client address within the window. */
+  SIGNIN_FAILURES_PER_ACCOUNT: z.coerce.number().int().positive().default(5),
+  SIGNIN_FAILURES_PER_ADDRESS: z.coerce.number().int().positive().default(50),
+  SIGNIN_WINDOW_SECONDS: z.coerce.number().int().positive().default(15 * 60),
+  /** First lockout; it doubles with each further lockout within a day, up to the maximum. */
+  SIGNIN_LOCKOUT_SECONDS: z.coerce.number().int().positive().default(60),
+  SIGNIN_LOCKOUT_MAX_SECONDS: z.coerce.number().int().positive().default(3600),
 });
 
 export type Env = z.infer<typeof envSchema> & { JWT_SECRET: string };
