@@ -27,7 +27,12 @@ export function assertPasswordAllowed(password: string): void {
     throw new AppError(
       'bad_request',
       'Invalid body: password: this password is on a list of commonly used passwords; choose another',
-      [{ path: 'password', message: 'this password is on a list of commonly used passwords; choose another' }],
+      [
+        {
+          path: 'password',
+          message: 'this password is on a list of commonly used passwords; choose another',
+        },
+      ],
     );
   }
 }

@@ -31,7 +31,11 @@ const envSchema = z.object({
   /** Sign-in throttling: failures allowed per account and per client address within the window. */
   SIGNIN_FAILURES_PER_ACCOUNT: z.coerce.number().int().positive().default(5),
   SIGNIN_FAILURES_PER_ADDRESS: z.coerce.number().int().positive().default(50),
-  SIGNIN_WINDOW_SECONDS: z.coerce.number().int().positive().default(15 * 60),
+  SIGNIN_WINDOW_SECONDS: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(15 * 60),
   /** First lockout; it doubles with each further lockout within a day, up to the maximum. */
   SIGNIN_LOCKOUT_SECONDS: z.coerce.number().int().positive().default(60),
   SIGNIN_LOCKOUT_MAX_SECONDS: z.coerce.number().int().positive().default(3600),

@@ -1,6 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { randomUUID } from 'node:crypto';
 import { AppError } from '../errors/app-error.ts';
+import { clientErrorOf } from './client-errors.ts';
 
 export const requestId: RequestHandler = (req, res, next) => {
   const id = randomUUID();
@@ -23,6 +24,8 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
     appError = new AppError('bad_request', 'The request body is not valid JSON.');
   } else if (err?.type === 'entity.too.large') {
     appError = new AppError('payload_too_large', 'The request body is too large.');
+  } else if (clientErrorOf(err)) {
+    appError = clientErrorOf(err) as AppError;
   } else {
     // Never leak internals; log the cause with the request id so operators can find it.
     console.error(`[${requestIdValue}]`, err);

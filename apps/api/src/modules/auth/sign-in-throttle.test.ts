@@ -34,7 +34,8 @@ describe('sign-in throttling', () => {
     const user = await t.makeUser('analyst', (await t.makeLab()).id);
     const from = address();
     const statuses = new Set<number>();
-    for (let i = 0; i < 100; i += 1) statuses.add((await login(user.email, `wrong-password-${i}`, from)).status);
+    for (let i = 0; i < 100; i += 1)
+      statuses.add((await login(user.email, `wrong-password-${i}`, from)).status);
     expect([...statuses].sort()).toEqual([401, 429]);
     const res = await login(user.email, TEST_PASSWORD, from);
     expect(res.status).toBe(429);
@@ -47,7 +48,8 @@ describe('sign-in throttling', () => {
     const lab = await t.makeLab();
     const locked = await t.makeUser('analyst', lab.id);
     const other = await t.makeUser('analyst', lab.id);
-    for (let i = 0; i < t.env.SIGNIN_FAILURES_PER_ACCOUNT; i += 1) await login(locked.email, 'wrong', address());
+    for (let i = 0; i < t.env.SIGNIN_FAILURES_PER_ACCOUNT; i += 1)
+      await login(locked.email, 'wrong', address());
     expect((await login(locked.email, TEST_PASSWORD, address())).status).toBe(429);
     expect((await login(other.email, TEST_PASSWORD, address())).status).toBe(200);
   });

@@ -240,7 +240,9 @@ describe('invitations and lab users', () => {
       .send({ email: email(), name: 'Sam Example', role: 'analyst' });
     const token = invited.body.link.split('/invitations/')[1];
     // "1q2w3e4r5t6y" is among the most common passwords of 12 characters in the SecLists top-1M list.
-    const res = await request(t.app).post('/api/invitations/accept').send({ token, password: '1Q2W3E4R5T6Y' });
+    const res = await request(t.app)
+      .post('/api/invitations/accept')
+      .send({ token, password: '1Q2W3E4R5T6Y' });
     expect(res.status).toBe(400);
     expect(res.body.error.details[0]).toMatchObject({ path: 'password' });
     expect(res.body.error.message).toMatch(/commonly used/);
