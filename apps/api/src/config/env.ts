@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { resolveJwtSecret } from './jwt-secret.ts';
 
 /** Configuration read once at start-up; a bad value stops the process with a clear message. */
 const envSchema = z.object({
@@ -13,6 +14,8 @@ const envSchema = z.object({
     .int()
     .positive()
     .default(8 * 3600),
+  /** Local state of a development install (the generated JWT secret when JWT_SECRET is unset). */
+  DATA_DIR: z.string().default('.data'),
   STORAGE_DIR: z.string().default('.data/uploads'),
   S3_BUCKET: z.string().optional(),
   S3_ENDPOINT: z.string().optional(),
@@ -43,8 +46,6 @@ const envSchema = z.object({
 
 export type Env = z.infer<typeof envSchema> & { JWT_SECRET: string };
 
-const DEV_SECRET = 'plumbline-development-secret-not-for-production-use';
-
 export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
   const parsed = envSchema.safeParse(source);
   if (!parsed.success) {
@@ -52,10 +53,10 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
     throw new Error(`Invalid configuration:\n${lines}`);
   }
   const env = parsed.data;
-  if (!env.JWT_SECRET) {
-    if (env.NODE_ENV === 'production')
-      throw new Error('Invalid configuration:\n  JWT_SECRET: required in production');
-    return { ...env, JWT_SECRET: DEV_SECRET };
-  }
-  return env as Env;
+  const jwtSecret = resolveJwtSecret({
+    secret: env.JWT_SECRET,
+    nodeEnv: env.NODE_ENV,
+    dataDir: env.DATA_DIR,
+  });
+  return { ...env, JWT_SECRET: jwtSecret };
 }

@@ -1,16 +1,18 @@
 import { Router } from 'express';
 import type passport from 'passport';
-import { loginRequestSchema } from '@plumbline/contracts';
+import { loginRequestSchema, type LoginResponse } from '@plumbline/contracts';
 import type { AppDeps } from '../../deps.ts';
 import { parseInput } from '../../http/validate.ts';
 import { authenticate, principalOf } from '../../auth/authenticate.ts';
 import { AppError, forbidden } from '../../errors/app-error.ts';
 import { createSignInThrottle } from '../../auth/sign-in-throttle.ts';
+import { clearSessionCookies, setSessionCookies } from '../../auth/session-cookie.ts';
 import { currentUser, signIn, signOut } from './auth.service.ts';
 
 export function authRouter(deps: AppDeps, passportInstance: passport.PassportStatic): Router {
   const router = Router();
   const requireUser = authenticate(deps.db, passportInstance);
+  const cookieSettings = { secret: deps.env.JWT_SECRET, publicUrl: deps.env.PUBLIC_URL };
   const throttle = createSignInThrottle(deps.redis, deps.env.QUEUE_PREFIX, {
     failuresPerAccount: deps.env.SIGNIN_FAILURES_PER_ACCOUNT,
     failuresPerAddress: deps.env.SIGNIN_FAILURES_PER_ADDRESS,
@@ -31,9 +33,16 @@ export function authRouter(deps: AppDeps, passportInstance: passport.PassportSta
       );
     }
     try {
-      const session = await signIn(deps.db, input, deps.env.JWT_SECRET, deps.env.JWT_TTL_SECONDS);
+      const { token, expiresAt, user } = await signIn(
+        deps.db,
+        input,
+        deps.env.JWT_SECRET,
+        deps.env.JWT_TTL_SECONDS,
+      );
       await throttle.recordSuccess(keys);
-      res.json(session);
+      // The token travels only in the httpOnly cookie; the body tells the page who signed in.
+      setSessionCookies(req, res, cookieSettings, { token, expiresAt: new Date(expiresAt) });
+      res.json({ expiresAt, user } satisfies LoginResponse);
     } catch (err) {
       if (err instanceof AppError && err.code === 'unauthenticated') await throttle.recordFailure(keys);
       throw err;
@@ -44,6 +53,7 @@ export function authRouter(deps: AppDeps, passportInstance: passport.PassportSta
     const principal = principalOf(req);
     if (principal.kind !== 'user') throw forbidden();
     await signOut(deps.db, principal);
+    clearSessionCookies(req, res, deps.env.PUBLIC_URL);
     res.status(204).end();
   });
 

@@ -10,7 +10,7 @@ export async function signIn(
   input: { email: string; password: string } & LoginRequest,
   jwtSecret: string,
   ttlSeconds: number,
-): Promise<LoginResponse> {
+): Promise<LoginResponse & { token: string; expiresAt: string }> {
   const [row] = await db
     .select({ user: users, labActive: labs.active })
     .from(users)
