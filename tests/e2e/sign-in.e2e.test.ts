@@ -40,6 +40,14 @@ describe.skipIf(!chromiumAvailable())('signing in through the browser', () => {
         expect(await nav.getByRole('link', { name: home.absent, exact: true }).count()).toBe(0);
         expect(await page.getByText(/do not replace, the laboratory director/).count()).toBeGreaterThan(0);
         await snap(page, `home-${home.role}`);
+        // The session is an httpOnly cookie: page scripts cannot read it and nothing stores it.
+        const cookies = await browser.context.cookies();
+        const session = cookies.find((c) => c.name === 'plumbline_session');
+        expect(session).toMatchObject({ httpOnly: true, sameSite: 'Strict' });
+        expect(await page.evaluate(() => document.cookie)).not.toContain('plumbline_session');
+        const stored = await page.evaluate(() => JSON.stringify({ ...localStorage, ...sessionStorage }));
+        expect(stored).not.toContain(session!.value);
+        expect(browser.cspViolations).toEqual([]);
       } finally {
         await browser.close();
       }

@@ -87,7 +87,7 @@ describe('sign-in form', () => {
     expect(email.getAttribute('aria-invalid')).toBe('true');
   });
 
-  it('when the credentials are accepted, then the session starts with the token and the e-mail was sent in lower case', async () => {
+  it('when the credentials are accepted, then the session starts for the user and the e-mail was sent in lower case', async () => {
     const session = buildSession('analyst');
     const api = mockApi({ 'POST /api/auth/login': { status: 200, body: session } });
     const { user, email, password, submit } = renderForm();
@@ -96,7 +96,7 @@ describe('sign-in form', () => {
     await user.type(password, 'plumbline-demo');
     await user.click(submit);
 
-    await waitFor(() => expect(getSession()?.token).toBe(session.token));
+    await waitFor(() => expect(getSession()?.user.id).toBe(session.user.id));
     expect(api.requests[0]?.body).toEqual({
       email: 'analyst@kestrel-vale.example',
       password: 'plumbline-demo',
