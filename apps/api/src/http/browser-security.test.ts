@@ -43,7 +43,7 @@ describe('session cookie', () => {
       const res = await request(https.app)
         .post('/api/auth/login')
         .send({ email: user.email, password: TEST_PASSWORD });
-      for (const cookie of [].concat(res.headers['set-cookie'] ?? [])) expect(cookie).toMatch(/;\s*Secure/i);
+      for (const cookie of ([] as string[]).concat(res.headers['set-cookie'] ?? [])) expect(cookie).toMatch(/;\s*Secure/i);
     } finally {
       await https.close();
     }
