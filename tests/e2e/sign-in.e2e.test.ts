@@ -44,8 +44,9 @@ describe.skipIf(!chromiumAvailable())('signing in through the browser', () => {
         const cookies = await browser.context.cookies();
         const session = cookies.find((c) => c.name === 'plumbline_session');
         expect(session).toMatchObject({ httpOnly: true, sameSite: 'Strict' });
-        expect(await page.evaluate(() => document.cookie)).not.toContain('plumbline_session');
-        const stored = await page.evaluate(() => JSON.stringify({ ...localStorage, ...sessionStorage }));
+        // Evaluated in the page (a string, as this project's tests are type-checked without the DOM).
+        expect(await page.evaluate('document.cookie')).not.toContain('plumbline_session');
+        const stored = await page.evaluate('JSON.stringify({ ...localStorage, ...sessionStorage })');
         expect(stored).not.toContain(session!.value);
         expect(browser.cspViolations).toEqual([]);
       } finally {
