@@ -9,6 +9,7 @@ import { corsForPublicUrl, securityHeaders } from './http/security-headers.ts';
 import { requireCsrf } from './auth/session-cookie.ts';
 import { authRouter } from './modules/auth/auth.router.ts';
 import { healthRouter } from './modules/health/health.router.ts';
+import { openApiRouter } from './openapi/openapi.router.ts';
 import { labsRouter } from './modules/labs/labs.router.ts';
 import { uploadsRouter } from './modules/uploads/uploads.router.ts';
 import { labTokensRouter } from './modules/lab-tokens/lab-tokens.router.ts';
@@ -45,6 +46,7 @@ export function createApp(deps: AppDeps): Express {
   api.use(express.json({ limit: '2mb' }));
   api.use(passportInstance.initialize());
   api.use(healthRouter(deps));
+  api.use(openApiRouter(deps));
   api.use(authRouter(deps, passportInstance));
   api.use(labsRouter(deps, requireUser));
   api.use(uploadsRouter(deps, { requireUser, requireUploader }));

@@ -64,7 +64,9 @@ export function requireCsrf(secret: string): RequestHandler {
     const ok = sent.length === expected.length && timingSafeEqual(Buffer.from(sent), Buffer.from(expected));
     if (!ok) {
       return next(
-        forbidden('This request is missing its CSRF token (X-CSRF-Token header). Reload the page and try again.'),
+        forbidden(
+          'This request is missing its CSRF token (X-CSRF-Token header). Reload the page and try again.',
+        ),
       );
     }
     next();

@@ -35,11 +35,15 @@ describe('JWT secret', () => {
   });
 
   it('when JWT_SECRET is unset in production, then start-up is refused with a clear message', () => {
-    expect(() => loadEnv({ NODE_ENV: 'production', DATA_DIR: dir('e') })).toThrow(/JWT_SECRET: required in production/);
+    expect(() => loadEnv({ NODE_ENV: 'production', DATA_DIR: dir('e') })).toThrow(
+      /JWT_SECRET: required in production/,
+    );
   });
 
   it('when JWT_SECRET is given, then it is used and no file is written', () => {
     const secret = 's'.repeat(40);
-    expect(loadEnv({ NODE_ENV: 'production', JWT_SECRET: secret, DATA_DIR: dir('f') }).JWT_SECRET).toBe(secret);
+    expect(loadEnv({ NODE_ENV: 'production', JWT_SECRET: secret, DATA_DIR: dir('f') }).JWT_SECRET).toBe(
+      secret,
+    );
   });
 });

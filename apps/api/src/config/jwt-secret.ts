@@ -29,6 +29,7 @@ export function resolveJwtSecret(input: {
   // A file left readable by others (e.g. written by an older start script) is tightened.
   if ((statSync(file).mode & 0o077) !== 0) chmodSync(file, 0o600);
   const secret = readFileSync(file, 'utf8').trim();
-  if (secret.length < 32) throw new Error(`Invalid configuration:\n  ${file}: the secret is shorter than 32 characters`);
+  if (secret.length < 32)
+    throw new Error(`Invalid configuration:\n  ${file}: the secret is shorter than 32 characters`);
   return secret;
 }

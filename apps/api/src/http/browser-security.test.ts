@@ -13,10 +13,16 @@ afterAll(async () => t?.close());
 async function signInWithCookies() {
   const lab = await t.makeLab();
   const user = await t.makeUser('supervisor', lab.id);
-  const res = await request(t.app).post('/api/auth/login').send({ email: user.email, password: TEST_PASSWORD });
+  const res = await request(t.app)
+    .post('/api/auth/login')
+    .send({ email: user.email, password: TEST_PASSWORD });
   expect(res.status).toBe(200);
   const setCookies = ([] as string[]).concat(res.headers['set-cookie'] ?? []);
-  const value = (name: string) => setCookies.find((c) => c.startsWith(`${name}=`))?.split(';')[0].split('=')[1] ?? '';
+  const value = (name: string) =>
+    setCookies
+      .find((c) => c.startsWith(`${name}=`))
+      ?.split(';')[0]
+      .split('=')[1] ?? '';
   return { res, user, lab, setCookies, session: value(SESSION_COOKIE), csrf: value(CSRF_COOKIE) };
 }
 
@@ -37,13 +43,16 @@ describe('session cookie', () => {
   });
 
   it('when the public address is HTTPS, then the cookies are Secure', async () => {
-    const https = await createTestApp('browsersecurityhttps', { env: { PUBLIC_URL: 'https://app.plumbline.test' } });
+    const https = await createTestApp('browsersecurityhttps', {
+      env: { PUBLIC_URL: 'https://app.plumbline.test' },
+    });
     try {
       const user = await https.makeUser('coordinator', null);
       const res = await request(https.app)
         .post('/api/auth/login')
         .send({ email: user.email, password: TEST_PASSWORD });
-      for (const cookie of ([] as string[]).concat(res.headers['set-cookie'] ?? [])) expect(cookie).toMatch(/;\s*Secure/i);
+      for (const cookie of ([] as string[]).concat(res.headers['set-cookie'] ?? []))
+        expect(cookie).toMatch(/;\s*Secure/i);
     } finally {
       await https.close();
     }
@@ -54,7 +63,10 @@ describe('session cookie', () => {
     const cookie = `${SESSION_COOKIE}=${session}; ${CSRF_COOKIE}=${csrf}`;
     expect((await request(t.app).get('/api/me').set('Cookie', cookie)).status).toBe(200);
     const body = { name: 'Middleware on the analyser bench' };
-    const without = await request(t.app).post(`/api/labs/${lab.id}/api-tokens`).set('Cookie', cookie).send(body);
+    const without = await request(t.app)
+      .post(`/api/labs/${lab.id}/api-tokens`)
+      .set('Cookie', cookie)
+      .send(body);
     expect(without.status).toBe(403);
     expect(without.body.error.message).toMatch(/CSRF/);
     const wrong = await request(t.app)
@@ -83,7 +95,9 @@ describe('session cookie', () => {
   });
 
   it('when a lab API token is put in the session cookie, then it is not accepted', async () => {
-    const res = await request(t.app).get('/api/uploads').set('Cookie', `${SESSION_COOKIE}=plb_${'a'.repeat(43)}`);
+    const res = await request(t.app)
+      .get('/api/uploads')
+      .set('Cookie', `${SESSION_COOKIE}=plb_${'a'.repeat(43)}`);
     expect(res.status).toBe(401);
   });
 });

@@ -10,20 +10,20 @@ type Layer = {
 /** Every route registered on the Express app, as `METHOD /api/path` (the API router is mounted at /api). */
 export function expressRoutes(app: Express): RouteEntry[] {
   const out: RouteEntry[] = [];
-  const walk = (stack: Layer[]) => {
+  const walk = (stack: Layer[], inApi: boolean) => {
     for (const layer of stack) {
-      if (layer.route) {
+      if (layer.route && inApi) {
         for (const method of Object.keys(layer.route.methods)) {
           out.push({ method: method.toUpperCase(), path: `/api${layer.route.path}` });
         }
       } else if (layer.handle?.stack) {
-        walk(layer.handle.stack);
+        walk(layer.handle.stack, true);
       }
     }
   };
-  walk((app as unknown as { router: { stack: Layer[] } }).router.stack);
-  // The web app's fall-back route is not part of the API.
-  return out.filter((r) => r.path.startsWith('/api/'));
+  // Routes directly on the app (the web app's fall-back) are not part of the API.
+  walk((app as unknown as { router: { stack: Layer[] } }).router.stack, false);
+  return out;
 }
 
 /** The `:name` parameters of an Express path. */

@@ -4,6 +4,20 @@ import { randomUUID } from 'node:crypto';
 import { createTestApp, type TestApp } from '../testing/test-app.ts';
 import { expressRoutes, pathParams, type RouteEntry } from '../testing/routes.ts';
 
+/** The routes the OpenAPI document describes, in Express form (`/api/labs/:labId`). */
+async function documentedRoutes(): Promise<RouteEntry[]> {
+  const res = await request(t.app).get('/api/openapi.json');
+  expect(res.status).toBe(200);
+  const paths = res.body.paths as Record<string, Record<string, unknown>>;
+  return Object.entries(paths).flatMap(([path, item]) =>
+    Object.keys(item).map((method) => ({
+      method: method.toUpperCase(),
+      path: `/api${path.replace(/\{(\w+)\}/g, ':$1')}`,
+    })),
+  );
+}
+const key = (r: RouteEntry) => `${r.method} ${r.path}`;
+
 let t: TestApp;
 let callers: { name: string; auth: string; labId: string }[];
 beforeAll(async () => {
@@ -86,10 +100,52 @@ function send(method: string, path: string, auth: string, body?: unknown) {
   return body === undefined ? req : req.send(body as object);
 }
 
+describe('route list', () => {
+  it('when the API serves a route, then the OpenAPI document describes it, and the other way round', async () => {
+    const served = expressRoutes(t.app).map(key).sort();
+    const documented = (await documentedRoutes()).map(key).sort();
+    expect(documented.filter((r) => !served.includes(r))).toEqual([]);
+    expect(served.filter((r) => !documented.includes(r))).toEqual([]);
+    expect((await request(t.app).get('/api/openapi.json')).body.openapi).toBe('3.1.0');
+  });
+
+  it('when the reference page is opened, then it and its script and style come from the API itself', async () => {
+    const page = await request(t.app).get('/api/reference');
+    expect(page.status).toBe(200);
+    expect(page.text).not.toMatch(/https?:\/\//);
+    expect(page.text).toMatch(/src="reference\.js"/);
+    expect((await request(t.app).get('/api/reference.js')).status).toBe(200);
+    expect((await request(t.app).get('/api/reference.css')).status).toBe(200);
+  });
+});
+
+describe('lab isolation on every route', () => {
+  it("when a supervisor calls any lab route with another lab's id, then nothing is answered with 2xx", async () => {
+    const other = await t.makeLab();
+    const own = await t.makeLab();
+    const supervisor = await t.makeUser('supervisor', own.id);
+    const routes = (await documentedRoutes()).filter(
+      (r) => r.path.includes(':labId') && r.path !== '/api/labs/:labId',
+    );
+    expect(routes.length).toBeGreaterThan(25);
+    const leaks: string[] = [];
+    for (const route of routes) {
+      const path = fill(route, other.id);
+      const res = await send(route.method, path, supervisor.auth, route.method === 'GET' ? undefined : {});
+      if (res.status < 300) leaks.push(`${route.method} ${path} → ${res.status}`);
+    }
+    const own200 = await request(t.app).get(`/api/labs/${own.id}`).set('Authorization', supervisor.auth);
+    const other404 = await request(t.app).get(`/api/labs/${other.id}`).set('Authorization', supervisor.auth);
+    expect([own200.status, other404.status]).toEqual([200, 404]);
+    console.log(`lab isolation probes: ${routes.length + 2} requests, ${leaks.length} leaks`);
+    expect(leaks).toEqual([]);
+  });
+});
+
 describe('malformed input on every route', () => {
   it('when path parameters, query strings or bodies are malformed, then every answer is 4xx with an error body, never 5xx', async () => {
     // Signing out ends the caller's session, so it is probed last.
-    const routes = expressRoutes(t.app).sort(
+    const routes = (await documentedRoutes()).sort(
       (a, b) => Number(a.path === '/api/auth/logout') - Number(b.path === '/api/auth/logout'),
     );
     expect(routes.length).toBeGreaterThan(50);
