@@ -6,6 +6,8 @@ import type { AppDeps } from './deps.ts';
 import { configurePassport, authenticate } from './auth/authenticate.ts';
 import { errorHandler, notFoundHandler, requestId } from './http/error-handler.ts';
 import { corsForPublicUrl, securityHeaders } from './http/security-headers.ts';
+import { requestLog } from './http/request-log.ts';
+import { createLogger } from '@plumbline/db/logging';
 import { requireCsrf } from './auth/session-cookie.ts';
 import { authRouter } from './modules/auth/auth.router.ts';
 import { healthRouter } from './modules/health/health.router.ts';
@@ -40,6 +42,7 @@ export function createApp(deps: AppDeps): Express {
   app.use(securityHeaders(deps.env.PUBLIC_URL));
   const api = Router();
   api.use(requestId);
+  api.use(requestLog(deps.logger ?? createLogger('api')));
   api.use(corsForPublicUrl(deps.env.PUBLIC_URL));
   api.use(cookieParser());
   api.use(requireCsrf(deps.env.JWT_SECRET));

@@ -1,5 +1,6 @@
 import { Redis } from 'ioredis';
 import { createDb } from '@plumbline/db';
+import { createLogger } from '@plumbline/db/logging';
 import { loadWorkerEnv } from './config/env.ts';
 import { createFileSource } from './storage/file-source.ts';
 import { startIngestWorker } from './queues/ingest.queue.ts';
@@ -7,7 +8,8 @@ import { startIngestWorker } from './queues/ingest.queue.ts';
 const env = loadWorkerEnv();
 const { db, pool } = createDb(env.DATABASE_URL);
 const connection = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
-const log = (message: string) => console.log(`worker: ${message}`);
+const logger = createLogger('worker');
+const log = (message: string) => logger.info(message);
 
 const ingest = startIngestWorker(
   {

@@ -15,7 +15,7 @@ export const notFoundHandler: RequestHandler = (req, _res, next) => {
 };
 
 /** The central error handler: every failure leaves as `{ error: { code, message, details?, requestId } }`. */
-export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
+export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   const requestIdValue = res.locals.requestId as string | undefined;
   let appError: AppError;
   if (err instanceof AppError) {
@@ -28,7 +28,7 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
     appError = clientErrorOf(err) as AppError;
   } else {
     // Never leak internals; log the cause with the request id so operators can find it.
-    console.error(`[${requestIdValue}]`, err);
+    req.log.error({ err }, 'request failed with an unexpected error');
     appError = new AppError('internal', 'Something went wrong on our side. Please try again.');
   }
   if (res.headersSent) return;

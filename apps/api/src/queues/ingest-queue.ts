@@ -1,6 +1,9 @@
 import { Queue } from 'bullmq';
 import type { Redis } from 'ioredis';
 import { INGEST_QUEUE_NAME, ingestJobId, type IngestJob } from '@plumbline/contracts';
+import { createLogger } from '@plumbline/db/logging';
+
+const log = createLogger('api');
 
 /** Hands uploads to the ingest worker. PostgreSQL stays the source of truth: a lost job is re-enqueued by the worker. */
 export interface IngestQueue {
@@ -33,8 +36,9 @@ export function createIngestQueue(connection: Redis, prefix: string): IngestQueu
       const timeout = new Promise<'timeout'>((resolve) => setTimeout(() => resolve('timeout'), 3000).unref());
       const outcome = await Promise.race([adding, timeout]);
       if (outcome !== 'added') {
-        console.warn(
-          `api: could not enqueue upload ${uploadId} now (${String(outcome)}); the worker will pick it up`,
+        log.warn(
+          { uploadId, err: outcome === 'timeout' ? undefined : outcome },
+          'could not enqueue the upload now; the worker will pick it up',
         );
       }
     },
