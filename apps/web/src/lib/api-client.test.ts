@@ -1,5 +1,4 @@
 import { describe, expect, it, vi } from 'vitest';
-import { z } from 'zod';
 import { meResponseSchema } from '@plumbline/contracts';
 import { buildMe, buildSession } from '../testing/data.ts';
 import { mockApi } from '../testing/mock-api.ts';
