@@ -64,6 +64,28 @@ describe('sign-in form', () => {
     expect(getSession()).toBeNull();
   });
 
+  it('when sign-in is locked out after failed attempts (429), then the wait is shown and no session starts', async () => {
+    mockApi({
+      'POST /api/auth/login': {
+        status: 429,
+        body: {
+          error: {
+            code: 'too_many_requests',
+            message: 'Too many failed sign-in attempts. Try again in 2 minutes.',
+          },
+        },
+      },
+    });
+    const { user, email, password, submit } = renderForm();
+
+    await user.type(email, 'analyst@kestrel-vale.example');
+    await user.type(password, 'plumbline-demo');
+    await user.click(submit);
+
+    expect(await screen.findByText(/Try again in 2 minutes/)).toBeTruthy();
+    expect(getSession()).toBeNull();
+  });
+
   it('when the API rejects a field, then its message appears beside that field', async () => {
     mockApi({
       'POST /api/auth/login': {
