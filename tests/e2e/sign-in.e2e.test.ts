@@ -69,4 +69,18 @@ describe.skipIf(!chromiumAvailable())('signing in through the browser', () => {
       await browser.close();
     }
   });
+
+  it('when the API reference page is opened, then it lists the routes under the strict CSP', async () => {
+    const browser = await launchBrowser();
+    try {
+      const { page } = browser;
+      await page.goto(`${server.url}/api/reference`);
+      await page.getByText('/labs/{labId}/peer-report', { exact: true }).first().waitFor();
+      expect(await page.getByRole('heading', { name: 'Peer groups' }).count()).toBe(1);
+      await snap(page, 'api-reference');
+      expect(browser.cspViolations).toEqual([]);
+    } finally {
+      await browser.close();
+    }
+  });
 });

@@ -14,6 +14,9 @@ export const CSRF_COOKIE = 'plumbline_csrf';
 export const CSRF_HEADER = 'x-csrf-token';
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
+// Public routes do not act on a session, so a stale cookie (e.g. after the secret changed) must not
+// block signing in again or accepting an invitation.
+const PUBLIC_WRITES = new Set(['/auth/login', '/invitations/accept']);
 
 export const csrfTokenFor = (secret: string, sessionToken: string) =>
   createHmac('sha256', secret).update(`csrf:${sessionToken}`).digest('base64url');
@@ -56,7 +59,7 @@ export function sessionTokenFromCookie(req: Request): string | null {
 /** Refuses a cookie-authenticated state-changing request whose CSRF header does not match its session. */
 export function requireCsrf(secret: string): RequestHandler {
   return (req, _res, next) => {
-    if (SAFE_METHODS.has(req.method)) return next();
+    if (SAFE_METHODS.has(req.method) || PUBLIC_WRITES.has(req.path)) return next();
     const session = sessionTokenFromCookie(req);
     if (!session) return next();
     const sent = req.get(CSRF_HEADER) ?? '';

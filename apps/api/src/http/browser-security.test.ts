@@ -83,6 +83,15 @@ describe('session cookie', () => {
     expect(right.status).toBe(201);
   });
 
+  it('when a stale session cookie is still in the browser, then signing in again needs no CSRF token', async () => {
+    const { user } = await signInWithCookies();
+    const res = await request(t.app)
+      .post('/api/auth/login')
+      .set('Cookie', `${SESSION_COOKIE}=stale.token.value; ${CSRF_COOKIE}=stale`)
+      .send({ email: user.email, password: TEST_PASSWORD });
+    expect(res.status).toBe(200);
+  });
+
   it('when the user signs out with the cookie, then the cookies are cleared and the session is refused', async () => {
     const { session, csrf } = await signInWithCookies();
     const cookie = `${SESSION_COOKIE}=${session}; ${CSRF_COOKIE}=${csrf}`;
