@@ -1,5 +1,5 @@
 import type { Redis } from 'ioredis';
-import { RateLimiterRedis, RateLimiterRes } from 'rate-limiter-flexible';
+import { RateLimiterMemory, RateLimiterRedis, RateLimiterRes } from 'rate-limiter-flexible';
 
 export type SignInThrottleSettings = {
   /** Failed sign-ins allowed per account (e-mail address) within the window before a lockout. */
@@ -19,8 +19,16 @@ export type SignInKeys = { account: string; address: string };
  * instances. Reaching the limit locks the key out with exponential backoff.
  */
 export function createSignInThrottle(redis: Redis, keyPrefix: string, settings: SignInThrottleSettings) {
+  // While Redis is away, each instance counts in its own memory instead of waiting for it.
   const limiter = (name: string, points: number, duration: number) =>
-    new RateLimiterRedis({ storeClient: redis, keyPrefix: `${keyPrefix}:signin:${name}`, points, duration });
+    new RateLimiterRedis({
+      storeClient: redis,
+      keyPrefix: `${keyPrefix}:signin:${name}`,
+      points,
+      duration,
+      rejectIfRedisNotReady: true,
+      insuranceLimiter: new RateLimiterMemory({ keyPrefix: `signin:${name}`, points, duration }),
+    });
   const failures = {
     account: limiter('account', settings.failuresPerAccount, settings.windowSeconds),
     address: limiter('address', settings.failuresPerAddress, settings.windowSeconds),

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import request from 'supertest';
 import { randomBytes } from 'node:crypto';
+import { Redis } from 'ioredis';
 import { createTestApp, TEST_PASSWORD, type TestApp } from '../../testing/test-app.ts';
 import { createSignInThrottle } from '../../auth/sign-in-throttle.ts';
 
@@ -106,5 +107,27 @@ describe('lockout backoff', () => {
     }
     // 60 s, then doubled to 120 s, then capped at 200 s (the settings above).
     expect(waits).toEqual([60, 120, 200]);
+  });
+});
+
+describe('Redis away', () => {
+  it('when Redis is not reachable, then failures are counted in memory and the lockout still applies', async () => {
+    // Never connected: the limiter must not wait for it.
+    const away = new Redis('redis://127.0.0.1:1', { lazyConnect: true, maxRetriesPerRequest: null });
+    try {
+      const throttle = createSignInThrottle(away, 'away', {
+        failuresPerAccount: 3,
+        failuresPerAddress: 1000,
+        windowSeconds: 900,
+        lockoutSeconds: 60,
+        lockoutMaxSeconds: 3600,
+      });
+      const keys = { account: 'someone@test.example', address: '10.0.0.2' };
+      expect(await throttle.lockedFor(keys)).toBe(0);
+      for (let i = 0; i < 3; i += 1) await throttle.recordFailure(keys);
+      expect(await throttle.lockedFor(keys)).toBe(60);
+    } finally {
+      away.disconnect();
+    }
   });
 });
