@@ -1,6 +1,11 @@
+import { AsyncLocalStorage } from 'node:async_hooks';
 import { pino, type DestinationStream, type Logger } from 'pino';
 
 export type { Logger };
+
+/** Ids added to every log line written while handling one request or one job. */
+export type LogContext = { requestId?: string; uploadId?: string };
+export const logContext = new AsyncLocalStorage<LogContext>();
 
 /**
  * Structured JSON logs for the API and the worker. Nothing secret or personal may reach a log line:
@@ -40,6 +45,7 @@ export function createLogger(
       level,
       redact: { paths: redactPaths, censor: '[redacted]' },
       serializers: { err: errorForLog },
+      mixin: () => ({ ...logContext.getStore() }),
       // Plain messages are scrubbed too: worker messages quote upload outcomes and error texts.
       hooks: {
         logMethod(args, method) {

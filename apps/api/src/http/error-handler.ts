@@ -2,12 +2,14 @@ import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { randomUUID } from 'node:crypto';
 import { AppError } from '../errors/app-error.ts';
 import { clientErrorOf } from './client-errors.ts';
+import { logContext } from '@plumbline/db/logging';
 
 export const requestId: RequestHandler = (req, res, next) => {
   const id = randomUUID();
   res.locals.requestId = id;
   res.setHeader('x-request-id', id);
-  next();
+  // Everything this request logs or enqueues carries its id (see the ingest queue and the worker).
+  logContext.run({ requestId: id }, next);
 };
 
 export const notFoundHandler: RequestHandler = (req, _res, next) => {

@@ -2,7 +2,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { Writable } from 'node:stream';
 import { randomBytes } from 'node:crypto';
-import { createLogger } from '@plumbline/db/logging';
+import { Queue } from 'bullmq';
+import { INGEST_QUEUE_NAME, ingestJobId } from '@plumbline/contracts';
+import { createLogger, logContext } from '@plumbline/db/logging';
 import { createTestApp, TEST_PASSWORD, type TestApp } from '../testing/test-app.ts';
 
 // Every log line of this app goes here, at the most detailed level.
@@ -109,6 +111,31 @@ describe('logs carry no secrets', () => {
       name: 'api',
       req: { id, method: 'GET', path: '/api/health' },
       res: { statusCode: 200 },
+    });
+  });
+
+  it('when an upload is enqueued, then its job carries the request id, and lines logged for the job carry both ids', async () => {
+    const lab = await t.makeLab();
+    const analyst = await t.makeUser('analyst', lab.id);
+    const res = await request(t.app)
+      .post('/api/uploads')
+      .set('Authorization', analyst.auth)
+      .field('kind', 'qc-values')
+      .attach('file', Buffer.from('procedure,value\nP1,1\n'), 'month.csv');
+    expect(res.status).toBe(202);
+    const queue = new Queue(INGEST_QUEUE_NAME, { connection: t.deps.redis, prefix: t.queuePrefix });
+    try {
+      const job = await queue.getJob(ingestJobId(res.body.id, 'initial'));
+      expect(job?.data).toEqual({ uploadId: res.body.id, requestId: res.headers['x-request-id'] });
+    } finally {
+      await queue.close();
+    }
+    const before = lines.length;
+    logContext.run({ requestId: 'request-1', uploadId: res.body.id }, () => logger.info('stored'));
+    expect(JSON.parse(lines[before])).toMatchObject({
+      requestId: 'request-1',
+      uploadId: res.body.id,
+      msg: 'stored',
     });
   });
 

@@ -1,7 +1,7 @@
 import { Queue } from 'bullmq';
 import type { Redis } from 'ioredis';
 import { INGEST_QUEUE_NAME, ingestJobId, type IngestJob } from '@plumbline/contracts';
-import { createLogger } from '@plumbline/db/logging';
+import { createLogger, logContext } from '@plumbline/db/logging';
 
 const log = createLogger('api');
 
@@ -18,7 +18,7 @@ export function createIngestQueue(connection: Redis, prefix: string): IngestQueu
       const adding: Promise<unknown> = queue
         .add(
           'ingest',
-          { uploadId },
+          { uploadId, requestId: logContext.getStore()?.requestId },
           {
             jobId: ingestJobId(uploadId, phase),
             attempts: 3,
