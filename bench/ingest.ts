@@ -39,6 +39,7 @@ import {
 } from '@plumbline/db';
 import { createScratchDatabase, type ScratchDatabase } from '@plumbline/db/testing';
 import { createApp } from '../apps/api/src/app.ts';
+import { createLogger } from '@plumbline/db/logging';
 import { loadEnv } from '../apps/api/src/config/env.ts';
 import { LocalFileStorage } from '../apps/api/src/storage/local-storage.ts';
 import { createIngestQueue } from '../apps/api/src/queues/ingest-queue.ts';
@@ -272,7 +273,15 @@ async function main() {
   });
   const ingestQueue = createIngestQueue(redis, queuePrefix);
   cleanups.push(() => ingestQueue.close());
-  const app = createApp({ env, db, redis, storage: new LocalFileStorage(env.STORAGE_DIR), ingestQueue });
+  const app = createApp({
+    env,
+    db,
+    redis,
+    storage: new LocalFileStorage(env.STORAGE_DIR),
+    ingestQueue,
+    // The request log would drown the figures; the bench prints what it measures itself.
+    logger: createLogger('api', { level: process.env.BENCH_DEBUG ? 'info' : 'silent' }),
+  });
   const server = app.listen(0, '127.0.0.1');
   cleanups.push(() => {
     server.closeAllConnections();
@@ -315,7 +324,7 @@ async function main() {
   cleanups.push(() => Promise.all(workers.map((w) => stopProcess(w.child))));
   const workerOutput = () => workers.map((w) => w.output).join('\n');
   for (const w of workers) {
-    while (!/worker: ready/.test(w.output)) {
+    while (!/"name":"worker"[^\n]*"msg":"ready/.test(w.output)) {
       if (w.child.exitCode !== null) throw new Error(`worker exited:\n${w.output}`);
       await new Promise((r) => setTimeout(r, 50));
     }

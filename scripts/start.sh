@@ -13,7 +13,8 @@ start_services
 
 mkdir -p .data
 if [ -z "${JWT_SECRET:-}" ]; then
-  [ -s .data/jwt-secret ] || node -e "process.stdout.write(require('crypto').randomBytes(48).toString('hex'))" > .data/jwt-secret
+  [ -s .data/jwt-secret ] || (umask 077 && node -e "process.stdout.write(require('crypto').randomBytes(48).toString('hex'))" > .data/jwt-secret)
+  chmod 600 .data/jwt-secret
   JWT_SECRET="$(cat .data/jwt-secret)"; export JWT_SECRET
 fi
 export STORAGE_DIR="${STORAGE_DIR:-$ROOT/.data/uploads}"

@@ -188,6 +188,8 @@ describe.skipIf(!chromiumAvailable())('reviewing the month through the browser',
       await page.getByLabel('Add a corrective-action comment').fill(COMMENT);
       await page.getByRole('button', { name: 'Save comment' }).click();
       await page.getByRole('list', { name: 'Comments' }).getByText(COMMENT).waitFor();
+      // The charts draw under the strict Content Security Policy without any exception.
+      expect(scientist.cspViolations).toEqual([]);
     } finally {
       await scientist.close();
     }

@@ -40,6 +40,15 @@ describe.skipIf(!chromiumAvailable())('signing in through the browser', () => {
         expect(await nav.getByRole('link', { name: home.absent, exact: true }).count()).toBe(0);
         expect(await page.getByText(/do not replace, the laboratory director/).count()).toBeGreaterThan(0);
         await snap(page, `home-${home.role}`);
+        // The session is an httpOnly cookie: page scripts cannot read it and nothing stores it.
+        const cookies = await browser.context.cookies();
+        const session = cookies.find((c) => c.name === 'plumbline_session');
+        expect(session).toMatchObject({ httpOnly: true, sameSite: 'Strict' });
+        // Evaluated in the page (a string, as this project's tests are type-checked without the DOM).
+        expect(await page.evaluate('document.cookie')).not.toContain('plumbline_session');
+        const stored = await page.evaluate('JSON.stringify({ ...localStorage, ...sessionStorage })');
+        expect(stored).not.toContain(session!.value);
+        expect(browser.cspViolations).toEqual([]);
       } finally {
         await browser.close();
       }
@@ -56,6 +65,20 @@ describe.skipIf(!chromiumAvailable())('signing in through the browser', () => {
       await page.getByRole('button', { name: 'Sign in' }).click();
       await page.getByText(/e-mail address or password is incorrect/i).waitFor();
       expect(page.url()).toContain('/sign-in');
+    } finally {
+      await browser.close();
+    }
+  });
+
+  it('when the API reference page is opened, then it lists the routes under the strict CSP', async () => {
+    const browser = await launchBrowser();
+    try {
+      const { page } = browser;
+      await page.goto(`${server.url}/api/reference`);
+      await page.getByText('/labs/{labId}/peer-report', { exact: true }).first().waitFor();
+      expect(await page.getByRole('heading', { name: 'Peer groups' }).count()).toBe(1);
+      await snap(page, 'api-reference');
+      expect(browser.cspViolations).toEqual([]);
     } finally {
       await browser.close();
     }

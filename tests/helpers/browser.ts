@@ -13,6 +13,8 @@ export function chromiumAvailable(): boolean {
 export async function launchBrowser(): Promise<{
   context: BrowserContext;
   page: Page;
+  /** Content Security Policy violations the pages reported (the app must need no exception). */
+  cspViolations: string[];
   close: () => Promise<void>;
 }> {
   const userDataDir = mkdtempSync(join(tmpdir(), 'plumbline-chromium-'));
@@ -32,9 +34,14 @@ export async function launchBrowser(): Promise<{
     ],
   });
   const page = context.pages()[0] ?? (await context.newPage());
+  const cspViolations: string[] = [];
+  context.on('console', (message) => {
+    if (/Content Security Policy/i.test(message.text())) cspViolations.push(message.text());
+  });
   return {
     context,
     page,
+    cspViolations,
     close: async () => {
       await context.close();
       rmSync(userDataDir, { recursive: true, force: true });

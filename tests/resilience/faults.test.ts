@@ -15,6 +15,7 @@ import {
   valuesFile,
   waitStored,
   type Stack,
+  WORKER_READY,
 } from './harness.ts';
 import { recordFigure } from './figures.ts';
 
@@ -79,7 +80,7 @@ describe('faults', () => {
     const killedAt = Date.now();
     process.kill(workerPid, 'SIGKILL');
     await worker.waitFor(/worker: was killed by signal KILL/);
-    while (count(worker.output(), /worker: ready/) < 2) await sleep(50);
+    while (count(worker.output(), WORKER_READY) < 2) await sleep(50);
     const restartedMs = Date.now() - killedAt;
 
     expect(await waitStored(stack.db, id)).toBe('stored');

@@ -21,6 +21,9 @@ import { newLabToken } from '../../apps/api/src/auth/lab-tokens.ts';
 export const repoRoot = fileURLToPath(new URL('../../', import.meta.url));
 const servicesScript = join(repoRoot, 'scripts/services.sh');
 
+/** The worker's JSON log line that says it is ready. */
+export const WORKER_READY = /"name":"worker"[^\n]*"msg":"ready/;
+
 export const sleep = (ms: number) => new Promise<void>((resolve) => setTimeout(resolve, ms));
 
 /** Runs `scripts/services.sh <command>` for the services this run uses (PG_PORT, REDIS_PORT). */
@@ -111,6 +114,8 @@ export async function createStack(label: string) {
   const redisUrl = process.env.REDIS_URL ?? 'redis://127.0.0.1:63790';
   const shared = {
     NODE_ENV: 'test',
+    // The processes log JSON lines (silent under test unless asked); their start-up lines are awaited.
+    LOG_LEVEL: 'info',
     DATABASE_URL: scratch.url,
     REDIS_URL: redisUrl,
     QUEUE_PREFIX: queuePrefix,
@@ -130,7 +135,7 @@ export async function createStack(label: string) {
       ...env,
     });
     procs.push(api);
-    await api.waitFor(/api: listening/);
+    await api.waitFor(/"msg":"listening on /);
     return { ...api, url: `http://127.0.0.1:${port}` };
   }
 
@@ -160,7 +165,7 @@ export async function createStack(label: string) {
       },
     );
     procs.push(worker);
-    await worker.waitFor(/worker: ready/);
+    await worker.waitFor(WORKER_READY);
     return worker;
   }
 

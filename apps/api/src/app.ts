@@ -1,11 +1,17 @@
 import express, { Router, type Express } from 'express';
+import cookieParser from 'cookie-parser';
 import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import type { AppDeps } from './deps.ts';
 import { configurePassport, authenticate } from './auth/authenticate.ts';
 import { errorHandler, notFoundHandler, requestId } from './http/error-handler.ts';
+import { corsForPublicUrl, securityHeaders } from './http/security-headers.ts';
+import { requestLog } from './http/request-log.ts';
+import { createLogger } from '@plumbline/db/logging';
+import { requireCsrf } from './auth/session-cookie.ts';
 import { authRouter } from './modules/auth/auth.router.ts';
 import { healthRouter } from './modules/health/health.router.ts';
+import { openApiRouter } from './openapi/openapi.router.ts';
 import { labsRouter } from './modules/labs/labs.router.ts';
 import { uploadsRouter } from './modules/uploads/uploads.router.ts';
 import { labTokensRouter } from './modules/lab-tokens/lab-tokens.router.ts';
@@ -35,11 +41,17 @@ export function createApp(deps: AppDeps): Express {
   // Lab API tokens are accepted on the upload routes only (POST /uploads, GET /uploads/:id).
   const requireUploader = authenticate(deps.db, passportInstance, { allowLabTokens: true });
 
+  app.use(securityHeaders(deps.env.PUBLIC_URL));
   const api = Router();
   api.use(requestId);
+  api.use(requestLog(deps.logger ?? createLogger('api')));
+  api.use(corsForPublicUrl(deps.env.PUBLIC_URL));
+  api.use(cookieParser());
+  api.use(requireCsrf(deps.env.JWT_SECRET));
   api.use(express.json({ limit: '2mb' }));
   api.use(passportInstance.initialize());
   api.use(healthRouter(deps));
+  api.use(openApiRouter(deps));
   api.use(authRouter(deps, passportInstance));
   api.use(labsRouter(deps, requireUser));
   api.use(uploadsRouter(deps, { requireUser, requireUploader }));

@@ -1,5 +1,6 @@
 import type { Redis } from 'ioredis';
 import type { Database } from '@plumbline/db';
+import type { Logger } from '@plumbline/db/logging';
 import type { Env } from './config/env.ts';
 import type { FileStorage } from './storage/storage.ts';
 import type { IngestQueue } from './queues/ingest-queue.ts';
@@ -13,4 +14,6 @@ export type AppDeps = {
   storage: FileStorage;
   /** Hands uploads to the ingest worker. */
   ingestQueue: IngestQueue;
+  /** Structured JSON log; a default one writing to stdout when left out. */
+  logger?: Logger;
 };

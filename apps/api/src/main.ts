@@ -1,5 +1,6 @@
 import { Redis } from 'ioredis';
 import { createDb, thresholds } from '@plumbline/db';
+import { createLogger } from '@plumbline/db/logging';
 import { loadEnv } from './config/env.ts';
 import { createApp } from './app.ts';
 import { createFileStorage } from './storage/index.ts';
@@ -16,22 +17,23 @@ const redis = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
 // ioredis reconnects by itself; without a listener it would print every failed attempt as unhandled.
 redis.on('error', (error: Error) => logRedisError(error));
 const ingestQueue = createIngestQueue(redis, env.QUEUE_PREFIX);
+const logger = createLogger('api');
 const storage = createFileStorage(env);
-const app = createApp({ env, db, redis, storage, ingestQueue });
+const app = createApp({ env, db, redis, storage, ingestQueue, logger });
 
 // Uploads cut off by a crash of this process leave partial files; sweep them now and every hour.
 async function sweepPartials() {
   const removed = await storage.sweepAbandoned?.(env.STALE_PARTIAL_MS).catch((error: Error) => {
-    console.error(`api: sweeping partial upload files: ${error.message}`);
+    logger.error({ err: error }, 'sweeping partial upload files failed');
     return 0;
   });
-  if (removed) console.log(`api: removed ${removed} partial upload file(s) left by interrupted uploads`);
+  if (removed) logger.info(`removed ${removed} partial upload file(s) left by interrupted uploads`);
 }
 void sweepPartials();
 setInterval(() => void sweepPartials(), 3_600_000).unref();
 
 const server = app.listen(env.PORT, env.HOST, () => {
-  console.log(`api: listening on http://${env.HOST}:${env.PORT}`);
+  logger.info(`listening on http://${env.HOST}:${env.PORT}`);
 });
 // Idle keep-alive connections stay open longer than clients and proxies keep theirs (common practice:
 // above the 60 s of most load balancers), so the server never closes one a client is about to reuse.
@@ -39,7 +41,7 @@ server.keepAliveTimeout = 65_000;
 server.headersTimeout = 66_000;
 
 async function shutdown(signal: string) {
-  console.log(`api: ${signal} received, shutting down`);
+  logger.info(`${signal} received, shutting down`);
   server.close();
   await ingestQueue.close().catch(() => {});
   await Promise.allSettled([pool.end(), redis.quit()]);
@@ -52,9 +54,9 @@ let lastRedisError = '';
 function logRedisError(error: Error) {
   if (error.message === lastRedisError) return; // one line per kind of failure, not one per retry
   lastRedisError = error.message;
-  console.error(`api: redis: ${error.message} (reconnecting)`);
+  logger.warn(`redis: ${error.message} (reconnecting)`);
 }
 redis.on('ready', () => {
-  if (lastRedisError) console.log('api: redis: connected again');
+  if (lastRedisError) logger.info('redis: connected again');
   lastRedisError = '';
 });

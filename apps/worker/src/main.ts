@@ -1,5 +1,6 @@
 import { Redis } from 'ioredis';
 import { createDb, thresholds } from '@plumbline/db';
+import { createLogger } from '@plumbline/db/logging';
 import { loadWorkerEnv } from './config/env.ts';
 import { createFileSource } from './storage/file-source.ts';
 import { startIngestWorker } from './queues/ingest.queue.ts';
@@ -16,7 +17,8 @@ const connection = new Redis(env.REDIS_URL, {
   // Reconnect after a Redis restart with backoff: 100 ms, 200 ms, … at most 5 s between attempts.
   retryStrategy: (times) => Math.min(100 * 2 ** Math.min(times, 6), 5000),
 });
-const log = (message: string) => console.log(`worker: ${message}`);
+const logger = createLogger('worker');
+const log = (message: string) => logger.info(message);
 let lastRedisError = '';
 connection.on('error', (error: Error) => {
   if (error.message === lastRedisError) return; // one line per kind of failure, not one per retry

@@ -16,8 +16,8 @@ export const userSchema = z.object({
 });
 export type User = z.infer<typeof userSchema>;
 
+/** The session token itself is set as an httpOnly cookie and never appears in the body. */
 export const loginResponseSchema = z.object({
-  token: z.string(),
   expiresAt: z.string().optional(),
   user: userSchema,
 });

@@ -11,6 +11,7 @@ export const errorCodes = [
   'gone',
   'payload_too_large',
   'unsupported_media_type',
+  'too_many_requests',
   'service_unavailable',
   'internal',
 ] as const;

@@ -81,11 +81,16 @@ export const invitationInfoSchema = z.object({
 });
 export type InvitationInfo = z.infer<typeof invitationInfoSchema>;
 
-/** At least 12 characters: our own rule, in line with common practice for user-chosen passwords. */
+/**
+ * A new password: at least 12 characters, not only spaces, no composition rules (NIST SP 800-63B,
+ * section 3.1.1.2: length and a blocklist instead of character-class rules). The API also refuses
+ * passwords on its list of common passwords.
+ */
 export const newPasswordSchema = z
   .string()
   .min(12, 'use at least 12 characters')
-  .max(200, 'use at most 200 characters');
+  .max(200, 'use at most 200 characters')
+  .refine((value) => value.trim().length > 0, 'a password of only spaces is not allowed');
 
 export const invitationAcceptSchema = z.object({
   token: z.string().min(1, 'the invitation token is missing').max(200),

@@ -1,6 +1,6 @@
 import passport from 'passport';
 import { ExtractJwt, Strategy as JwtStrategy } from 'passport-jwt';
-import type { RequestHandler } from 'express';
+import type { Request, RequestHandler } from 'express';
 import { and, eq, isNull } from 'drizzle-orm';
 import { labApiTokens, labs, revokedSessions, users, type Database } from '@plumbline/db';
 import type { Role } from '@plumbline/contracts';
@@ -8,6 +8,7 @@ import { AppError, forbidden, notFound, unauthenticated } from '../errors/app-er
 import type { Principal } from './principal.ts';
 import { hashLabToken, looksLikeLabToken } from './lab-tokens.ts';
 import type { SessionClaims } from './jwt.ts';
+import { sessionTokenFromCookie } from './session-cookie.ts';
 
 /** Registers the JWT strategy: signature, expiry, sign-out list and an active account are all checked. */
 export function configurePassport(db: Database, secret: string): passport.PassportStatic {
@@ -15,7 +16,11 @@ export function configurePassport(db: Database, secret: string): passport.Passpo
   instance.use(
     new JwtStrategy(
       {
-        jwtFromRequest: ExtractJwt.fromAuthHeaderAsBearerToken(),
+        // A bearer header (scripts, tests) or the browser's httpOnly session cookie.
+        jwtFromRequest: ExtractJwt.fromExtractors([
+          ExtractJwt.fromAuthHeaderAsBearerToken(),
+          (req) => sessionTokenFromCookie(req as Request),
+        ]),
         secretOrKey: secret,
         algorithms: ['HS256'],
       },
@@ -84,9 +89,11 @@ export function authenticate(
   options: { allowLabTokens?: boolean } = {},
 ): RequestHandler {
   return (req, res, next) => {
-    const token = bearerToken(req.headers.authorization);
+    const bearer = bearerToken(req.headers.authorization);
+    const token = bearer ?? sessionTokenFromCookie(req);
     if (!token) return next(unauthenticated('Sign in to continue: no session token was sent.'));
-    if (looksLikeLabToken(token)) {
+    // Lab API tokens are machine credentials: accepted as a bearer header only, never from a cookie.
+    if (bearer && looksLikeLabToken(bearer)) {
       if (!options.allowLabTokens) return next(forbidden('Lab API tokens may only upload files.'));
       principalFromLabToken(db, token).then((principal) => {
         if (!principal) return next(unauthenticated('This lab API token is unknown or has been revoked.'));

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { resolveJwtSecret } from './jwt-secret.ts';
 
 /** Configuration read once at start-up; a bad value stops the process with a clear message. */
 const envSchema = z.object({
@@ -13,6 +14,8 @@ const envSchema = z.object({
     .int()
     .positive()
     .default(8 * 3600),
+  /** Local state of a development install (the generated JWT secret when JWT_SECRET is unset). */
+  DATA_DIR: z.string().default('.data'),
   STORAGE_DIR: z.string().default('.data/uploads'),
   S3_BUCKET: z.string().optional(),
   S3_ENDPOINT: z.string().optional(),
@@ -32,11 +35,20 @@ const envSchema = z.object({
   STALE_PARTIAL_MS: z.coerce.number().int().min(1000).default(3_600_000),
   /** Connections of this process's PostgreSQL pool. */
   DB_POOL_MAX: z.coerce.number().int().min(1).max(100).default(10),
+  /** Sign-in throttling: failures allowed per account and per client address within the window. */
+  SIGNIN_FAILURES_PER_ACCOUNT: z.coerce.number().int().positive().default(5),
+  SIGNIN_FAILURES_PER_ADDRESS: z.coerce.number().int().positive().default(50),
+  SIGNIN_WINDOW_SECONDS: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(15 * 60),
+  /** First lockout; it doubles with each further lockout within a day, up to the maximum. */
+  SIGNIN_LOCKOUT_SECONDS: z.coerce.number().int().positive().default(60),
+  SIGNIN_LOCKOUT_MAX_SECONDS: z.coerce.number().int().positive().default(3600),
 });
 
 export type Env = z.infer<typeof envSchema> & { JWT_SECRET: string };
-
-const DEV_SECRET = 'plumbline-development-secret-not-for-production-use';
 
 export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
   const parsed = envSchema.safeParse(source);
@@ -45,10 +57,10 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
     throw new Error(`Invalid configuration:\n${lines}`);
   }
   const env = parsed.data;
-  if (!env.JWT_SECRET) {
-    if (env.NODE_ENV === 'production')
-      throw new Error('Invalid configuration:\n  JWT_SECRET: required in production');
-    return { ...env, JWT_SECRET: DEV_SECRET };
-  }
-  return env as Env;
+  const jwtSecret = resolveJwtSecret({
+    secret: env.JWT_SECRET,
+    nodeEnv: env.NODE_ENV,
+    dataDir: env.DATA_DIR,
+  });
+  return { ...env, JWT_SECRET: jwtSecret };
 }

@@ -10,6 +10,7 @@ const statusByCode: Record<ErrorCode, number> = {
   gone: 410,
   payload_too_large: 413,
   unsupported_media_type: 415,
+  too_many_requests: 429,
   service_unavailable: 503,
   internal: 500,
 };

@@ -2,6 +2,8 @@ import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { randomUUID } from 'node:crypto';
 import { isDatabaseUnavailable } from '@plumbline/db';
 import { AppError } from '../errors/app-error.ts';
+import { clientErrorOf } from './client-errors.ts';
+import { logContext } from '@plumbline/db/logging';
 
 /** Seconds a client is asked to wait while the database is away (a restart takes a few). */
 export const RETRY_AFTER_SECONDS = 5;
@@ -10,7 +12,8 @@ export const requestId: RequestHandler = (req, res, next) => {
   const id = randomUUID();
   res.locals.requestId = id;
   res.setHeader('x-request-id', id);
-  next();
+  // Everything this request logs or enqueues carries its id (see the ingest queue and the worker).
+  logContext.run({ requestId: id }, next);
 };
 
 export const notFoundHandler: RequestHandler = (req, _res, next) => {
@@ -18,7 +21,7 @@ export const notFoundHandler: RequestHandler = (req, _res, next) => {
 };
 
 /** The central error handler: every failure leaves as `{ error: { code, message, details?, requestId } }`. */
-export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
+export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   const requestIdValue = res.locals.requestId as string | undefined;
   let appError: AppError;
   if (err instanceof AppError) {
@@ -30,14 +33,16 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   } else if (isDatabaseUnavailable(err)) {
     // Not the request's fault and not a bug: the database is restarting or unreachable. The pool
     // reconnects by itself, so the client is told when to try again.
-    console.error(`[${requestIdValue}] database unavailable: ${(err as Error).message}`);
+    req.log.warn({ err }, 'database unavailable');
     appError = new AppError(
       'service_unavailable',
       'The service is briefly unavailable (its database is restarting). Try again in a few seconds.',
     );
+  } else if (clientErrorOf(err)) {
+    appError = clientErrorOf(err) as AppError;
   } else {
     // Never leak internals; log the cause with the request id so operators can find it.
-    console.error(`[${requestIdValue}]`, err);
+    req.log.error({ err }, 'request failed with an unexpected error');
     appError = new AppError('internal', 'Something went wrong on our side. Please try again.');
   }
   if (res.headersSent) return;

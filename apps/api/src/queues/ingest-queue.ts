@@ -1,6 +1,9 @@
 import { Queue } from 'bullmq';
 import type { Redis } from 'ioredis';
 import { INGEST_JOB_OPTIONS, INGEST_QUEUE_NAME, ingestJobId, type IngestJob } from '@plumbline/contracts';
+import { createLogger, logContext } from '@plumbline/db/logging';
+
+const log = createLogger('api');
 
 /** Hands uploads to the ingest worker. PostgreSQL stays the source of truth: a lost job is re-enqueued by the worker. */
 export interface IngestQueue {
@@ -15,7 +18,11 @@ export function createIngestQueue(connection: Redis, prefix: string): IngestQueu
   return {
     async enqueue(uploadId, phase) {
       const adding: Promise<unknown> = queue
-        .add('ingest', { uploadId }, { ...INGEST_JOB_OPTIONS, jobId: ingestJobId(uploadId, phase) })
+        .add(
+          'ingest',
+          { uploadId, requestId: logContext.getStore()?.requestId },
+          { ...INGEST_JOB_OPTIONS, jobId: ingestJobId(uploadId, phase) },
+        )
         .then(
           () => 'added',
           (error: unknown) => error,
@@ -25,8 +32,9 @@ export function createIngestQueue(connection: Redis, prefix: string): IngestQueu
       const timeout = new Promise<'timeout'>((resolve) => setTimeout(() => resolve('timeout'), 3000).unref());
       const outcome = await Promise.race([adding, timeout]);
       if (outcome !== 'added') {
-        console.warn(
-          `api: could not enqueue upload ${uploadId} now (${String(outcome)}); the worker will pick it up`,
+        log.warn(
+          { uploadId, err: outcome === 'timeout' ? undefined : outcome },
+          'could not enqueue the upload now; the worker will pick it up',
         );
       }
     },

@@ -8,6 +8,7 @@ import { createApp } from '../app.ts';
 import { signSession } from '../auth/jwt.ts';
 import { hashPassword } from '../auth/passwords.ts';
 import type { AppDeps } from '../deps.ts';
+import type { Logger } from '@plumbline/db/logging';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -17,7 +18,10 @@ import { createIngestQueue } from '../queues/ingest-queue.ts';
 export const TEST_PASSWORD = 'correct horse battery staple';
 
 /** An in-process app on its own scratch database and the real Redis, with helpers to make labs and users. */
-export async function createTestApp(label: string, options: { env?: Record<string, string> } = {}) {
+export async function createTestApp(
+  label: string,
+  options: { env?: Record<string, string>; logger?: Logger } = {},
+) {
   const scratch: ScratchDatabase = await createScratchDatabase(label);
   // Each test app has its own storage directory and queue prefix, so parallel test files never share jobs.
   const storageDir = mkdtempSync(join(tmpdir(), `plumbline-${label.replace(/[^a-z0-9]/gi, '')}-`));
@@ -40,6 +44,7 @@ export async function createTestApp(label: string, options: { env?: Record<strin
     redis,
     storage: new LocalFileStorage(storageDir),
     ingestQueue,
+    logger: options.logger,
   };
   const app = createApp(deps);
   let passwordHash: string | null = null;

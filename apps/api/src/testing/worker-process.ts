@@ -22,6 +22,8 @@ export async function spawnWorkerFor(
     env: {
       ...process.env,
       NODE_ENV: 'test',
+      // The worker's JSON log is silent under test unless asked; its "ready" line is awaited below.
+      LOG_LEVEL: 'info',
       DATABASE_URL: t.databaseUrl,
       REDIS_URL: t.env.REDIS_URL,
       QUEUE_PREFIX: t.queuePrefix,
@@ -39,7 +41,7 @@ export async function spawnWorkerFor(
   await new Promise<void>((resolve, reject) => {
     const timer = setTimeout(() => reject(new Error(`worker did not start:\n${output}`)), 30_000);
     child.stdout!.on('data', () => {
-      if (/worker: ready/.test(output)) {
+      if (/"name":"worker"[^\n]*"msg":"ready/.test(output)) {
         clearTimeout(timer);
         resolve();
       }

@@ -1,5 +1,4 @@
 import { describe, expect, it, vi } from 'vitest';
-import { z } from 'zod';
 import { meResponseSchema } from '@plumbline/contracts';
 import { buildMe, buildSession } from '../testing/data.ts';
 import { mockApi } from '../testing/mock-api.ts';
@@ -17,24 +16,26 @@ async function caught(promise: Promise<unknown>): Promise<ApiError> {
 }
 
 describe('api client', () => {
-  it('when a session exists, then requests carry its Bearer token and the body is parsed with the schema', async () => {
+  it('when a session exists, then no token is sent from script (the cookie carries it) and the body is parsed with the schema', async () => {
     startSession(buildSession('supervisor'));
     const api = mockApi({ 'GET /api/me': { status: 200, body: buildMe('supervisor') } });
 
     const me = await apiRequest('/me', { schema: meResponseSchema });
 
     expect(me.lab?.code).toBe('L07');
-    expect(api.requests[0]?.headers.get('Authorization')).toBe('Bearer test-token-supervisor');
+    expect(api.requests[0]?.headers.has('Authorization')).toBe(false);
+    expect(api.requests[0]?.headers.has('X-CSRF-Token')).toBe(false);
   });
 
-  it('when signed out, then no Authorization header is sent', async () => {
-    const api = mockApi({
-      'GET /api/health': { status: 200, body: { status: 'ok', db: 'ok', redis: 'ok' } },
-    });
-
-    await apiRequest('/health', { schema: z.object({ status: z.string() }) });
-
-    expect(api.requests[0]?.headers.has('Authorization')).toBe(false);
+  it('when a state-changing request is sent, then it carries the CSRF token from its cookie', async () => {
+    document.cookie = 'plumbline_csrf=csrf-value-1';
+    try {
+      const api = mockApi({ 'POST /api/things': { status: 204 } });
+      await apiRequest('/things', { method: 'POST', body: {} });
+      expect(api.requests[0]?.headers.get('X-CSRF-Token')).toBe('csrf-value-1');
+    } finally {
+      document.cookie = 'plumbline_csrf=; expires=Thu, 01 Jan 1970 00:00:00 GMT';
+    }
   });
 
   it('when the API answers with an error body, then an ApiError carries its code, message, details and status', async () => {
@@ -91,7 +92,7 @@ describe('api client', () => {
     expect(error.status).toBe(0);
   });
 
-  it('when a request with a token gets 401, then the session ends as expired', async () => {
+  it('when a signed-in request gets 401, then the session ends as expired', async () => {
     startSession(buildSession('analyst'));
     mockApi({
       'GET /api/me': { status: 401, body: { error: { code: 'unauthenticated', message: 'Expired.' } } },

@@ -1,5 +1,6 @@
-// The one way the web app talks to the API: adds the Bearer token, parses every response with the
-// contract's zod schema, and turns every failure into an ApiError carrying the wire error code.
+// The one way the web app talks to the API: the session travels in the API's httpOnly cookie, state
+// changes carry the CSRF token, every response is parsed with the contract's zod schema, and every
+// failure becomes an ApiError carrying the wire error code.
 import type { z } from 'zod';
 import { errorBodySchema, type ErrorCode } from '@plumbline/contracts';
 import { env } from '../config/env.ts';
@@ -68,8 +69,16 @@ function codeForStatus(status: number): ErrorCode {
   if (status === 413) return 'payload_too_large';
   if (status === 415) return 'unsupported_media_type';
   if (status === 422) return 'validation_failed';
+  if (status === 429) return 'too_many_requests';
   if (status === 502 || status === 503 || status === 504) return 'service_unavailable';
   return 'internal';
+}
+
+/** The CSRF token the API set as a readable cookie at sign-in (double submit), if any. */
+function csrfToken(): string | null {
+  if (typeof document === 'undefined') return null;
+  const match = /(?:^|;\s*)plumbline_csrf=([^;]+)/.exec(document.cookie);
+  return match ? decodeURIComponent(match[1]) : null;
 }
 
 async function readJson(response: Response): Promise<unknown> {
@@ -99,8 +108,10 @@ export async function apiRequest<Schema extends z.ZodType | undefined = undefine
   options: ApiRequestOptions<Schema> = {},
 ): Promise<ResponseOf<Schema>> {
   const session = getSession();
+  const method = options.method ?? 'GET';
   const headers = new Headers({ Accept: 'application/json' });
-  if (session) headers.set('Authorization', `Bearer ${session.token}`);
+  const csrf = csrfToken();
+  if (method !== 'GET' && csrf) headers.set('X-CSRF-Token', csrf);
 
   let body: BodyInit | undefined;
   if (options.body instanceof FormData) {
@@ -113,9 +124,10 @@ export async function apiRequest<Schema extends z.ZodType | undefined = undefine
   let response: Response;
   try {
     response = await fetch(buildUrl(path, options.query), {
-      method: options.method ?? 'GET',
+      method,
       headers,
       body,
+      credentials: 'same-origin',
       signal: options.signal,
     });
   } catch (error) {
@@ -149,19 +161,20 @@ export async function apiRequest<Schema extends z.ZodType | undefined = undefine
 }
 
 /**
- * A file from the API (e.g. a CSV export), fetched with the Bearer token, so a plain link cannot be
- * used. Failures become an ApiError exactly as for apiRequest.
+ * A file from the API (e.g. a CSV export), fetched so failures can be shown in the page. Failures
+ * become an ApiError exactly as for apiRequest.
  */
 export async function apiDownload(
   path: string,
   options: { query?: Record<string, QueryValue>; signal?: AbortSignal } = {},
 ): Promise<{ blob: Blob; filename: string | null }> {
   const session = getSession();
-  const headers = new Headers();
-  if (session) headers.set('Authorization', `Bearer ${session.token}`);
   let response: Response;
   try {
-    response = await fetch(buildUrl(path, options.query), { headers, signal: options.signal });
+    response = await fetch(buildUrl(path, options.query), {
+      credentials: 'same-origin',
+      signal: options.signal,
+    });
   } catch (error) {
     if (error instanceof DOMException && error.name === 'AbortError') throw error;
     throw new ApiError({

@@ -1,6 +1,7 @@
-// The signed-in session (token + user), kept in localStorage so a reload keeps the user signed in.
-// A tiny external store: React reads it through useSyncExternalStore (see auth.tsx); the API client
-// reads the token and clears the session on a 401. No React here, so both can import it.
+// Who is signed in (user + expiry), kept in localStorage so a reload shows the right home at once.
+// The credential itself is an httpOnly cookie set by the API, which page scripts can never read; this
+// store holds no secret. A tiny external store: React reads it through useSyncExternalStore (see
+// auth.tsx); the API client clears it on a 401. No React here, so both can import it.
 import { loginResponseSchema, type LoginResponse } from '@plumbline/contracts';
 
 export type Session = LoginResponse;

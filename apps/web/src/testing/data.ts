@@ -33,7 +33,6 @@ const usersByRole: Record<
 export function buildSession(role: Role): Session {
   const user = usersByRole[role];
   return {
-    token: `test-token-${role}`,
     expiresAt: new Date(Date.now() + 60 * 60 * 1000).toISOString(),
     user: { id: user.id, email: user.email, name: user.name, role, labId: user.lab?.id ?? null },
   };

@@ -7,6 +7,8 @@ export type RecordedRequest = {
   /** The query string's parameters (handlers are keyed by path only). */
   query: URLSearchParams;
   headers: Headers;
+  /** How cookies were sent (the session travels in the API's httpOnly cookie). */
+  credentials: RequestCredentials | undefined;
   body: unknown;
 };
 export type MockAnswer = { status: number; body?: unknown };
@@ -31,6 +33,7 @@ export function mockApi(handlers: Record<string, Handler>) {
       path: url.pathname,
       query: url.searchParams,
       headers: new Headers(init.headers),
+      credentials: init.credentials,
       body,
     };
     requests.push(request);

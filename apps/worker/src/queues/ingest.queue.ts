@@ -12,6 +12,7 @@ import { isDatabaseUnavailable } from '@plumbline/db';
 import { processUpload, type IngestDeps, type IngestOutcome } from '../jobs/ingest.job.ts';
 import { createPeerStatisticsDrainer, type PeerStatisticsDrainer } from '../jobs/peer-statistics.job.ts';
 import * as repo from '../ingest/ingest.repository.ts';
+import { logContext } from '@plumbline/db/logging';
 
 export type IngestWorkerOptions = {
   connection: Redis;
@@ -40,6 +41,18 @@ export type IngestWorker = {
   close(): Promise<void>;
 };
 
+/** Runs a job with its upload id and the id of the API request that enqueued it on every log line. */
+function withLogContext<T>(process: (job: Job<IngestJob>) => Promise<T>) {
+  return (job: Job<IngestJob>) => {
+    const data = (job.data ?? {}) as Partial<IngestJob>;
+    const context = {
+      uploadId: typeof data.uploadId === 'string' ? data.uploadId : undefined,
+      requestId: typeof data.requestId === 'string' ? data.requestId : undefined,
+    };
+    return logContext.run(context, () => process(job));
+  };
+}
+
 /** The ingest queue's consumer: one processor, payloads parsed at the door (a bad payload is not retried). */
 export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions): IngestWorker {
   const log = deps.log ?? (() => {});
@@ -61,7 +74,7 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
 
   const worker = new Worker<IngestJob, IngestOutcome>(
     INGEST_QUEUE_NAME,
-    async (job: Job<IngestJob>) => {
+    withLogContext(async (job: Job<IngestJob>) => {
       const payload = ingestJobSchema.safeParse(job.data);
       if (!payload.success) throw new UnrecoverableError(`ingest job ${job.id}: invalid payload`);
       activeJobs += 1;
@@ -109,7 +122,7 @@ export function startIngestWorker(deps: IngestDeps, options: IngestWorkerOptions
       } finally {
         activeJobs -= 1;
       }
-    },
+    }),
     {
       connection: options.connection,
       prefix: options.prefix,

@@ -15,7 +15,8 @@ export type WorkerProcess = {
 export async function spawnWorkerProcess(env: Record<string, string>): Promise<WorkerProcess> {
   const child = spawn(process.execPath, ['--import', 'tsx', workerMain], {
     cwd: repoRoot,
-    env: { ...process.env, NODE_ENV: 'test', RECOVERY_INTERVAL_MS: '600000', ...env },
+    // LOG_LEVEL: the worker's JSON log is silent under test unless asked; its "ready" line is awaited.
+    env: { ...process.env, NODE_ENV: 'test', LOG_LEVEL: 'info', RECOVERY_INTERVAL_MS: '600000', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let output = '';
@@ -25,7 +26,7 @@ export async function spawnWorkerProcess(env: Record<string, string>): Promise<W
   await new Promise<void>((resolve, reject) => {
     const timer = setTimeout(() => reject(new Error(`worker did not start:\n${output}`)), 30_000);
     const check = () => {
-      if (/worker: ready/.test(output)) {
+      if (/"name":"worker"[^\n]*"msg":"ready/.test(output)) {
         clearTimeout(timer);
         resolve();
       }

@@ -10,7 +10,7 @@ export async function signIn(
   input: { email: string; password: string } & LoginRequest,
   jwtSecret: string,
   ttlSeconds: number,
-): Promise<LoginResponse> {
+): Promise<LoginResponse & { token: string; expiresAt: string }> {
   const [row] = await db
     .select({ user: users, labActive: labs.active })
     .from(users)
@@ -18,11 +18,10 @@ export async function signIn(
     .where(eq(users.email, input.email.toLowerCase()))
     .limit(1);
   const user = row?.user;
-  const ok =
-    user &&
-    user.active &&
-    row.labActive !== false &&
-    (await verifyPassword(user.passwordHash, input.password));
+  // The password is always verified (against a dummy hash when there is no account), so the answer
+  // takes the same time whether or not the account exists or is active.
+  const passwordOk = await verifyPassword(user?.passwordHash ?? null, input.password);
+  const ok = user && user.active && row.labActive !== false && passwordOk;
   if (!user || !ok) throw unauthenticated('The e-mail address or password is incorrect.');
   const { token, expiresAt } = signSession(user, jwtSecret, ttlSeconds);
   await recordAudit(db, { kind: 'auth.sign-in', actorId: user.id, labId: user.labId });

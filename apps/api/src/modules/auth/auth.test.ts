@@ -24,7 +24,9 @@ describe('sign-in', () => {
       role: 'analyst',
       labId: lab.id,
     });
-    const me = await request(t.app).get('/api/me').set('Authorization', `Bearer ${res.body.token}`);
+    const me = await request(t.app)
+      .get('/api/me')
+      .set('Cookie', res.headers['set-cookie'] ?? []);
     expect(me.status).toBe(200);
     expect(me.body.lab).toEqual({ id: lab.id, code: lab.code, name: lab.name });
   });

@@ -1,4 +1,4 @@
-import { createHash, randomBytes } from 'node:crypto';
+import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import { recordAudit, type Database } from '@plumbline/db';
 import {
   invitationAcceptSchema,
@@ -17,6 +17,7 @@ import {
 import { actorOf, type Principal } from '../../auth/principal.ts';
 import { assertLabAccess } from '../../auth/authenticate.ts';
 import { hashPassword } from '../../auth/passwords.ts';
+import { assertPasswordAllowed } from '../../auth/password-policy.ts';
 import { AppError, conflict, notFound } from '../../errors/app-error.ts';
 import { parseInput } from '../../http/validate.ts';
 import { changesBetween, writeOrConflict } from '../catalogue-admin/catalogue-admin.service.ts';
@@ -174,16 +175,20 @@ export async function inviteUser(
   if (!lab.active)
     throw conflict(`The lab "${lab.code}" is deactivated; reactivate it before inviting users.`);
   const existing = await findUserByEmail(db, input.email);
+  const token = randomBytes(32).toString('base64url');
+  const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
+  // An address already used outside this lab must not be revealed to the inviter: the answer looks
+  // like any other invitation, and the coordinator finds the conflict in the audit log.
+  if (existing && existing.labId !== lab.id) {
+    return hiddenConflictInvitation(db, principal, lab.id, existing.id, input, token, expiresAt, publicUrl);
+  }
   // Inviting again someone who never accepted replaces the old invitation; anyone else is a conflict.
-  const reinvite =
-    existing && existing.labId === lab.id && !existing.active && existing.passwordHash === null;
+  const reinvite = existing && !existing.active && existing.passwordHash === null;
   if (existing && !reinvite) {
     throw conflict(`A user with the e-mail address ${input.email} already exists.`, [
       { path: 'email', message: 'this e-mail address is already in use' },
     ]);
   }
-  const token = randomBytes(32).toString('base64url');
-  const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
   const { user, invitation } = await writeOrConflict(
     db,
     `A user with the e-mail address ${input.email} already exists.`,
@@ -219,6 +224,33 @@ export async function inviteUser(
   return {
     invitationId: invitation.id,
     user: { id: user.id, email: user.email, name: user.name, role: input.role, labId: lab.id },
+    expiresAt: expiresAt.toISOString(),
+    link: `${publicUrl.replace(/\/+$/, '')}/invitations/${token}`,
+  };
+}
+
+/** Records the conflict for the coordinator and answers as if an invitation had been made (its link leads nowhere). */
+async function hiddenConflictInvitation(
+  db: Database,
+  principal: Principal,
+  labId: string,
+  existingUserId: string,
+  input: { email: string; name: string; role: 'analyst' | 'supervisor' },
+  token: string,
+  expiresAt: Date,
+  publicUrl: string,
+): Promise<InvitationCreated> {
+  await recordAudit(db, {
+    ...actorOf(principal),
+    kind: 'lab-user.invite-conflict',
+    labId,
+    entity: 'user',
+    entityId: existingUserId,
+    details: { email: input.email, role: input.role, reason: 'address already used in another lab' },
+  });
+  return {
+    invitationId: randomUUID(),
+    user: { id: randomUUID(), email: input.email, name: input.name, role: input.role, labId },
     expiresAt: expiresAt.toISOString(),
     link: `${publicUrl.replace(/\/+$/, '')}/invitations/${token}`,
   };
@@ -307,6 +339,7 @@ export async function describeInvitation(db: Database, token: string): Promise<I
 
 export async function acceptInvitation(db: Database, body: unknown): Promise<{ email: string }> {
   const input = parseInput(invitationAcceptSchema, body);
+  assertPasswordAllowed(input.password);
   const passwordHash = await hashPassword(input.password);
   return db.transaction(async (tx) => {
     const { invitation, user } = await usableInvitation(tx, input.token, true);

@@ -217,6 +217,58 @@ describe('invitations and lab users', () => {
     expect(res.body.error.details[0].path).toBe('password');
   });
 
+  it('when the password is 12 spaces, then 400 on password and the invitation stays open', async () => {
+    const lab = await t.makeLab();
+    const invited = await request(t.app)
+      .post(`/api/labs/${lab.id}/invitations`)
+      .set('Authorization', coordinator.auth)
+      .send({ email: email(), name: 'Sam Example', role: 'analyst' });
+    const token = invited.body.link.split('/invitations/')[1];
+    const res = await request(t.app)
+      .post('/api/invitations/accept')
+      .send({ token, password: ' '.repeat(12) });
+    expect(res.status).toBe(400);
+    expect(res.body.error.details[0].path).toBe('password');
+    expect((await request(t.app).get(`/api/invitations/${token}`)).status).toBe(200);
+  });
+
+  it('when the password is on the list of common passwords, then 400 on password', async () => {
+    const lab = await t.makeLab();
+    const invited = await request(t.app)
+      .post(`/api/labs/${lab.id}/invitations`)
+      .set('Authorization', coordinator.auth)
+      .send({ email: email(), name: 'Sam Example', role: 'analyst' });
+    const token = invited.body.link.split('/invitations/')[1];
+    // "1q2w3e4r5t6y" is among the most common passwords of 12 characters in the SecLists top-1M list.
+    const res = await request(t.app)
+      .post('/api/invitations/accept')
+      .send({ token, password: '1Q2W3E4R5T6Y' });
+    expect(res.status).toBe(400);
+    expect(res.body.error.details[0]).toMatchObject({ path: 'password' });
+    expect(res.body.error.message).toMatch(/commonly used/);
+    const [user] = await t.db.select().from(users).where(eq(users.id, invited.body.user.id));
+    expect(user.passwordHash).toBeNull();
+  });
+
+  it('when a supervisor invites an address used in another lab, then the answer looks like any invitation and the coordinator sees the conflict', async () => {
+    const own = await t.makeLab();
+    const other = await t.makeLab();
+    const supervisor = await t.makeUser('supervisor', own.id);
+    const elsewhere = await t.makeUser('analyst', other.id);
+    const res = await request(t.app)
+      .post(`/api/labs/${own.id}/invitations`)
+      .set('Authorization', supervisor.auth)
+      .send({ email: elsewhere.email, name: 'Kim Example', role: 'analyst' });
+    expect(res.status).toBe(201);
+    expect(res.body.user).toMatchObject({ email: elsewhere.email, labId: own.id, role: 'analyst' });
+    expect(res.body.user.id).not.toBe(elsewhere.id);
+    expect(Object.keys(res.body).sort()).toEqual(['expiresAt', 'invitationId', 'link', 'user']);
+    // The other lab's account is untouched and the conflict is in the coordinator's audit log.
+    const [after] = await t.db.select().from(users).where(eq(users.id, elsewhere.id));
+    expect(after).toMatchObject({ labId: other.id, active: true, name: elsewhere.name });
+    expect(await auditKinds(elsewhere.id)).toEqual(['lab-user.invite-conflict']);
+  });
+
   it('when someone is invited again before accepting, then the old link stops working and the new one works', async () => {
     const lab = await t.makeLab();
     const address = email();

@@ -44,6 +44,7 @@ function uploadLabFor(principal: Principal, requested: string | undefined): stri
   }
   if (!requested)
     throw badRequest('A coordinator uploads on behalf of a lab: give its id in the "labId" field.');
+  if (!UUID.test(requested)) throw badRequest(`The "labId" field is not a lab id (expected a UUID).`);
   return requested;
 }
 

@@ -64,6 +64,28 @@ describe('sign-in form', () => {
     expect(getSession()).toBeNull();
   });
 
+  it('when sign-in is locked out after failed attempts (429), then the wait is shown and no session starts', async () => {
+    mockApi({
+      'POST /api/auth/login': {
+        status: 429,
+        body: {
+          error: {
+            code: 'too_many_requests',
+            message: 'Too many failed sign-in attempts. Try again in 2 minutes.',
+          },
+        },
+      },
+    });
+    const { user, email, password, submit } = renderForm();
+
+    await user.type(email, 'analyst@kestrel-vale.example');
+    await user.type(password, 'plumbline-demo');
+    await user.click(submit);
+
+    expect(await screen.findByText(/Try again in 2 minutes/)).toBeTruthy();
+    expect(getSession()).toBeNull();
+  });
+
   it('when the API rejects a field, then its message appears beside that field', async () => {
     mockApi({
       'POST /api/auth/login': {
@@ -87,7 +109,7 @@ describe('sign-in form', () => {
     expect(email.getAttribute('aria-invalid')).toBe('true');
   });
 
-  it('when the credentials are accepted, then the session starts with the token and the e-mail was sent in lower case', async () => {
+  it('when the credentials are accepted, then the session starts for the user and the e-mail was sent in lower case', async () => {
     const session = buildSession('analyst');
     const api = mockApi({ 'POST /api/auth/login': { status: 200, body: session } });
     const { user, email, password, submit } = renderForm();
@@ -96,7 +118,7 @@ describe('sign-in form', () => {
     await user.type(password, 'plumbline-demo');
     await user.click(submit);
 
-    await waitFor(() => expect(getSession()?.token).toBe(session.token));
+    await waitFor(() => expect(getSession()?.user.id).toBe(session.user.id));
     expect(api.requests[0]?.body).toEqual({
       email: 'analyst@kestrel-vale.example',
       password: 'plumbline-demo',

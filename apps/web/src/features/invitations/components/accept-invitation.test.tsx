@@ -33,7 +33,7 @@ describe('accepting an invitation', () => {
     expect(accept?.body).toEqual({ token, password: 'quiet harbour lantern' });
     const login = api.requests.find((r) => r.path === '/api/auth/login');
     expect(login?.body).toEqual({ email: invitation.email, password: 'quiet harbour lantern' });
-    expect(getSession()?.token).toBe('test-token-analyst');
+    expect(getSession()?.user.role).toBe('analyst');
   });
 
   it('when the password is too short or not repeated the same, then nothing is sent', async () => {
