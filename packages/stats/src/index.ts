@@ -26,3 +26,4 @@ export * from './harmonise-intervals.ts';
 export * from './indirect-interval.ts';
 export * from './bhattacharya.ts';
 export * from './random.ts';
+export * from './detect-shifts.ts';
