@@ -58,7 +58,8 @@ const SINGLE_LIMITS: Partial<Record<QcPlanRule, number>> = {
  */
 export function qcPlanPower(input: QcPlanPowerInput): QcPlanPower {
   const fn = 'qcPlanPower';
-  const { rules, n, shift } = input;
+  const { n, shift } = input;
+  const rules: readonly QcPlanRule[] = input.rules;
   const runs = input.runs ?? 1;
   const simulations = input.simulations ?? 10_000;
   if (!Array.isArray(rules) || rules.length === 0) fail(fn, 'rules must be a non-empty list of rule names');
