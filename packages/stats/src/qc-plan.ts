@@ -62,7 +62,8 @@ export function qcPlanPower(input: QcPlanPowerInput): QcPlanPower {
   const rules: readonly QcPlanRule[] = input.rules;
   const runs = input.runs ?? 1;
   const simulations = input.simulations ?? 10_000;
-  if (!Array.isArray(rules) || rules.length === 0) fail(fn, 'rules must be a non-empty list of rule names');
+  if (!Array.isArray(input.rules) || rules.length === 0)
+    fail(fn, 'rules must be a non-empty list of rule names');
   for (const rule of rules) {
     if (!(QC_PLAN_RULES as readonly string[]).includes(rule)) {
       fail(fn, `unknown rule '${String(rule)}'; known: ${QC_PLAN_RULES.join(', ')}`);
