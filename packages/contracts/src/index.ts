@@ -15,3 +15,4 @@ export * from './lab-tokens.ts';
 export * from './peer-groups.ts';
 export * from './publishing.ts';
 export * from './lab-workspace.ts';
+export * from './qc-insight.ts';

@@ -11,6 +11,11 @@ export interface DetectShiftsOptions {
   k?: number;
   /** Decision interval h, in SDs. Default 5. */
   h?: number;
+  /**
+   * Optional Shewhart limit, in SDs: a single point beyond ±limit also signals (combined
+   * Shewhart-CUSUM), so a large jump is flagged at once. Default none (CUSUM alone).
+   */
+  shewhart?: number;
 }
 
 /** A detected shift of a series' mean. */
@@ -35,14 +40,15 @@ export interface DetectedShift {
  * Shifts of a series' mean by the two-sided tabular CUSUM, restarted after each signal.
  * With x standardised as z = (x − μ0)/σ:
  *   C⁺ᵢ = max(0, zᵢ − k + C⁺ᵢ₋₁),  C⁻ᵢ = max(0, −zᵢ − k + C⁻ᵢ₋₁),  C⁺₀ = C⁻₀ = 0;
- * a signal when C⁺ᵢ > h or C⁻ᵢ > h. The change point is estimated as the first point of the current
+ * a signal when C⁺ᵢ > h or C⁻ᵢ > h, or (with `shewhart`) when |zᵢ| > the Shewhart limit. The change point is estimated as the first point of the current
  * run of non-zero C (τ̂ = i − N⁺, so `index` = i − N⁺ + 1), and the new mean as
  * μ0 + σ · (k + C⁺ᵢ / N⁺) (down: μ0 − σ · (k + C⁻ᵢ / N⁻)).
  * k = 0.5 and h = 5 give an in-control average run length of about 465 points and detect a
  * 1 SD shift after about 10 points, two-sided (Montgomery's table of CUSUM ARLs, from memory).
  *
  * Source: Montgomery DC. Introduction to Statistical Quality Control, 6th ed. Wiley 2009, §9.1
- * (tabular CUSUM, recommended k and h, change-point and new-mean estimates; from memory).
+ * (tabular CUSUM, recommended k and h, change-point and new-mean estimates; from memory); Lucas JM.
+ * Combined Shewhart-CUSUM quality control schemes. J Qual Technol 1982;14:51–59 (from memory).
  *
  * @throws {Error} when a value is not finite, sd, k or h is not greater than 0, or mean is not finite.
  * @example
@@ -60,6 +66,8 @@ export function detectShifts(series: readonly number[], options: DetectShiftsOpt
   checkPositive(fn, 'sd', sd);
   checkPositive(fn, 'k', k);
   checkPositive(fn, 'h', h);
+  const shewhart = options.shewhart ?? Infinity;
+  if (options.shewhart !== undefined) checkPositive(fn, 'shewhart', shewhart);
   if (!Number.isFinite((series.length * k) / sd)) fail(fn, 'k or sd out of range');
 
   const shifts: DetectedShift[] = [];
@@ -73,8 +81,8 @@ export function detectShifts(series: readonly number[], options: DetectShiftsOpt
     lower = Math.max(0, -z - k + lower);
     upperLength = upper > 0 ? upperLength + 1 : 0;
     lowerLength = lower > 0 ? lowerLength + 1 : 0;
-    const up = upper > h;
-    const down = lower > h;
+    const up = upper > h || z > shewhart;
+    const down = lower > h || z < -shewhart;
     if (!up && !down) continue;
     // Both sides at once cannot happen (C⁺ and C⁻ cannot both grow on one point); take the larger.
     const isUp = up && (!down || upper >= lower);

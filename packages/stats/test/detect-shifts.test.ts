@@ -36,6 +36,16 @@ describe('detectShifts', () => {
     expect(shift.size).toBeCloseTo(-2, 12);
   });
 
+  it('when a Shewhart limit is set, then one point beyond it signals at once (combined Shewhart-CUSUM, Lucas 1982)', () => {
+    // z = 0.2, 0.1, 3.4: C⁺ = 0, 0, 2.9 < h, but 3.4 > 3 → signal at index 2, N⁺ = 1, size 0.5 + 2.9 = 3.4.
+    expect(detectShifts([0.2, 0.1, 3.4])).toEqual([]);
+    const [shift] = detectShifts([0.2, 0.1, 3.4], { shewhart: 3 });
+    expect(shift).toMatchObject({ index: 2, signalIndex: 2, direction: 'up' });
+    expect(shift.size).toBeCloseTo(3.4, 12);
+    // Exactly on the limit is not beyond it.
+    expect(detectShifts([0, 0, -3], { shewhart: 3 })).toEqual([]);
+  });
+
   it('when inputs are bad, then it throws naming them', () => {
     expect(() => detectShifts([0, Number.NaN])).toThrow(
       'detectShifts: value at index 1 is not a finite number',

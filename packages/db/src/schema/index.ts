@@ -9,3 +9,4 @@ export * from './peer-groups.ts';
 export * from './review.ts';
 export * from './audit.ts';
 export * from './invitations.ts';
+export * from './procedure-events.ts';
