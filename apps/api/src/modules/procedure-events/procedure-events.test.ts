@@ -166,4 +166,20 @@ describe('shifts of a procedure', () => {
       expect(shift.events.map((e) => `${e.occurredOn} ${e.kind}`)).toEqual(['2026-02-20 reagent-lot']);
     }
   });
+
+  it('when the shift is signalled in the latest period, then the lab overview lists it under "needs attention" with the event', async () => {
+    const A = net.labs.A;
+    const res = await request(t.app).get(`/api/labs/${A.id}/overview`).set('Authorization', A.analyst.auth);
+    expect(res.status).toBe(200);
+    const shifts = res.body.attention.filter((a: { kind: string }) => a.kind === 'shift-detected');
+    expect(shifts.length).toBeGreaterThan(0);
+    expect(shifts[0].message).toMatch(
+      /^GLU1 .*SDI shifted up .* from 2026-03; recorded before it: reagent-lot on 2026-02-20/,
+    );
+    // Lab B has no shift and sees none of lab A's.
+    const other = await request(t.app)
+      .get(`/api/labs/${net.labs.B.id}/overview`)
+      .set('Authorization', net.labs.B.analyst.auth);
+    expect(other.body.attention.filter((a: { kind: string }) => a.kind === 'shift-detected')).toEqual([]);
+  });
 });

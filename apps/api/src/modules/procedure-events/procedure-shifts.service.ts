@@ -97,3 +97,28 @@ export async function procedureShifts(
   }
   return { procedureId: procedure.id, method: METHOD, eventWindowDays: EVENT_WINDOW_DAYS, series, shifts };
 }
+
+/**
+ * Shifts of every procedure of the lab whose signal came in `period`. A procedure whose shifts cannot
+ * be computed is left out (its drill-down says why), so one bad series never hides the others.
+ */
+export async function shiftsSignalledIn(
+  db: Database,
+  principal: Principal,
+  labId: string,
+  period: string,
+): Promise<Array<{ procedureCode: string; shift: DetectedShiftItem }>> {
+  const found: Array<{ procedureCode: string; shift: DetectedShiftItem }> = [];
+  for (const procedure of await repo.proceduresWithData(db, labId)) {
+    let result: ProcedureShifts;
+    try {
+      result = await procedureShifts(db, principal, labId, procedure.id);
+    } catch {
+      continue;
+    }
+    for (const shift of result.shifts) {
+      if (shift.signalPeriod === period) found.push({ procedureCode: procedure.code, shift });
+    }
+  }
+  return found;
+}
