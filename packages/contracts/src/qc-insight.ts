@@ -80,3 +80,58 @@ export const procedureShiftsSchema = z.object({
   shifts: z.array(detectedShiftSchema),
 });
 export type ProcedureShifts = z.infer<typeof procedureShiftsSchema>;
+
+/** Rule names a QC plan may use (as `qcPlanPower` in @plumbline/stats). */
+export const qcPlanRuleNames = ['1-2s', '1-2.5s', '1-3s', '1-3.5s', '2-2s', 'R-4s', '4-1s', '10-x'] as const;
+
+// PUT /api/labs/:labId/qc-plan/:procedureId/:level — the plan the lab uses.
+export const qcPlanInputSchema = z.object({
+  rules: z.array(z.enum(qcPlanRuleNames)).min(1).max(8),
+  n: z.number().int().min(1).max(10),
+  runs: z.number().int().min(1).max(10).default(1),
+});
+export type QcPlanInput = z.infer<typeof qcPlanInputSchema>;
+
+export const evaluatedPlanSchema = z.object({
+  rules: z.array(z.string()),
+  n: z.number().int(),
+  runs: z.number().int(),
+  ped: z.number(),
+  pfr: z.number(),
+  method: z.enum(['closed form', 'simulation']),
+});
+
+// GET /api/labs/:labId/qc-plan
+export const qcPlanRowSchema = z.object({
+  procedure: z.object({ id: uuidSchema, code: z.string() }),
+  analyte: z.string(),
+  controlLot: z.string(),
+  level: z.number().int(),
+  teaPct: z.number().nullable(),
+  teaSource: z.string().nullable(),
+  biasPct: z.number().nullable(),
+  cvPct: z.number().nullable(),
+  sigma: z.number().nullable(),
+  deltaSeCrit: z.number().nullable(),
+  /** The plan the lab entered, with its power at ΔSEcrit (null power without a sigma). */
+  current: z
+    .object({
+      rules: z.array(z.string()),
+      n: z.number().int(),
+      runs: z.number().int(),
+      ped: z.number().nullable(),
+      pfr: z.number(),
+    })
+    .nullable(),
+  recommended: evaluatedPlanSchema.nullable(),
+  reached: z.boolean().nullable(),
+  explanation: z.string(),
+});
+export type QcPlanRow = z.infer<typeof qcPlanRowSchema>;
+
+export const qcPlanPageSchema = z.object({
+  period: periodKeySchema.nullable(),
+  settings: z.object({ minPed: z.number(), maxPfr: z.number() }),
+  rows: z.array(qcPlanRowSchema),
+});
+export type QcPlanPage = z.infer<typeof qcPlanPageSchema>;

@@ -56,6 +56,8 @@ const SINGLE_RULES: Array<[QcPlanRule, number]> = [
   ['1-3s', 3],
   ['1-2.5s', 2.5],
 ];
+/** 1-2s as a rejection rule: evaluated in closed form when a lab uses it, never recommended (Pfr ≈ 0.09 at N = 2). */
+const ONE_2S: [QcPlanRule, number] = ['1-2s', 2];
 const MULTIRULES: QcPlanRule[][] = [
   ['1-3s', '2-2s', 'R-4s'],
   ['1-3s', '2-2s', 'R-4s', '4-1s'],
@@ -80,7 +82,8 @@ export function candidateQcPlans(): QcPlan[] {
  * memory); otherwise `qcPlanPower`. Simulated Pfr are cached (they do not depend on the shift).
  */
 export function evaluateQcPlan(plan: QcPlan, shift: number, simulations = 4000, seed = 1): EvaluatedQcPlan {
-  const single = plan.rules.length === 1 ? SINGLE_RULES.find(([rule]) => rule === plan.rules[0]) : undefined;
+  const single =
+    plan.rules.length === 1 ? [...SINGLE_RULES, ONE_2S].find(([rule]) => rule === plan.rules[0]) : undefined;
   if (single) {
     const k = single[1];
     const count = plan.n * plan.runs;

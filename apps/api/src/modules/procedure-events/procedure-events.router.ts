@@ -1,5 +1,5 @@
 import express, { Router, type RequestHandler } from 'express';
-import { procedureEventCreateSchema } from '@plumbline/contracts';
+import { procedureEventCreateSchema, qcPlanInputSchema } from '@plumbline/contracts';
 import type { AppDeps } from '../../deps.ts';
 import { principalOf } from '../../auth/authenticate.ts';
 import { parseInput } from '../../http/validate.ts';
@@ -9,6 +9,7 @@ import {
   recordProcedureEvent,
 } from './procedure-events.service.ts';
 import { procedureShifts } from './procedure-shifts.service.ts';
+import { qcPlanPage, saveQcPlan } from './qc-plan.service.ts';
 
 /**
  * Events of a lab's procedures (reagent or calibrator lot changes, maintenance, ...): read by the lab's
@@ -72,6 +73,23 @@ export function procedureEventsRouter(
         String(req.params.procedureId),
       ),
     );
+  });
+
+  router.get('/labs/:labId/qc-plan', requireUser, async (req, res) => {
+    res.json(await qcPlanPage(deps.db, principalOf(req), String(req.params.labId)));
+  });
+
+  router.put('/labs/:labId/qc-plan/:procedureId/:level', requireUser, async (req, res) => {
+    const input = parseInput(qcPlanInputSchema, req.body);
+    await saveQcPlan(
+      deps.db,
+      principalOf(req),
+      String(req.params.labId),
+      String(req.params.procedureId),
+      String(req.params.level),
+      input,
+    );
+    res.status(204).end();
   });
 
   return router;
