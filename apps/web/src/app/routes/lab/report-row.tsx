@@ -10,6 +10,7 @@ import { Spinner } from '../../../components/ui/spinner.tsx';
 import { paths } from '../../../config/paths.ts';
 import { labReviewKeys, type DrilldownParams } from '../../../features/lab-review/api/lab-review-keys.ts';
 import { DrilldownView } from '../../../features/lab-review/components/drilldown-view.tsx';
+import { ProcedureInsightPanel } from '../../../features/qc-insight/components/procedure-insight-panel.tsx';
 import { RowComments } from '../../../features/lab-review/components/row-comments.tsx';
 import { SignedBanner } from '../../../features/lab-review/components/signoff-panel.tsx';
 import { errorMessage } from '../../../lib/form-errors.ts';
@@ -100,6 +101,13 @@ export default function ReportRowRoute() {
               next.set('target', nextTarget);
               setSearch(next, { replace: true });
             }}
+          />
+          <ProcedureInsightPanel
+            labId={drilldownParams.labId}
+            procedureId={drilldownParams.procedureId}
+            controlLotId={drilldownParams.controlLotId}
+            level={level}
+            canRecord={session.user.role === 'analyst' || session.user.role === 'supervisor'}
           />
           <RowComments
             labId={drilldownParams.labId}
