@@ -102,10 +102,18 @@ export function evaluateQcPlan(plan: QcPlan, shift: number, simulations = 4000, 
   return { ...plan, ped, pfr, method: 'simulation' };
 }
 
+/** Of two plans with as many controls: a single rule first, then the lower Pfr. */
+function better(a: EvaluatedQcPlan, b: EvaluatedQcPlan): boolean {
+  const singleA = a.method === 'closed form';
+  const singleB = b.method === 'closed form';
+  if (singleA !== singleB) return singleA;
+  return a.pfr < b.pfr;
+}
+
 /**
  * The QC plan with the fewest controls per run group (n · runs) whose Ped at ΔSEcrit is at least
- * `minPed` and whose Pfr is at most `maxPfr`; among plans with that many controls, the one with the
- * lowest Pfr (i.e. the widest limits). When no candidate reaches the targets, the candidate with the
+ * `minPed` and whose Pfr is at most `maxPfr`; among plans with that many controls, a single rule before
+ * a multirule (simpler, and its power is exact), then the lowest Pfr (i.e. the widest limits). When no candidate reaches the targets, the candidate with the
  * highest Ped among those within `maxPfr`, marked not reached.
  *
  * Source: Westgard JO, Six Sigma Quality Design and Control, 2001 (ΔSEcrit and the Ped 0.90 / Pfr
@@ -130,7 +138,7 @@ export function recommendQcPlan(sigma: number, options: RecommendQcPlanOptions =
     if (evaluated.pfr > maxPfr) continue;
     if (!strongest || evaluated.ped > strongest.ped) strongest = evaluated;
     if (evaluated.ped < minPed) continue;
-    if (!best || evaluated.pfr < best.pfr) best = evaluated;
+    if (!best || better(evaluated, best)) best = evaluated;
     bestTotal = total;
   }
   if (!strongest) fail(fn, `no candidate plan has Pfr ≤ ${maxPfr}`);

@@ -14,7 +14,7 @@ const coordinatorItems = [
   'Participation',
   'Audit log',
 ];
-const labItems = ['Overview', 'Uploads', 'Peer report'];
+const labItems = ['Overview', 'Uploads', 'Peer report', 'QC plan'];
 const supervisorItems = ['Procedures', 'Lab administration'];
 
 async function navigationLinkNames(role: Role, url: string): Promise<string[]> {
