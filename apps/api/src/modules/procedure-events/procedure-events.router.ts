@@ -71,6 +71,13 @@ export function procedureEventsRouter(
         principalOf(req),
         String(req.params.labId),
         String(req.params.procedureId),
+        {
+          controlLotId: typeof req.query.controlLotId === 'string' ? req.query.controlLotId : undefined,
+          level:
+            typeof req.query.level === 'string' && /^\d{1,2}$/.test(req.query.level)
+              ? Number(req.query.level)
+              : undefined,
+        },
       ),
     );
   });

@@ -43,6 +43,7 @@ export async function procedureShifts(
   principal: Principal,
   labId: string,
   procedureId: string,
+  only: { controlLotId?: string; level?: number } = {},
 ): Promise<ProcedureShifts> {
   await visibleLab(db, principal, labId);
   const procedure = UUID.test(procedureId) ? await repo.findProcedure(db, labId, procedureId) : null;
@@ -53,6 +54,8 @@ export async function procedureShifts(
   const shifts: DetectedShiftItem[] = [];
   for (const key of await repo.seriesKeys(db, procedure.id)) {
     if (!key.latest) continue;
+    if (only.controlLotId !== undefined && key.controlLotId !== only.controlLotId) continue;
+    if (only.level !== undefined && key.level !== only.level) continue;
     const lot = await findControlLot(db, key.controlLotId);
     if (!lot) continue;
     const drilldown = await buildDrilldown(

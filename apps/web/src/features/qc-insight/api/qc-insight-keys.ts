@@ -40,11 +40,16 @@ export const qcInsightKeys = {
           signal,
         }),
     }),
-  shifts: (labId: string, procedureId: string) =>
+  /** Shifts of one control lot and level of the procedure. */
+  shifts: (labId: string, procedureId: string, controlLotId: string, level: number) =>
     queryOptions({
-      queryKey: [...qcInsightKeys.all, 'shifts', labId, procedureId] as const,
+      queryKey: [...qcInsightKeys.all, 'shifts', labId, procedureId, controlLotId, level] as const,
       queryFn: ({ signal }) =>
-        apiRequest(`${procedure(labId, procedureId)}/shifts`, { schema: procedureShiftsSchema, signal }),
+        apiRequest(`${procedure(labId, procedureId)}/shifts`, {
+          schema: procedureShiftsSchema,
+          query: { controlLotId, level },
+          signal,
+        }),
     }),
   qcPlan: (labId: string) =>
     queryOptions({

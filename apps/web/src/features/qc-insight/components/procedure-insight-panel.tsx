@@ -38,9 +38,10 @@ export function ProcedureInsightPanel({
   canRecord: boolean;
 }) {
   const queryClient = useQueryClient();
-  const shifts = useQuery(qcInsightKeys.shifts(labId, procedureId));
+  const shifts = useQuery(qcInsightKeys.shifts(labId, procedureId, controlLotId, level));
   const events = useQuery(qcInsightKeys.events(labId, procedureId));
-  const plan = useQuery(qcInsightKeys.qcPlan(labId));
+  // The plan page's figures take longest; asked for once the shifts are in.
+  const plan = useQuery({ ...qcInsightKeys.qcPlan(labId), enabled: shifts.data !== undefined });
   const [occurredOn, setOccurredOn] = useState('');
   const [kind, setKind] = useState<ProcedureEventKind>('reagent-lot');
   const [note, setNote] = useState('');
@@ -99,7 +100,9 @@ export function ProcedureInsightPanel({
       ) : null}
       <div>
         <h3 className="font-medium text-slate-900">Detected shifts</h3>
-        {found.length === 0 ? (
+        {shifts.isPending ? (
+          <p className="text-sm text-slate-600">Looking for shifts…</p>
+        ) : found.length === 0 ? (
           <p className="text-sm text-slate-600">No shift detected in this lot and level.</p>
         ) : (
           <ul className="mt-2 space-y-2" data-testid="detected-shifts">
