@@ -154,10 +154,18 @@ describe.skipIf(!chromiumAvailable())('a shift after a reagent-lot change, and t
       await page.getByRole('button', { name: 'Upload and check the file' }).click();
       await page.getByText('Stored: 4 rows accepted').waitFor({ timeout: 60_000 });
 
-      // December's drill-down: the shift, annotated with the event.
-      await page.goto(drilldown(PERIOD));
+      // December's drill-down: the shift, annotated with the event. The worker recomputes December's peer
+      // figures after storing, so the page is reloaded until they are in.
       const shifts = page.getByTestId('detected-shifts');
-      await shifts.waitFor({ timeout: 60_000 });
+      for (let attempt = 0; attempt < 30; attempt++) {
+        await page.goto(drilldown(PERIOD));
+        await page
+          .getByText(/No shift detected|SDI shifted/)
+          .first()
+          .waitFor({ timeout: 60_000 });
+        if ((await shifts.count()) > 0) break;
+        await page.waitForTimeout(1000);
+      }
       const text = await shifts.innerText();
       expect(text).toMatch(/SDI shifted up/);
       expect(text).toContain('Reagent lot change on 2026-12-02 (Reagent lot NX-204 opened)');

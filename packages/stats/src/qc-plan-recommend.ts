@@ -146,8 +146,11 @@ export function recommendQcPlan(sigma: number, options: RecommendQcPlanOptions =
   const reached = best !== null;
   const describe = `${plan.rules.join('/')} with ${plan.n} control${plan.n > 1 ? 's' : ''} per run${plan.runs > 1 ? ` over ${plan.runs} runs` : ''}`;
   const figures = `Ped ${plan.ped.toFixed(2)} at ΔSEcrit ${deltaSeCrit.toFixed(2)}, Pfr ${plan.pfr.toFixed(3)}`;
-  const explanation = reached
-    ? `σ ${sigma.toFixed(1)}: ${describe} is the plan with the fewest controls that detects the critical shift with probability ≥ ${minPed} and rejects good runs with probability ≤ ${maxPfr} (${figures}).`
-    : `σ ${sigma.toFixed(1)}: no candidate plan reaches Ped ≥ ${minPed} with Pfr ≤ ${maxPfr}; ${describe} detects best (${figures}). Improve the procedure's imprecision or bias, or add controls and runs beyond the candidates.`;
+  const explanation =
+    deltaSeCrit <= 0
+      ? `σ ${sigma.toFixed(1)}: below 1.65 sigma more than 5 % of results exceed TEa even without a shift, so no QC plan can make the procedure fit for purpose; improve its imprecision or bias. ${describe} is the most powerful candidate (${figures}).`
+      : reached
+        ? `σ ${sigma.toFixed(1)}: ${describe} is the plan with the fewest controls that detects the critical shift with probability ≥ ${minPed} and rejects good runs with probability ≤ ${maxPfr} (${figures}).`
+        : `σ ${sigma.toFixed(1)}: no candidate plan reaches Ped ≥ ${minPed} with Pfr ≤ ${maxPfr}; ${describe} detects best (${figures}). Improve the procedure's imprecision or bias, or add controls and runs beyond the candidates.`;
   return { deltaSeCrit, plan, reached, explanation };
 }

@@ -77,6 +77,12 @@ describe('criticalSystematicError and recommendQcPlan', () => {
     expect(controls(six) < controls(three) || six.plan.pfr < three.plan.pfr).toBe(true);
   });
 
+  it('when sigma is below 1.65, then no plan is reached and the explanation says the procedure must improve', () => {
+    const low = recommendQcPlan(1.2, { simulations: 500 });
+    expect(low.reached).toBe(false);
+    expect(low.explanation).toMatch(/no QC plan can make the procedure fit for purpose/);
+  });
+
   it('when the thresholds are settings, then a stricter Ped needs at least as many controls', () => {
     const usual = recommendQcPlan(4.5);
     const strict = recommendQcPlan(4.5, { minPed: 0.99 });
