@@ -20,8 +20,9 @@ const SIMULATIONS = 1000;
 const recommendations = new Map<string, QcPlanRecommendation>();
 
 function recommendationFor(sigma: number, minPed: number, maxPfr: number): QcPlanRecommendation {
-  // Beyond 8 sigma every candidate detects the critical shift; below 1.65 there is no critical shift.
-  const rounded = Math.round(Math.min(8, Math.max(1.65, sigma)) * 20) / 20;
+  // Beyond 8 sigma every candidate detects the critical shift; below 1.65 there is no critical shift
+  // (every such sigma gets the same plan, so the cache stays small).
+  const rounded = Math.round(Math.min(8, Math.max(-5, sigma)) * 20) / 20;
   const key = `${rounded}|${minPed}|${maxPfr}`;
   let found = recommendations.get(key);
   if (!found) {
