@@ -87,7 +87,8 @@ export function authenticate(
     const token = bearerToken(req.headers.authorization);
     if (!token) return next(unauthenticated('Sign in to continue: no session token was sent.'));
     if (looksLikeLabToken(token)) {
-      if (!options.allowLabTokens) return next(forbidden('Lab API tokens may only upload files and record procedure events.'));
+      if (!options.allowLabTokens)
+        return next(forbidden('Lab API tokens may only upload files and record procedure events.'));
       principalFromLabToken(db, token).then((principal) => {
         if (!principal) return next(unauthenticated('This lab API token is unknown or has been revoked.'));
         req.user = { principal };
