@@ -157,7 +157,8 @@ describe.skipIf(!chromiumAvailable())('a shift after a reagent-lot change, and t
       // December's drill-down: the shift, annotated with the event. The worker recomputes December's peer
       // figures after storing, so the page is reloaded until they are in.
       const shifts = page.getByTestId('detected-shifts');
-      for (let attempt = 0; attempt < 30; attempt++) {
+      // Up to two minutes: under a full test run the recompute waits its turn.
+      for (const deadline = Date.now() + 120_000; Date.now() < deadline;) {
         await page.goto(drilldown(PERIOD));
         await page
           .getByText(/No shift detected|SDI shifted/)
