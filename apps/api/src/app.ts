@@ -28,6 +28,7 @@ import { labOverviewRouter } from './modules/lab-overview/lab-overview.router.ts
 import { labReviewRouter } from './modules/lab-review/lab-review.router.ts';
 import { labProceduresRouter } from './modules/lab-procedures/lab-procedures.router.ts';
 import { reportDrilldownRouter } from './modules/report-drilldown/report-drilldown.router.ts';
+import { procedureEventsRouter } from './modules/procedure-events/procedure-events.router.ts';
 import { reportExportRouter } from './modules/report-export/report-export.router.ts';
 import { referenceIntervalsRouter } from './modules/reference-intervals/reference-intervals.router.ts';
 
@@ -38,7 +39,8 @@ export function createApp(deps: AppDeps): Express {
   app.set('trust proxy', 'loopback');
   const passportInstance = configurePassport(deps.db, deps.env.JWT_SECRET);
   const requireUser = authenticate(deps.db, passportInstance);
-  // Lab API tokens are accepted on the upload routes only (POST /uploads, GET /uploads/:id).
+  // Lab API tokens are accepted on the upload routes (POST /uploads, GET /uploads/:id) and for recording
+  // procedure events (POST /labs/:labId/procedure-events and .../procedures/:procedureId/events).
   const requireUploader = authenticate(deps.db, passportInstance, { allowLabTokens: true });
 
   app.use(securityHeaders(deps.env.PUBLIC_URL));
@@ -71,6 +73,7 @@ export function createApp(deps: AppDeps): Express {
   api.use(reportDrilldownRouter(deps, requireUser));
   api.use(reportExportRouter(deps, requireUser));
   api.use(referenceIntervalsRouter(deps, requireUser));
+  api.use(procedureEventsRouter(deps, { requireUser, requireUserOrToken: requireUploader }));
   api.use(notFoundHandler);
   api.use(errorHandler);
   app.use('/api', api);

@@ -16,3 +16,4 @@ export * from './peer-groups.ts';
 export * from './publishing.ts';
 export * from './lab-workspace.ts';
 export * from './reference-intervals.ts';
+export * from './qc-insight.ts';

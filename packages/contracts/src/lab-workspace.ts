@@ -52,6 +52,8 @@ export const attentionKinds = [
   'warning-flags',
   /** Report rows whose comparison cannot be computed. */
   'rows-not-computable',
+  /** A procedure's monthly SDI shifted (signalled in the latest period), with the nearest earlier event. */
+  'shift-detected',
 ] as const;
 export const attentionItemSchema = z.object({
   kind: z.enum(attentionKinds),

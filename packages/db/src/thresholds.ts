@@ -14,6 +14,10 @@ const thresholdsSchema = z.object({
   INGEST_MAX_N: z.coerce.number().int().min(2).max(10_000_000).default(10_000),
   /** Row errors kept per upload; `rowsRejected` still counts them all. */
   INGEST_MAX_ROW_ERRORS: z.coerce.number().int().min(1).max(100_000).default(1000),
+  /** A recommended QC plan detects the critical shift with at least this probability (Westgard: 0.90). */
+  QC_PLAN_MIN_PED: z.coerce.number().gt(0).lt(1).default(0.9),
+  /** A recommended QC plan rejects a good run with at most this probability (Westgard: 0.05). */
+  QC_PLAN_MAX_PFR: z.coerce.number().gt(0).lt(1).default(0.05),
 });
 
 export type Thresholds = {
@@ -21,6 +25,8 @@ export type Thresholds = {
   maxCvPct: number;
   maxN: number;
   maxRowErrors: number;
+  qcPlanMinPed: number;
+  qcPlanMaxPfr: number;
 };
 
 /** The thresholds in `source` (an environment); throws with every bad variable named. */
@@ -40,6 +46,8 @@ export function parseThresholds(source: Record<string, string | undefined>): Thr
     maxCvPct: t.INGEST_MAX_CV_PCT,
     maxN: t.INGEST_MAX_N,
     maxRowErrors: t.INGEST_MAX_ROW_ERRORS,
+    qcPlanMinPed: t.QC_PLAN_MIN_PED,
+    qcPlanMaxPfr: t.QC_PLAN_MAX_PFR,
   };
 }
 

@@ -26,3 +26,6 @@ export * from './harmonise-intervals.ts';
 export * from './indirect-interval.ts';
 export * from './bhattacharya.ts';
 export * from './random.ts';
+export * from './detect-shifts.ts';
+export * from './qc-plan.ts';
+export * from './qc-plan-recommend.ts';

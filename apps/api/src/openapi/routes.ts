@@ -154,4 +154,11 @@ export const routeDocs: RouteDoc[] = [
   { method: 'get', path: '/reference-intervals/verifications/:id', tag: 'Reference intervals', summary: 'One verification with its rounds', auth: U, response: c.verificationSchema },
   { method: 'post', path: '/reference-intervals/verifications/:id/rounds', tag: 'Reference intervals', summary: 'Add a round of 20 more results', auth: U, body: c.verificationRoundInputSchema, response: c.verificationSchema },
   { method: 'post', path: '/reference-intervals/verifications/:id/approve', tag: 'Reference intervals', summary: 'Approve a verification record (supervisor)', auth: U, body: c.approvalInputSchema, response: c.verificationSchema },
+  { method: 'get', path: '/labs/:labId/procedure-events', tag: 'QC insight', summary: 'Events recorded on the lab\'s procedures', auth: U, response: z.array(c.procedureEventSchema) },
+  { method: 'post', path: '/labs/:labId/procedure-events', tag: 'QC insight', summary: 'Record procedure events from a CSV (procedure,date,kind,note); all or nothing', auth: 'user-or-lab-token', bodyKind: 'csv', status: 201, response: c.procedureEventImportSchema },
+  { method: 'get', path: '/labs/:labId/procedures/:procedureId/events', tag: 'QC insight', summary: 'Events recorded on one procedure', auth: U, response: z.array(c.procedureEventSchema) },
+  { method: 'post', path: '/labs/:labId/procedures/:procedureId/events', tag: 'QC insight', summary: 'Record an event on a procedure', auth: 'user-or-lab-token', body: c.procedureEventCreateSchema, status: 201, response: c.procedureEventSchema },
+  { method: 'get', path: '/labs/:labId/procedures/:procedureId/shifts', tag: 'QC insight', summary: 'Shifts detected in the procedure\'s monthly SDI, with the events before them', auth: U, query: z.object({ controlLotId: c.uuidSchema.optional(), level: z.string().optional() }), response: c.procedureShiftsSchema },
+  { method: 'get', path: '/labs/:labId/qc-plan', tag: 'QC insight', summary: 'Sigma, current and recommended QC plan of every procedure and level', auth: U, response: c.qcPlanPageSchema },
+  { method: 'put', path: '/labs/:labId/qc-plan/:procedureId/:level', tag: 'QC insight', summary: 'Enter the QC plan a procedure and level uses today', auth: U, body: c.qcPlanInputSchema },
 ];

@@ -49,6 +49,7 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
                 { path: paths.lab.uploads.path, lazy: page(() => import('./routes/lab/uploads.tsx')) },
                 { path: paths.lab.peerReport.path, lazy: page(() => import('./routes/lab/peer-report.tsx')) },
                 { path: paths.lab.reportRow.path, lazy: page(() => import('./routes/lab/report-row.tsx')) },
+                { path: paths.lab.qcPlan.path, lazy: page(() => import('./routes/lab/qc-plan.tsx')) },
                 {
                   path: paths.lab.riStudies.path,
                   lazy: page(() => import('./routes/lab/reference-intervals/studies.tsx')),

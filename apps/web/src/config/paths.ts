@@ -60,6 +60,8 @@ export const paths = {
         ),
     },
     procedures: { path: '/lab/procedures', getHref: () => '/lab/procedures' },
+    /** Sigma, plan in use and recommended QC plan of every procedure and level. */
+    qcPlan: { path: '/lab/qc-plan', getHref: () => '/lab/qc-plan' },
     administration: { path: '/lab/administration', getHref: () => '/lab/administration' },
     riStudies: { path: '/lab/reference-intervals', getHref: () => '/lab/reference-intervals' },
     riNewStudy: { path: '/lab/reference-intervals/new', getHref: () => '/lab/reference-intervals/new' },

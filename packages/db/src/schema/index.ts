@@ -10,3 +10,4 @@ export * from './review.ts';
 export * from './audit.ts';
 export * from './invitations.ts';
 export * from './reference-intervals.ts';
+export * from './procedure-events.ts';

@@ -8,6 +8,7 @@ import { findSignoff, visibleLab } from '../lab-review/lab-scope.ts';
 import { toSignoff } from '../lab-review/lab-review.service.ts';
 import { findSignoffWithSigner } from '../lab-review/lab-review.repository.ts';
 import * as repo from './lab-overview.repository.ts';
+import { shiftsSignalledIn } from '../procedure-events/procedure-shifts.service.ts';
 
 const DAY_MS = 24 * 60 * 60 * 1000;
 /** Deadline this close (or past) turns a reminder into a warning (common practice, a choice of ours). */
@@ -218,6 +219,8 @@ export async function labOverview(
     }
   }
 
+  if (flags) attention.push(...(await shiftAttention(db, principal, labId, flags.period)));
+
   attention.sort((a, b) => attentionRank[a.severity] - attentionRank[b.severity]);
   return {
     lab: { id: lab.id, code: lab.code, name: lab.name, preferredUnits: lab.preferredUnits },
@@ -226,4 +229,28 @@ export async function labOverview(
     recentUploads,
     attention,
   };
+}
+
+/** Shifts of the lab's procedures signalled in `period`, each with the nearest earlier recorded event. */
+async function shiftAttention(
+  db: Database,
+  principal: Principal,
+  labId: string,
+  period: string,
+): Promise<AttentionItem[]> {
+  return (await shiftsSignalledIn(db, principal, labId, period)).map(({ procedureCode, shift }) => {
+    const event = shift.events[0];
+    return item({
+      kind: 'shift-detected',
+      severity: 'warning',
+      period,
+      count: null,
+      message:
+        `${procedureCode} (lot ${shift.controlLot}, level ${shift.level}): SDI shifted ${shift.direction} by ` +
+        `${Math.abs(shift.sizeSdi).toFixed(1)} from ${shift.period}` +
+        (event
+          ? `; recorded before it: ${event.kind} on ${event.occurredOn}${event.note ? ` (${event.note})` : ''}.`
+          : '; no event recorded before it.'),
+    });
+  });
 }

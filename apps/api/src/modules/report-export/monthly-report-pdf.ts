@@ -3,6 +3,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import type {
   Comment,
+  DetectedShiftItem,
   Drilldown,
   PeerReport,
   PeerReportRow,
@@ -22,6 +23,8 @@ export type MonthlyReportData = {
   comments: Comment[];
   signoff: Signoff | null;
   generatedAt: Date;
+  /** Shifts of the lab's monthly SDI signalled in this period, with the events recorded before them. */
+  shifts?: { procedureCode: string; shift: DetectedShiftItem }[];
 };
 
 export const REPORT_CAUTION =
@@ -250,6 +253,20 @@ export function renderMonthlyReportPdf(data: MonthlyReportData): Promise<Buffer>
         row.cumulative.notComputable && `lot to date: ${row.cumulative.notComputable.reason}`,
       ].filter(Boolean);
       paragraph(`${rowLabel(row)}: ${reasons.join(' ')}`, { size: 8.5 });
+    }
+  }
+
+  // Shifts of the monthly SDI signalled this month (methods.md §8), with the events recorded before them.
+  if (data.shifts && data.shifts.length > 0) {
+    heading('Detected shifts');
+    for (const { procedureCode, shift } of data.shifts) {
+      const events = shift.events.map((e) => `${e.kind} on ${e.occurredOn}${e.note ? ` (${e.note})` : ''}`);
+      paragraph(
+        `${procedureCode} · lot ${shift.controlLot} · level ${shift.level}: SDI shifted ${shift.direction} by ` +
+          `${Math.abs(shift.sizeSdi).toFixed(1)} from ${shift.period}. ` +
+          (events.length > 0 ? `Recorded before it: ${events.join('; ')}.` : 'No event recorded before it.'),
+        { size: 8.5 },
+      );
     }
   }
 

@@ -1,3 +1,4 @@
+import { shiftsSignalledIn } from '../procedure-events/procedure-shifts.service.ts';
 import type { UnitSystem } from '@plumbline/contracts';
 import type { AppDeps } from '../../deps.ts';
 import type { Principal } from '../../auth/principal.ts';
@@ -82,7 +83,9 @@ export async function monthlyReportPdf(
   }
   const comments = await listComments(deps.db, principal, labId, period);
   const { signoff } = await getPeriodSignoff(deps.db, principal, labId, period);
+  const shifts = await shiftsSignalledIn(deps.db, principal, labId, period);
   const body = await renderMonthlyReportPdf({
+    shifts,
     report,
     flagged,
     flaggedNotCharted: Math.max(0, flaggedRows.length - MAX_CHARTED_ROWS),

@@ -67,6 +67,9 @@ describe('the monthly PDF report', () => {
     // Lab A has daily values in March, so the flagged glucose rows carry a control chart with their violations.
     expect(text).toContain('Control chart, 2026-03');
     expect(text).toContain('1-3s');
+    // March's SDI jump of lab A's glucose (about 3.4 SDI) is listed as a detected shift (methods.md §8).
+    expect(text).toContain('Detected shifts');
+    expect(text).toMatch(/GLU1 · lot .* SDI shifted up by/);
   });
 
   it('when a signed period is downloaded, then the PDF holds the lab’s SDIs, the comments, the sign-off and the caution', async () => {

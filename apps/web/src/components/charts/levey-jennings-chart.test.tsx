@@ -119,4 +119,23 @@ describe('LeveyJenningsChart', () => {
       expect(within(rows[index]).getByText(point.value.toFixed(3))).toBeTruthy();
     }
   });
+
+  it('when events are recorded, then those within the chart’s days are marked on the time axis, and others are not', () => {
+    render(
+      <LeveyJenningsChart
+        points={points}
+        target={target}
+        targetLabel="your lab's established figures"
+        unit="mmol/L"
+        decimals={2}
+        level={1}
+        events={[
+          { day: '2026-11-10', label: 'Reagent lot change on 2026-11-10' },
+          { day: '2026-09-01', label: 'Maintenance on 2026-09-01' },
+        ]}
+      />,
+    );
+    const marks = screen.getByTestId('levey-jennings-level-1').querySelectorAll('[data-mark="event"]');
+    expect([...marks].map((m) => m.getAttribute('data-day'))).toEqual(['2026-11-10']);
+  });
 });

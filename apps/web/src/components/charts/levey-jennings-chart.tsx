@@ -85,7 +85,10 @@ export function LeveyJenningsChart({
   level,
   title = `Control chart, level ${level}`,
   headingLevel,
+  events = [],
 }: {
+  /** Recorded events of the procedure ('YYYY-MM-DD'), marked on the time axis when within the chart. */
+  events?: readonly { day: string; label: string }[];
   /** In time order. */
   points: readonly ControlChartPoint[];
   target: ControlTarget;
@@ -210,6 +213,25 @@ export function LeveyJenningsChart({
         format={(v: number) => v.toFixed(Math.max(0, decimals))}
         label={unit}
       />
+      <g>
+        {events
+          .map((event) => ({ event, at: x(new Date(`${event.day}T12:00:00Z`)) }))
+          .filter(({ at }) => at >= area.left && at <= area.right)
+          .map(({ event, at }, index) => (
+            <g key={`${event.day}-${index}`} data-mark="event" data-day={event.day}>
+              <title>{event.label}</title>
+              <line
+                x1={at}
+                x2={at}
+                y1={area.top}
+                y2={area.bottom}
+                stroke="var(--color-slate-500)"
+                strokeDasharray="6 3"
+                strokeWidth={1.5}
+              />
+            </g>
+          ))}
+      </g>
       <g aria-hidden="true">
         {guides.map((guide) => (
           <g key={guide.k}>

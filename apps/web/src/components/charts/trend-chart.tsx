@@ -71,7 +71,10 @@ export function TrendChart({
   title,
   headingLevel,
   thresholds = measure === 'sdi' ? DEFAULT_SDI_THRESHOLDS : DEFAULT_CVR_THRESHOLDS,
+  marks = [],
 }: {
+  /** Vertical marks on the time axis (a detected shift, a recorded event), with a short label. */
+  marks?: readonly { period: string; label: string; kind: 'shift' | 'event' }[];
   /** Oldest first. */
   points: readonly TrendChartPoint[];
   measure: TrendMeasure;
@@ -226,6 +229,32 @@ export function TrendChart({
           />
         ))}
         <path d={path} fill="none" stroke="var(--color-plumb-700)" strokeWidth={2} />
+      </g>
+      <g>
+        {marks
+          .filter((mark) => x(mark.period) !== undefined)
+          .map((mark, index) => (
+            <g key={`${mark.kind}-${mark.period}-${index}`} data-mark={mark.kind} data-period={mark.period}>
+              <title>{mark.label}</title>
+              <line
+                x1={x(mark.period)}
+                x2={x(mark.period)}
+                y1={area.top}
+                y2={area.bottom}
+                stroke={mark.kind === 'shift' ? 'var(--color-alarm-700)' : 'var(--color-slate-500)'}
+                strokeDasharray={mark.kind === 'shift' ? '2 2' : '6 3'}
+                strokeWidth={1.5}
+              />
+              <text
+                x={(x(mark.period) ?? 0) + 3}
+                y={area.top + 10 + 12 * (index % 3)}
+                fontSize={10}
+                fill={mark.kind === 'shift' ? 'var(--color-alarm-700)' : 'var(--color-slate-700)'}
+              >
+                {mark.kind === 'shift' ? 'shift' : 'event'}
+              </text>
+            </g>
+          ))}
       </g>
       <g>
         {withValues.map(({ point }, index) => {

@@ -14,7 +14,15 @@ const coordinatorItems = [
   'Participation',
   'Audit log',
 ];
-const labItems = ['Overview', 'Uploads', 'Peer report', 'Studies', 'Current intervals', 'Verifications'];
+const labItems = [
+  'Overview',
+  'Uploads',
+  'Peer report',
+  'QC plan',
+  'Studies',
+  'Current intervals',
+  'Verifications',
+];
 const supervisorItems = ['Procedures', 'Lab administration'];
 
 async function navigationLinkNames(role: Role, url: string): Promise<string[]> {

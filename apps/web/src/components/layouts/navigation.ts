@@ -24,6 +24,7 @@ export const navigationSections: NavigationSection[] = [
       { label: 'Overview', to: paths.lab.overview.getHref(), policy: 'lab', end: true },
       { label: 'Uploads', to: paths.lab.uploads.getHref(), policy: 'lab' },
       { label: 'Peer report', to: paths.lab.peerReport.getHref(), policy: 'lab' },
+      { label: 'QC plan', to: paths.lab.qcPlan.getHref(), policy: 'lab' },
     ],
   },
   {

@@ -10,6 +10,11 @@ import { Spinner } from '../../../components/ui/spinner.tsx';
 import { paths } from '../../../config/paths.ts';
 import { labReviewKeys, type DrilldownParams } from '../../../features/lab-review/api/lab-review-keys.ts';
 import { DrilldownView } from '../../../features/lab-review/components/drilldown-view.tsx';
+import { qcInsightKeys } from '../../../features/qc-insight/api/qc-insight-keys.ts';
+import {
+  eventKindLabels,
+  ProcedureInsightPanel,
+} from '../../../features/qc-insight/components/procedure-insight-panel.tsx';
 import { RowComments } from '../../../features/lab-review/components/row-comments.tsx';
 import { SignedBanner } from '../../../features/lab-review/components/signoff-panel.tsx';
 import { errorMessage } from '../../../lib/form-errors.ts';
@@ -39,6 +44,10 @@ export default function ReportRowRoute() {
   const drilldown = useQuery({ ...labReviewKeys.drilldown(drilldownParams), enabled: valid });
   const comments = useQuery({ ...labReviewKeys.comments(labId ?? '', period), enabled: valid });
   const signoff = useQuery({ ...labReviewKeys.signoff(labId ?? '', period), enabled: valid });
+  const events = useQuery({
+    ...qcInsightKeys.events(labId ?? '', drilldownParams.procedureId),
+    enabled: valid,
+  });
   const backHref = `${paths.lab.peerReport.getHref()}${search.get('back') ? `?${search.get('back')}` : `?period=${encodeURIComponent(period)}`}`;
   const backLink = (
     <Link
@@ -94,12 +103,23 @@ export default function ReportRowRoute() {
           <DrilldownView
             drilldown={data}
             params={drilldownParams}
+            events={(events.data ?? []).map((e) => ({
+              day: e.occurredOn,
+              label: `${eventKindLabels[e.kind]} on ${e.occurredOn}${e.note ? ` (${e.note})` : ''}`,
+            }))}
             onTargetChange={(nextTarget) => {
               setTarget(nextTarget);
               const next = new URLSearchParams(search);
               next.set('target', nextTarget);
               setSearch(next, { replace: true });
             }}
+          />
+          <ProcedureInsightPanel
+            labId={drilldownParams.labId}
+            procedureId={drilldownParams.procedureId}
+            controlLotId={drilldownParams.controlLotId}
+            level={level}
+            canRecord={session.user.role === 'analyst' || session.user.role === 'supervisor'}
           />
           <RowComments
             labId={drilldownParams.labId}

@@ -173,6 +173,7 @@ function attentionLink(item: AttentionItem, links: OverviewLinks): { to: string;
       return links.procedures ? { to: links.procedures, label: 'Register procedures' } : null;
     case 'unsigned-period':
     case 'rows-not-computable':
+    case 'shift-detected':
       return { to: links.report({ period: item.period ?? undefined }), label: 'Open the report' };
     case 'action-flags':
     case 'warning-flags':

@@ -125,10 +125,13 @@ export function DrilldownView({
   drilldown,
   params,
   onTargetChange,
+  events = [],
 }: {
   drilldown: Drilldown;
   params: DrilldownParams;
   onTargetChange: (target: 'lab' | 'peer') => void;
+  /** The procedure's recorded events, marked on the Levey-Jennings chart. */
+  events?: readonly { day: string; label: string }[];
 }) {
   const targetName = useId();
   const lj = drilldown.leveyJennings;
@@ -275,6 +278,7 @@ export function DrilldownView({
               unit={drilldown.unit}
               decimals={drilldown.decimals}
               level={drilldown.level}
+              events={events}
               title={`Levey-Jennings chart, level ${drilldown.level}, ${formatPeriod(drilldown.period)}`}
             />
           </>
