@@ -94,7 +94,8 @@ export function authenticate(
     if (!token) return next(unauthenticated('Sign in to continue: no session token was sent.'));
     // Lab API tokens are machine credentials: accepted as a bearer header only, never from a cookie.
     if (bearer && looksLikeLabToken(bearer)) {
-      if (!options.allowLabTokens) return next(forbidden('Lab API tokens may only upload files and record procedure events.'));
+      if (!options.allowLabTokens)
+        return next(forbidden('Lab API tokens may only upload files and record procedure events.'));
       principalFromLabToken(db, token).then((principal) => {
         if (!principal) return next(unauthenticated('This lab API token is unknown or has been revoked.'));
         req.user = { principal };
