@@ -13,6 +13,7 @@ import {
   unique,
   uuid,
 } from 'drizzle-orm/pg-core';
+import { sql } from 'drizzle-orm';
 import { analytes, controlLots } from './catalogue.ts';
 import { procedures } from './procedures.ts';
 import { users } from './users.ts';
@@ -95,7 +96,13 @@ export const peerStatistics = pgTable(
     members: jsonb().$type<string[]>().notNull().default([]),
     computedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [unique().on(t.peerGroupId, t.level, t.period, t.scope, t.version), index().on(t.period, t.version)],
+  (t) => [
+    unique().on(t.peerGroupId, t.level, t.period, t.scope, t.version),
+    index().on(t.period, t.version),
+    // A report finds the published rows that list its procedures (`members @> '["<id>"]'`) without
+    // reading the member lists of every group of the network.
+    index('peer_statistics_members_gin').using('gin', sql`${t.members} jsonb_path_ops`),
+  ],
 );
 
 /** A coordinator's exclusion of one procedure's data from peer figures for a period, with a reason. */

@@ -1,0 +1,1 @@
+CREATE INDEX "peer_statistics_members_gin" ON "peer_statistics" USING gin ("members" jsonb_path_ops);
