@@ -64,6 +64,7 @@ async function measure(size: number): Promise<Figures> {
     const user = await t.makeUser('coordinator', null);
     const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}/api`;
     const report = (period: string) => `${base}/labs/${lab.rows[0].id}/peer-report?period=${period}`;
+    if (args.has('explain')) await explain(t.db, lab.rows[0].id);
     const healthMs = await costPerRequest(`${base}/health`, user.auth);
     const publishedMs = await costPerRequest(report(PUBLISHED), user.auth);
     const openMs = await costPerRequest(report(OPEN), user.auth);
@@ -72,6 +73,20 @@ async function measure(size: number): Promise<Figures> {
     server.close();
     await t.close();
   }
+}
+
+/** Prints the plan of the published-snapshot lookup of the report (with --explain). */
+async function explain(db: Awaited<ReturnType<typeof createTestApp>>['db'], labId: string) {
+  const plan = await db.execute<{ 'QUERY PLAN': string }>(sql`
+    explain (analyze, buffers)
+    select ps.id, p.procedure_id
+      from published_statistics_members p
+      join peer_statistics ps on ps.id = p.peer_statistics_id
+      join peer_groups g on g.id = ps.peer_group_id
+     where p.procedure_id = any(array(select procedure_id from qc_summaries where lab_id = ${labId} and period = ${PUBLISHED}))
+       and g.control_lot_id in (select control_lot_id from qc_summaries where lab_id = ${labId} and period = ${PUBLISHED})
+       and ps.period = ${PUBLISHED} and ps.version = 1`);
+  for (const row of plan.rows) console.log(`  ${row['QUERY PLAN']}`);
 }
 
 /** Copies the seeded labs (procedures and summaries, means jittered by up to ±1 %) until there are `size` labs. */

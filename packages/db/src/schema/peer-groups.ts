@@ -1,4 +1,5 @@
 import {
+  bigint,
   bigserial,
   boolean,
   doublePrecision,
@@ -13,7 +14,6 @@ import {
   unique,
   uuid,
 } from 'drizzle-orm/pg-core';
-import { sql } from 'drizzle-orm';
 import { analytes, controlLots } from './catalogue.ts';
 import { procedures } from './procedures.ts';
 import { users } from './users.ts';
@@ -99,10 +99,23 @@ export const peerStatistics = pgTable(
   (t) => [
     unique().on(t.peerGroupId, t.level, t.period, t.scope, t.version),
     index().on(t.period, t.version),
-    // A report finds the published rows that list its procedures (`members @> '["<id>"]'`) without
-    // reading the member lists of every group of the network.
-    index('peer_statistics_members_gin').using('gin', sql`${t.members} jsonb_path_ops`),
   ],
+);
+
+/**
+ * The members of each published (version ≥ 1) peer statistics row, one procedure per row: a report finds
+ * the snapshot rows that list its procedures through the procedure index, without reading the member
+ * lists of every group of the network. Written with the snapshot; never changed afterwards.
+ */
+export const publishedStatisticsMembers = pgTable(
+  'published_statistics_members',
+  {
+    procedureId: uuid().notNull(),
+    peerStatisticsId: bigint({ mode: 'number' })
+      .notNull()
+      .references(() => peerStatistics.id, { onDelete: 'cascade' }),
+  },
+  (t) => [primaryKey({ columns: [t.procedureId, t.peerStatisticsId] }), index().on(t.peerStatisticsId)],
 );
 
 /** A coordinator's exclusion of one procedure's data from peer figures for a period, with a reason. */

@@ -156,8 +156,8 @@ export async function peerStatisticsFor(
  * The rows of a published snapshot for these control lots that list one of these procedures as a member,
  * once per such procedure, with the group's tier: a published report places a procedure in the group
  * whose snapshot lists it as a member, so later merges or moves do not change what was published.
- * The membership test runs in the database on the GIN index of the member lists, so only the rows of
- * the lab's own groups are read, however large the network.
+ * Membership is read from the narrow published-members table by procedure, so only the rows of the
+ * lab's own groups are read, however large the network (never the member lists themselves).
  */
 export async function publishedSnapshot(
   db: Executor,
@@ -170,11 +170,12 @@ export async function publishedSnapshot(
   const rows = await db.execute<PeerStatisticsRow & { tier: string; controlLotId: string; procedureId: string }>(sql`
     select ps.peer_group_id as "peerGroupId", ps.level, ps.scope, ps.version, ps.labs, ps.n, ps.mean, ps.sd,
            ps.cv, ps.within_cv as "withinCv", ps.sufficient, ps.excluded,
-           g.tier, g.control_lot_id as "controlLotId", p.id as "procedureId"
-      from unnest(${sql.param(procedureIds)}::text[]) as p(id)
-      join peer_statistics ps on ps.members @> jsonb_build_array(p.id)
+           g.tier, g.control_lot_id as "controlLotId", p.procedure_id as "procedureId"
+      from published_statistics_members p
+      join peer_statistics ps on ps.id = p.peer_statistics_id
       join peer_groups g on g.id = ps.peer_group_id
-     where g.control_lot_id = any(${sql.param(lotIds)}::uuid[])
+     where p.procedure_id = any(${sql.param(procedureIds)}::uuid[])
+       and g.control_lot_id = any(${sql.param(lotIds)}::uuid[])
        and ps.period = ${period} and ps.version = ${version}
      order by ps.id`);
   return rows.rows;

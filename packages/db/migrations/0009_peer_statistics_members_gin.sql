@@ -1,1 +1,0 @@
-CREATE INDEX "peer_statistics_members_gin" ON "peer_statistics" USING gin ("members" jsonb_path_ops);
