@@ -137,8 +137,8 @@ export async function resolvePeerMembership(
 }
 
 /**
- * resolvePeerMembership (without creating groups) for several control lots at once, in three queries
- * whatever the number of lots: `procedureIdsByLot` maps each control lot to the procedures to place.
+ * resolvePeerMembership (without creating groups) for several control lots at once, in three parallel
+ * queries whatever the number of lots: `procedureIdsByLot` maps each control lot to the procedures to place.
  * Reads only the lots' groups of those procedures' analytes and those procedures' assignments.
  */
 export async function resolvePeerMembershipByLot(
@@ -149,15 +149,15 @@ export async function resolvePeerMembershipByLot(
   const procedureIds = [...new Set([...procedureIdsByLot.values()].flat())];
   if (procedureIds.length === 0) return result;
   const lotIds = [...procedureIdsByLot.keys()];
-  const parts = await loadPeerKeyParts(db, procedureIds);
-  const analyteIds = [...new Set(parts.map((p) => p.analyteId))];
-  const [groups, assignments] = await Promise.all([
+  // The three reads are independent: the groups are those of the procedures' analytes, found in SQL.
+  const [parts, groups, assignments] = await Promise.all([
+    loadPeerKeyParts(db, procedureIds),
     db.execute<PeerGroupRow & { controlLotId: string }>(sql`
       select id, control_lot_id as "controlLotId", analyte_id as "analyteId", tier, key, label,
              merged_into_id as "mergedIntoId"
         from peer_groups
        where control_lot_id = any(${sql.param(lotIds)}::uuid[])
-         and analyte_id = any(${sql.param(analyteIds)}::uuid[])`),
+         and analyte_id in (select analyte_id from procedures where id = any(${sql.param(procedureIds)}::uuid[]))`),
     db.execute<PeerAssignmentRow & { controlLotId: string }>(sql`
       select procedure_id as "procedureId", control_lot_id as "controlLotId", tier, peer_group_id as "peerGroupId"
         from peer_group_assignments

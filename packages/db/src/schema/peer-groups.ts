@@ -96,10 +96,7 @@ export const peerStatistics = pgTable(
     members: jsonb().$type<string[]>().notNull().default([]),
     computedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [
-    unique().on(t.peerGroupId, t.level, t.period, t.scope, t.version),
-    index().on(t.period, t.version),
-  ],
+  (t) => [unique().on(t.peerGroupId, t.level, t.period, t.scope, t.version), index().on(t.period, t.version)],
 );
 
 /**

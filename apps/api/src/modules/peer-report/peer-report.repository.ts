@@ -167,7 +167,9 @@ export async function publishedSnapshot(
   version: number,
 ): Promise<(PeerStatisticsRow & { tier: string; controlLotId: string; procedureId: string })[]> {
   if (lotIds.length === 0 || procedureIds.length === 0 || version === 0) return [];
-  const rows = await db.execute<PeerStatisticsRow & { tier: string; controlLotId: string; procedureId: string }>(sql`
+  const rows = await db.execute<
+    PeerStatisticsRow & { tier: string; controlLotId: string; procedureId: string }
+  >(sql`
     select ps.peer_group_id as "peerGroupId", ps.level, ps.scope, ps.version, ps.labs, ps.n, ps.mean, ps.sd,
            ps.cv, ps.within_cv as "withinCv", ps.sufficient, ps.excluded,
            g.tier, g.control_lot_id as "controlLotId", p.procedure_id as "procedureId"

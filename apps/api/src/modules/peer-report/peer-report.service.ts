@@ -51,17 +51,18 @@ export async function buildPeerReport(
   settings: PeerReportSettings = {},
 ): Promise<PeerReport> {
   assertLabAccess(principal, labId);
-  const lab = UUID.test(labId) ? await repo.findLab(db, labId) : null;
-  if (!lab) throw notFound('Lab');
-  const minLabs = settings.minLabs ?? thresholds().peerMinLabs;
-  const units: UnitSystem = settings.units ?? (lab.preferredUnits === 'conventional' ? 'conventional' : 'si');
-
-  // Every query reads only the lab's own rows and its groups' figures; independent ones run together.
-  const [publication, summaries, statisticsPending] = await Promise.all([
+  if (!UUID.test(labId)) throw notFound('Lab');
+  // Every query reads only the lab's own rows and its groups' figures; independent ones run together
+  // (three round trips in all).
+  const [lab, publication, summaries, statisticsPending] = await Promise.all([
+    repo.findLab(db, labId),
     repo.latestPublication(db, period),
     repo.labSummaries(db, labId, period),
     hasPendingPeerStatistics(db, period),
   ]);
+  if (!lab) throw notFound('Lab');
+  const minLabs = settings.minLabs ?? thresholds().peerMinLabs;
+  const units: UnitSystem = settings.units ?? (lab.preferredUnits === 'conventional' ? 'conventional' : 'si');
   const version = publication?.version ?? 0;
   const procedureIds = [...new Set(summaries.map((s) => s.procedureId))];
 
@@ -89,7 +90,10 @@ export async function buildPeerReport(
     version === 0 ? repo.statisticsFailuresFor(db, [...groupIds], period) : [],
   ]);
 
-  const statisticsByKey = firstByKey(statistics, (r) => `${r.peerGroupId}|${r.level}|${r.scope}|${r.version}`);
+  const statisticsByKey = firstByKey(
+    statistics,
+    (r) => `${r.peerGroupId}|${r.level}|${r.scope}|${r.version}`,
+  );
   const statisticsOf = (groupId: string, level: number, scope: 'period' | 'cumulative') => {
     const at = (v: number) => statisticsByKey.get(`${groupId}|${level}|${scope}|${v}`);
     // Lot-to-date figures fall back to the provisional ones when a snapshot holds none.
