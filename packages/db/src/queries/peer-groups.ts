@@ -137,6 +137,53 @@ export async function resolvePeerMembership(
 }
 
 /**
+ * resolvePeerMembership (without creating groups) for several control lots at once, in three parallel
+ * queries whatever the number of lots: `procedureIdsByLot` maps each control lot to the procedures to place.
+ * Reads only the lots' groups of those procedures' analytes and those procedures' assignments.
+ */
+export async function resolvePeerMembershipByLot(
+  db: Executor,
+  procedureIdsByLot: ReadonlyMap<string, readonly string[]>,
+): Promise<Map<string, PeerMembership>> {
+  const result = new Map<string, PeerMembership>();
+  const procedureIds = [...new Set([...procedureIdsByLot.values()].flat())];
+  if (procedureIds.length === 0) return result;
+  const lotIds = [...procedureIdsByLot.keys()];
+  // The three reads are independent: the groups are those of the procedures' analytes, found in SQL.
+  const [parts, groups, assignments] = await Promise.all([
+    loadPeerKeyParts(db, procedureIds),
+    db.execute<PeerGroupRow & { controlLotId: string }>(sql`
+      select id, control_lot_id as "controlLotId", analyte_id as "analyteId", tier, key, label,
+             merged_into_id as "mergedIntoId"
+        from peer_groups
+       where control_lot_id = any(${sql.param(lotIds)}::uuid[])
+         and analyte_id in (select analyte_id from procedures where id = any(${sql.param(procedureIds)}::uuid[]))`),
+    db.execute<PeerAssignmentRow & { controlLotId: string }>(sql`
+      select procedure_id as "procedureId", control_lot_id as "controlLotId", tier, peer_group_id as "peerGroupId"
+        from peer_group_assignments
+       where control_lot_id = any(${sql.param(lotIds)}::uuid[])
+         and procedure_id = any(${sql.param(procedureIds)}::uuid[])`),
+  ]);
+  const partById = new Map(parts.map((p) => [p.id, p]));
+  for (const [lotId, ids] of procedureIdsByLot) {
+    const lotParts = ids.map((id) => partById.get(id)).filter((p): p is PeerKeyParts => p !== undefined);
+    // As resolvePeerMembership: the lot's groups of the analytes of the procedures placed in it.
+    const lotAnalytes = new Set(lotParts.map((p) => p.analyteId));
+    result.set(
+      lotId,
+      lotParts.length === 0
+        ? new Map()
+        : membershipFromRows(
+            lotParts,
+            groups.rows.filter((g) => g.controlLotId === lotId && lotAnalytes.has(g.analyteId)),
+            assignments.rows.filter((a) => a.controlLotId === lotId),
+          ),
+    );
+  }
+  return result;
+}
+
+/**
  * The membership rule of resolvePeerMembership on rows already read: `groups` must hold the lot's groups
  * of the parts' analytes, `assignments` the lot's assignments.
  */

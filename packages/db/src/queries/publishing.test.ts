@@ -1,8 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { and, eq } from 'drizzle-orm';
+import { and, eq, gt } from 'drizzle-orm';
 import { createScratchDatabase, type ScratchDatabase } from '../testing.ts';
 import { createQcCatalogue, type QcCatalogue } from '../qc-fixtures.ts';
-import { peerStatistics } from '../schema/peer-groups.ts';
+import { peerStatistics, publishedStatisticsMembers } from '../schema/peer-groups.ts';
 import { periods, publications } from '../schema/periods.ts';
 import { qcSummaries } from '../schema/qc-data.ts';
 import { auditEvents } from '../schema/audit.ts';
@@ -82,5 +82,19 @@ describe('publishing periods', () => {
     expect(second.statistics).toBe(first.statistics);
     expect((await rowsOf('2026-02', 1)).length).toBe(first.statistics);
     expect((await rowsOf('2026-02', 2)).length).toBe(first.statistics);
+  });
+
+  it('when a period is published, then each snapshot row lists its members in the narrow members table', async () => {
+    // Consistency of two stores of the same fact (no outside source): the table the report reads must
+    // hold exactly the member list frozen in each published row.
+    const published = await scratch.db.select().from(peerStatistics).where(gt(peerStatistics.version, 0));
+    expect(published.length).toBeGreaterThan(0);
+    const narrow = await scratch.db.select().from(publishedStatisticsMembers);
+    expect(narrow.length).toBeGreaterThan(0);
+    for (const row of published) {
+      const listed = narrow.filter((m) => m.peerStatisticsId === row.id).map((m) => m.procedureId);
+      expect(listed.sort()).toEqual([...new Set(row.members)].sort());
+    }
+    expect(narrow.length).toBe(published.reduce((sum, row) => sum + new Set(row.members).size, 0));
   });
 });

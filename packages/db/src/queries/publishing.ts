@@ -86,6 +86,13 @@ export async function publishPeriod(
              robust_mean, robust_sd, sufficient, excluded, members, computed_at
       from peer_statistics
       where period = ${period} and version = 0`);
+    // Reports find a procedure's snapshot rows through this narrow table, not the member lists.
+    await tx.execute(sql`
+      insert into published_statistics_members (procedure_id, peer_statistics_id)
+      select distinct m.id::uuid, ps.id
+        from peer_statistics ps
+       cross join lateral jsonb_array_elements_text(ps.members) as m(id)
+       where ps.period = ${period} and ps.version = ${version}`);
 
     const [publication] = await tx
       .insert(publications)

@@ -1,4 +1,5 @@
 import {
+  bigint,
   bigserial,
   boolean,
   doublePrecision,
@@ -96,6 +97,22 @@ export const peerStatistics = pgTable(
     computedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [unique().on(t.peerGroupId, t.level, t.period, t.scope, t.version), index().on(t.period, t.version)],
+);
+
+/**
+ * The members of each published (version ≥ 1) peer statistics row, one procedure per row: a report finds
+ * the snapshot rows that list its procedures through the procedure index, without reading the member
+ * lists of every group of the network. Written with the snapshot; never changed afterwards.
+ */
+export const publishedStatisticsMembers = pgTable(
+  'published_statistics_members',
+  {
+    procedureId: uuid().notNull(),
+    peerStatisticsId: bigint({ mode: 'number' })
+      .notNull()
+      .references(() => peerStatistics.id, { onDelete: 'cascade' }),
+  },
+  (t) => [primaryKey({ columns: [t.procedureId, t.peerStatisticsId] }), index().on(t.peerStatisticsId)],
 );
 
 /** A coordinator's exclusion of one procedure's data from peer figures for a period, with a reason. */

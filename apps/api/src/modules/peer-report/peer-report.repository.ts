@@ -1,14 +1,14 @@
-import { and, asc, desc, eq, inArray, lte } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, lte, sql } from 'drizzle-orm';
 import {
   analytes,
   controlLots,
   labs,
-  peerGroups,
   peerStatistics,
   peerStatisticsFailures,
   procedures,
   publications,
   qcSummaries,
+  type ExcludedLab,
   type Executor,
 } from '@plumbline/db';
 
@@ -85,14 +85,48 @@ export async function summariesToDate(db: Executor, procedureIds: string[], peri
     .orderBy(asc(qcSummaries.period));
 }
 
-export type PeerStatisticsRow = typeof peerStatistics.$inferSelect;
+/** The figures of a peer statistics row a report reads (never its member list, which grows with the network). */
+const statisticsColumns = {
+  peerGroupId: peerStatistics.peerGroupId,
+  level: peerStatistics.level,
+  scope: peerStatistics.scope,
+  version: peerStatistics.version,
+  labs: peerStatistics.labs,
+  n: peerStatistics.n,
+  mean: peerStatistics.mean,
+  sd: peerStatistics.sd,
+  cv: peerStatistics.cv,
+  withinCv: peerStatistics.withinCv,
+  sufficient: peerStatistics.sufficient,
+  excluded: peerStatistics.excluded,
+};
+
+export type PeerStatisticsRow = {
+  peerGroupId: string;
+  level: number;
+  scope: string;
+  version: number;
+  labs: number;
+  n: number;
+  mean: number | null;
+  sd: number | null;
+  cv: number | null;
+  withinCv: number | null;
+  sufficient: boolean;
+  excluded: ExcludedLab[];
+};
 export type LabSummaryRow = Awaited<ReturnType<typeof labSummaries>>[number];
 
 /** Groups of the period whose provisional figures the last recompute could not compute. */
 export async function statisticsFailuresFor(db: Executor, groupIds: string[], period: string) {
   if (groupIds.length === 0) return [];
   return db
-    .select()
+    .select({
+      peerGroupId: peerStatisticsFailures.peerGroupId,
+      level: peerStatisticsFailures.level,
+      scope: peerStatisticsFailures.scope,
+      reason: peerStatisticsFailures.reason,
+    })
     .from(peerStatisticsFailures)
     .where(
       and(inArray(peerStatisticsFailures.peerGroupId, groupIds), eq(peerStatisticsFailures.period, period)),
@@ -104,10 +138,10 @@ export async function peerStatisticsFor(
   groupIds: string[],
   period: string,
   versions: number[],
-) {
+): Promise<PeerStatisticsRow[]> {
   if (groupIds.length === 0) return [];
   return db
-    .select()
+    .select(statisticsColumns)
     .from(peerStatistics)
     .where(
       and(
@@ -119,22 +153,32 @@ export async function peerStatisticsFor(
 }
 
 /**
- * The rows of a published snapshot for these control lots, with each group's tier: a published report
- * places a procedure in the group whose snapshot lists it as a member, so later merges or moves do not
- * change what was published.
+ * The rows of a published snapshot for these control lots that list one of these procedures as a member,
+ * once per such procedure, with the group's tier: a published report places a procedure in the group
+ * whose snapshot lists it as a member, so later merges or moves do not change what was published.
+ * Membership is read from the narrow published-members table by procedure, so only the rows of the
+ * lab's own groups are read, however large the network (never the member lists themselves).
  */
-export async function publishedSnapshot(db: Executor, lotIds: string[], period: string, version: number) {
-  if (lotIds.length === 0 || version === 0) return [];
-  const rows = await db
-    .select({ stat: peerStatistics, tier: peerGroups.tier, controlLotId: peerGroups.controlLotId })
-    .from(peerStatistics)
-    .innerJoin(peerGroups, eq(peerGroups.id, peerStatistics.peerGroupId))
-    .where(
-      and(
-        inArray(peerGroups.controlLotId, lotIds),
-        eq(peerStatistics.period, period),
-        eq(peerStatistics.version, version),
-      ),
-    );
-  return rows.map((r) => ({ ...r.stat, tier: r.tier, controlLotId: r.controlLotId }));
+export async function publishedSnapshot(
+  db: Executor,
+  lotIds: string[],
+  procedureIds: string[],
+  period: string,
+  version: number,
+): Promise<(PeerStatisticsRow & { tier: string; controlLotId: string; procedureId: string })[]> {
+  if (lotIds.length === 0 || procedureIds.length === 0 || version === 0) return [];
+  const rows = await db.execute<
+    PeerStatisticsRow & { tier: string; controlLotId: string; procedureId: string }
+  >(sql`
+    select ps.peer_group_id as "peerGroupId", ps.level, ps.scope, ps.version, ps.labs, ps.n, ps.mean, ps.sd,
+           ps.cv, ps.within_cv as "withinCv", ps.sufficient, ps.excluded,
+           g.tier, g.control_lot_id as "controlLotId", p.procedure_id as "procedureId"
+      from published_statistics_members p
+      join peer_statistics ps on ps.id = p.peer_statistics_id
+      join peer_groups g on g.id = ps.peer_group_id
+     where p.procedure_id = any(${sql.param(procedureIds)}::uuid[])
+       and g.control_lot_id = any(${sql.param(lotIds)}::uuid[])
+       and ps.period = ${period} and ps.version = ${version}
+     order by ps.id`);
+  return rows.rows;
 }

@@ -2,10 +2,8 @@ import { evaluateTea, pool, sigmaMetric } from '@plumbline/stats';
 import {
   PEER_TIERS,
   hasPendingPeerStatistics,
-  loadPeerKeyParts,
-  resolvePeerMembership,
+  resolvePeerMembershipByLot,
   type Database,
-  type PeerMembership,
   thresholds,
 } from '@plumbline/db';
 import type {
@@ -53,61 +51,74 @@ export async function buildPeerReport(
   settings: PeerReportSettings = {},
 ): Promise<PeerReport> {
   assertLabAccess(principal, labId);
-  const lab = UUID.test(labId) ? await repo.findLab(db, labId) : null;
+  if (!UUID.test(labId)) throw notFound('Lab');
+  // Every query reads only the lab's own rows and its groups' figures; independent ones run together
+  // (three round trips in all).
+  const [lab, publication, summaries, statisticsPending] = await Promise.all([
+    repo.findLab(db, labId),
+    repo.latestPublication(db, period),
+    repo.labSummaries(db, labId, period),
+    hasPendingPeerStatistics(db, period),
+  ]);
   if (!lab) throw notFound('Lab');
   const minLabs = settings.minLabs ?? thresholds().peerMinLabs;
   const units: UnitSystem = settings.units ?? (lab.preferredUnits === 'conventional' ? 'conventional' : 'si');
-
-  const publication = await repo.latestPublication(db, period);
   const version = publication?.version ?? 0;
-  const summaries = await repo.labSummaries(db, labId, period);
+  const procedureIds = [...new Set(summaries.map((s) => s.procedureId))];
 
   // Peer group of each procedure at each tier, per control lot.
-  const memberships = new Map<string, PeerMembership>();
-  for (const lotId of new Set(summaries.map((s) => s.controlLotId))) {
-    const procedureIds = [
-      ...new Set(summaries.filter((x) => x.controlLotId === lotId).map((x) => x.procedureId)),
-    ];
-    const parts = await loadPeerKeyParts(db, procedureIds);
-    memberships.set(lotId, await resolvePeerMembership(db, lotId, parts, { create: false }));
+  const procedureIdsByLot = new Map<string, string[]>();
+  for (const s of summaries) {
+    const ids = procedureIdsByLot.get(s.controlLotId) ?? [];
+    if (!ids.includes(s.procedureId)) ids.push(s.procedureId);
+    procedureIdsByLot.set(s.controlLotId, ids);
   }
+  // A published version is read by the membership frozen in its snapshot, not today's grouping.
+  const [memberships, toDate, snapshot] = await Promise.all([
+    resolvePeerMembershipByLot(db, procedureIdsByLot),
+    repo.summariesToDate(db, procedureIds, period),
+    repo.publishedSnapshot(db, [...procedureIdsByLot.keys()], procedureIds, period, version),
+  ]);
   const groupIds = new Set<string>();
   for (const membership of memberships.values()) {
     for (const groups of membership.values())
       for (const g of Object.values(groups)) if (g) groupIds.add(g.id);
   }
-  const statistics = await repo.peerStatisticsFor(db, [...groupIds], period, [...new Set([0, version])]);
+  // Groups the last recompute could not compute: a provisional row that would be compared with one says so.
+  const [statistics, failures] = await Promise.all([
+    repo.peerStatisticsFor(db, [...groupIds], period, [...new Set([0, version])]),
+    version === 0 ? repo.statisticsFailuresFor(db, [...groupIds], period) : [],
+  ]);
+
+  const statisticsByKey = firstByKey(
+    statistics,
+    (r) => `${r.peerGroupId}|${r.level}|${r.scope}|${r.version}`,
+  );
   const statisticsOf = (groupId: string, level: number, scope: 'period' | 'cumulative') => {
-    const at = (v: number) =>
-      statistics.find(
-        (r) => r.peerGroupId === groupId && r.level === level && r.scope === scope && r.version === v,
-      );
+    const at = (v: number) => statisticsByKey.get(`${groupId}|${level}|${scope}|${v}`);
     // Lot-to-date figures fall back to the provisional ones when a snapshot holds none.
     return scope === 'period' ? at(version) : (at(version) ?? at(0));
   };
-
-  // A published version is read by the membership frozen in its snapshot, not today's grouping.
-  const snapshot = await repo.publishedSnapshot(db, [...memberships.keys()], period, version);
+  const snapshotByKey = firstByKey(
+    snapshot,
+    (r) => `${r.controlLotId}|${r.procedureId}|${r.tier}|${r.level}|${r.scope}`,
+  );
   const snapshotRow = (
     s: { controlLotId: string; procedureId: string; level: number },
     tier: string,
     scope: string,
-  ) =>
-    snapshot.find(
-      (r) =>
-        r.controlLotId === s.controlLotId &&
-        r.tier === tier &&
-        r.level === s.level &&
-        r.scope === scope &&
-        r.members.includes(s.procedureId),
-    );
-
-  const toDate = await repo.summariesToDate(db, [...new Set(summaries.map((s) => s.procedureId))], period);
-
-  // Groups the last recompute could not compute: a provisional row that would be compared with one says so.
-  const failures = version === 0 ? await repo.statisticsFailuresFor(db, [...groupIds], period) : [];
+  ) => snapshotByKey.get(`${s.controlLotId}|${s.procedureId}|${tier}|${s.level}|${scope}`);
+  const failureByKey = firstByKey(failures, (f) => `${f.peerGroupId}|${f.level}|${f.scope}`);
   const failureOf = (groupId: string, level: number, scope: 'period' | 'cumulative') =>
-    failures.find((f) => f.peerGroupId === groupId && f.level === level && f.scope === scope);
+    failureByKey.get(`${groupId}|${level}|${scope}`);
+  // The lab's summaries to date per procedure, lot and level, in period order.
+  const toDateByKey = new Map<string, typeof toDate>();
+  for (const t of toDate) {
+    const key = `${t.procedureId}|${t.controlLotId}|${t.level}`;
+    const list = toDateByKey.get(key) ?? [];
+    list.push(t);
+    toDateByKey.set(key, list);
+  }
 
   const rowOf = (s: repo.LabSummaryRow): PeerReportRow => {
     const groups = memberships.get(s.controlLotId)?.get(s.procedureId) ?? {};
@@ -147,9 +158,7 @@ export async function buildPeerReport(
     const position = comparison?.standing ?? null;
     const problem = current.problem ?? comparison?.problem ?? null;
 
-    const labToDateParts = toDate.filter(
-      (t) => t.procedureId === s.procedureId && t.controlLotId === s.controlLotId && t.level === s.level,
-    );
+    const labToDateParts = toDateByKey.get(`${s.procedureId}|${s.controlLotId}|${s.level}`) ?? [];
     const labToDate = labToDateParts.length
       ? figuresOf(labToDateParts.length === 1 ? labToDateParts[0] : pool(labToDateParts))
       : null;
@@ -221,9 +230,19 @@ export async function buildPeerReport(
     published: publication
       ? { version: publication.version, publishedAt: publication.publishedAt.toISOString() }
       : null,
-    statisticsPending: await hasPendingPeerStatistics(db, period),
+    statisticsPending,
     rows,
   };
+}
+
+/** Rows by key; the first row wins where several share a key (as a search from the start would find). */
+function firstByKey<T>(rows: readonly T[], keyOf: (row: T) => string): Map<string, T> {
+  const map = new Map<string, T>();
+  for (const row of rows) {
+    const key = keyOf(row);
+    if (!map.has(key)) map.set(key, row);
+  }
+  return map;
 }
 
 /** A row's identity; with no display unit (something failed before it was known), the canonical unit. */
