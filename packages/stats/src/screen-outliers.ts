@@ -1,4 +1,4 @@
-import { boxCoxLambda, boxCoxUnchecked } from './box-cox.ts';
+import { boxCoxLambdaOfSorted, boxCoxUnchecked } from './box-cox.ts';
 import { percentileOfSorted } from './percentile.ts';
 import { checkValues, fail } from './validate.ts';
 
@@ -37,14 +37,14 @@ export function screenOutliers(values: readonly number[], method: 'tukey' | 'dix
   const fn = 'screenOutliers';
   if (method === 'tukey') {
     checkValues(fn, values, 4);
-    values.forEach((v, i) => {
-      if (v <= 0)
+    for (let i = 0; i < values.length; i++) {
+      if (values[i] <= 0)
         fail(
           fn,
-          `Tukey screening after a Box-Cox transform needs values greater than 0; value at index ${i} is ${v}`,
+          `Tukey screening after a Box-Cox transform needs values greater than 0; value at index ${i} is ${values[i]}`,
         );
-    });
-    const [low, high] = tukeyFences(values);
+    }
+    const [low, high] = tukeyFences(new Float64Array(values).sort());
     return split(values, (v) => v >= low && v <= high);
   }
   if (method === 'dixon') {
@@ -55,23 +55,36 @@ export function screenOutliers(values: readonly number[], method: 'tukey' | 'dix
   return fail(fn, `unknown method '${String(method)}', expected 'tukey' or 'dixon'`);
 }
 
-/** Fences in the original units: back-transformation keeps the order, so compare transformed values. */
-function tukeyFences(values: readonly number[]): [number, number] {
-  const lambda = boxCoxLambda(values);
-  const transformed = Float64Array.from(values, (v) => boxCoxUnchecked(v, lambda)).sort();
-  const q1 = percentileOfSorted('screenOutliers', transformed, 0.25);
-  const q3 = percentileOfSorted('screenOutliers', transformed, 0.75);
+/**
+ * Fences in the original units, from the values sorted once. The transform is increasing, so the
+ * transformed values are in the same order: each quartile interpolates between the transforms of two
+ * neighbouring sorted values, and the kept values are a run of the sorted ones.
+ */
+function tukeyFences(sorted: Float64Array): [number, number] {
+  const lambda = boxCoxLambdaOfSorted(sorted);
+  const quartile = (p: number) => {
+    percentileOfSorted('screenOutliers', sorted, p); // refuses a sample too small for rank p(n + 1)
+    const rank = p * (sorted.length + 1);
+    const below = Math.floor(rank);
+    const fraction = rank - below;
+    const low = boxCoxUnchecked(sorted[below - 1], lambda);
+    return fraction === 0 ? low : low + fraction * (boxCoxUnchecked(sorted[below], lambda) - low);
+  };
+  const q1 = quartile(0.25);
+  const q3 = quartile(0.75);
   const iqr = q3 - q1;
   const lowT = q1 - 1.5 * iqr;
   const highT = q3 + 1.5 * iqr;
-  // Smallest and largest values whose transform lies inside the fences.
+  // Smallest and largest values whose transform lies inside the fences (each distinct value once).
   let low = Infinity;
   let high = -Infinity;
-  for (const v of values) {
+  for (let i = 0; i < sorted.length; i++) {
+    const v = sorted[i];
+    if (i > 0 && v === sorted[i - 1]) continue;
     const t = boxCoxUnchecked(v, lambda);
     if (t >= lowT && t <= highT) {
       if (v < low) low = v;
-      if (v > high) high = v;
+      high = v;
     }
   }
   return [low, high];
