@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { recordAudit, type Database, type Executor } from '@plumbline/db';
+import { markUniqueSamples, recordAudit, type Database, type Executor } from '@plumbline/db';
 import type { RowError } from '@plumbline/contracts';
 import { boundError } from '../ingest/ingest.repository.ts';
 import type { AnalyteInfo, PatientRow } from './patient-rows.ts';
@@ -50,6 +50,7 @@ async function storeRows(
           ${sql.param(chunk.map((r) => r.collectedMonth))}::text[], ${sql.param(chunk.map((r) => r.setting))}::text[],
           ${sql.param(chunk.map((r) => r.sampleHash))}::text[])`);
       }
+      await markUniqueSamples(tx, upload.labId, upload.id);
       const marked = await tx.execute(sql`
       update uploads set status = 'stored', stored_at = now(), progress = 1, rows_total = ${counts.rowsTotal},
              rows_accepted = ${counts.rowsAccepted}, rows_rejected = ${counts.rowsRejected},

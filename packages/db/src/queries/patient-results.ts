@@ -22,16 +22,40 @@ function where(labId: string, analyteId: string, selection: StudySelection, part
 
 /**
  * Matching results, keeping only the first result of each sample key (repeats of a person dropped).
- * The hashes are compared bytewise (collation "C"): they are hex, and a locale-aware sort is several
- * times slower.
+ * Rows whose key ingest found unique are read as they are; only the others are deduplicated. The
+ * hashes are compared bytewise (collation "C"): they are hex, and a locale-aware sort is several times
+ * slower.
  */
 function deduplicated(filter: SQL): SQL {
   return sql`
-    select value from patient_results where ${filter} and sample_hash is null
+    select value from patient_results where ${filter} and (sample_hash is null or sample_unique)
     union all
     select value from (
       select distinct on (sample_hash collate "C") value from patient_results
-       where ${filter} and sample_hash is not null order by sample_hash collate "C", id) d`;
+       where ${filter} and sample_hash is not null and not sample_unique
+       order by sample_hash collate "C", id) d`;
+}
+
+/**
+ * After an upload's rows are stored (same transaction): marks its rows whose sample key no other
+ * result of the lab and analyte has, and unmarks earlier rows that now share a key with it. Uploads of
+ * one lab are marked one at a time (transaction-level advisory lock), so two concurrent uploads cannot
+ * both mark the same key unique.
+ */
+export async function markUniqueSamples(db: Executor, labId: string, uploadId: string): Promise<void> {
+  await db.execute(sql`select pg_advisory_xact_lock(hashtext('patient_results.sample_unique'), hashtext(${labId}))`);
+  await db.execute(sql`
+    update patient_results p set sample_unique = false
+      from (select distinct analyte_id, sample_hash from patient_results
+             where upload_id = ${uploadId} and sample_hash is not null) m
+     where p.lab_id = ${labId} and p.analyte_id = m.analyte_id and p.sample_hash = m.sample_hash
+       and p.sample_unique and p.upload_id is distinct from ${uploadId}`);
+  await db.execute(sql`
+    update patient_results p set sample_unique = true
+     where p.upload_id = ${uploadId} and p.sample_hash is not null and not p.sample_unique
+       and not exists (select 1 from patient_results q
+                        where q.lab_id = p.lab_id and q.analyte_id = p.analyte_id
+                          and q.sample_hash = p.sample_hash and q.id <> p.id)`);
 }
 
 export async function countPatientResults(
@@ -46,7 +70,10 @@ export async function countPatientResults(
   return Number(result.rows[0]?.n ?? 0);
 }
 
-/** A partition's values, read as one text aggregate (much cheaper than a row per value). */
+/**
+ * A partition's values, read as one binary aggregate: each float8 in its 8-byte network form, so the
+ * values arrive exactly, without a text conversion on either side.
+ */
 export async function partitionValues(
   db: Executor,
   labId: string,
@@ -54,13 +81,13 @@ export async function partitionValues(
   selection: StudySelection,
   partition: PartitionKey,
 ): Promise<number[]> {
-  const result = await db.execute<{ v: string | null }>(
-    sql`select string_agg(value::text, ',') as v from (${deduplicated(where(labId, analyteId, selection, partition))}) s`,
+  const result = await db.execute<{ v: Buffer | null }>(
+    sql`select string_agg(float8send(value), ''::bytea) as v from (${deduplicated(where(labId, analyteId, selection, partition))}) s`,
   );
-  const text = result.rows[0]?.v;
-  if (!text) return [];
-  const parts = text.split(',');
-  const values = new Array<number>(parts.length);
-  for (let i = 0; i < parts.length; i++) values[i] = Number(parts[i]);
+  const bytes = result.rows[0]?.v;
+  if (!bytes) return [];
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const values = new Array<number>(bytes.byteLength / 8);
+  for (let i = 0; i < values.length; i++) values[i] = view.getFloat64(i * 8); // big-endian
   return values;
 }

@@ -42,9 +42,16 @@ export const patientResults = pgTable(
     collectedMonth: text().notNull(),
     setting: text().notNull(),
     sampleHash: text(),
+    /**
+     * True once ingest has checked that no other result of the lab and analyte has this sample key,
+     * so a study reads the row without deduplicating it. False (the default) is always safe: the row's
+     * key is then deduplicated when read.
+     */
+    sampleUnique: boolean().notNull().default(false),
   },
   (t) => [
     index().on(t.labId, t.analyteId),
+    index().on(t.labId, t.analyteId, t.sampleHash),
     index().on(t.uploadId),
     check('patient_results_sex', sql`${t.sex} in ('female', 'male')`),
     check('patient_results_age', sql`${t.ageYears} between 0 and 130`),

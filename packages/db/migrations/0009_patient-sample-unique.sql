@@ -1,0 +1,2 @@
+ALTER TABLE "patient_results" ADD COLUMN "sample_unique" boolean DEFAULT false NOT NULL;--> statement-breakpoint
+CREATE INDEX "patient_results_lab_id_analyte_id_sample_hash_index" ON "patient_results" USING btree ("lab_id","analyte_id","sample_hash");
