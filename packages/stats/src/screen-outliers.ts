@@ -34,6 +34,19 @@ export interface OutlierScreen {
  * // => { kept: [3.1, 3.3, 3.4, 3.4, 3.5, 3.6, 3.7, 3.8], removed: [9.9] }
  */
 export function screenOutliers(values: readonly number[], method: 'tukey' | 'dixon'): OutlierScreen {
+  const { kept, removed } = screenOutliersKeepingSorted(values, method);
+  return { kept, removed };
+}
+
+/**
+ * {@link screenOutliers}, also giving the kept values sorted ascending: the values are sorted once for
+ * the screen, and the kept ones are a run of them, so a caller going on to order statistics
+ * ({@link nonparametricIntervalOfSorted}) need not sort again.
+ */
+export function screenOutliersKeepingSorted(
+  values: readonly number[],
+  method: 'tukey' | 'dixon',
+): OutlierScreen & { keptSorted: Float64Array } {
   const fn = 'screenOutliers';
   if (method === 'tukey') {
     checkValues(fn, values, 4);
@@ -44,13 +57,13 @@ export function screenOutliers(values: readonly number[], method: 'tukey' | 'dix
           `Tukey screening after a Box-Cox transform needs values greater than 0; value at index ${i} is ${values[i]}`,
         );
     }
-    const [low, high] = tukeyFences(new Float64Array(values).sort());
-    return split(values, (v) => v >= low && v <= high);
+    const sorted = new Float64Array(values).sort();
+    return split(values, sorted, tukeyFences(sorted));
   }
   if (method === 'dixon') {
     checkValues(fn, values, 3);
-    const [low, high] = dixonBounds(values);
-    return split(values, (v) => v >= low && v <= high);
+    const sorted = new Float64Array(values).sort();
+    return split(values, sorted, dixonBounds(sorted));
   }
   return fail(fn, `unknown method '${String(method)}', expected 'tukey' or 'dixon'`);
 }
@@ -91,8 +104,7 @@ function tukeyFences(sorted: Float64Array): [number, number] {
 }
 
 /** The smallest and largest values kept by the repeated D/R ≥ 1/3 test. */
-function dixonBounds(values: readonly number[]): [number, number] {
-  const sorted = new Float64Array(values).sort();
+function dixonBounds(sorted: Float64Array): [number, number] {
   let first = 0;
   let last = sorted.length - 1;
   while (last - first + 1 >= 3) {
@@ -107,9 +119,16 @@ function dixonBounds(values: readonly number[]): [number, number] {
   return [sorted[first], sorted[last]];
 }
 
-function split(values: readonly number[], keep: (v: number) => boolean): OutlierScreen {
+/** Values within [low, high] kept, the others removed, both in their original order. */
+function split(
+  values: readonly number[],
+  sorted: Float64Array,
+  [low, high]: [number, number],
+): OutlierScreen & { keptSorted: Float64Array } {
   const kept: number[] = [];
   const removed: number[] = [];
-  for (const v of values) (keep(v) ? kept : removed).push(v);
-  return { kept, removed };
+  for (const v of values) (v >= low && v <= high ? kept : removed).push(v);
+  let first = 0;
+  while (first < sorted.length && sorted[first] < low) first++;
+  return { kept, removed, keptSorted: sorted.subarray(first, first + kept.length) };
 }
