@@ -45,13 +45,14 @@ try {
   const t0 = performance.now();
   // Normal-ish values (sum of three uniforms) around 140 with a 10 % pathological share, one sample key each.
   await db.execute(sql`
-    insert into patient_results (lab_id, upload_id, analyte_id, value, sex, age_years, collected_month, setting, sample_hash)
+    insert into patient_results (lab_id, upload_id, analyte_id, value, sex, age_years, collected_month, setting, sample_hash,
+                                 sample_unique)
     select ${lab}, ${upload}, ${analyte},
            round((case when random() < 0.9 then 140 + 2 * (random() + random() + random() - 1.5) * 2
                        else 125 + 30 * random() end)::numeric, 1)::float8,
-           case when g % 2 = 0 then 'female' else 'male' end, 18 + g % 60, '2026-01', 'outpatient', md5(g::text)
+           case when g % 2 = 0 then 'female' else 'male' end, 18 + g % 60, '2026-01', 'outpatient', md5(g::text), true
       from generate_series(1, ${ROWS}) g`);
-  // As ingest does after storing an upload: mark the rows whose sample key is unique.
+  // As ingest does: rows stored with sample_unique true, then every repeated key unmarked.
   await markUniqueSamples(db, lab, upload);
   await db.execute(sql`vacuum analyze patient_results`);
   log(`stored ${ROWS.toLocaleString('en')} results in ${Math.round(performance.now() - t0)} ms`);

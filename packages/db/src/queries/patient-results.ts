@@ -37,37 +37,25 @@ function deduplicated(filter: SQL): SQL {
 }
 
 /**
- * After an upload's rows are stored (same transaction): marks its rows whose sample key no other
- * result of the lab and analyte has, and unmarks earlier rows that now share a key with it. Uploads of
- * one lab are marked one at a time (transaction-level advisory lock), so two concurrent uploads cannot
- * both mark the same key unique.
+ * After an upload's rows are stored with `sample_unique` true wherever they have a sample key (same
+ * transaction): unmarks every row of the lab and analyte whose key another row shares — earlier rows
+ * that this upload repeats, and repeats within the upload. Only repeated rows are rewritten. Uploads of
+ * one lab are marked one at a time (transaction-level advisory lock), and each statement sees the
+ * uploads committed before it, so two concurrent uploads cannot both leave a shared key marked.
  */
 export async function markUniqueSamples(db: Executor, labId: string, uploadId: string): Promise<void> {
-  await db.execute(sql`select pg_advisory_xact_lock(hashtext('patient_results.sample_unique'), hashtext(${labId}))`);
+  await db.execute(
+    sql`select pg_advisory_xact_lock(hashtext('patient_results.sample_unique'), hashtext(${labId}))`,
+  );
   await db.execute(sql`
     update patient_results p set sample_unique = false
       from (select distinct analyte_id, sample_hash from patient_results
              where upload_id = ${uploadId} and sample_hash is not null) m
      where p.lab_id = ${labId} and p.analyte_id = m.analyte_id and p.sample_hash = m.sample_hash
-       and p.sample_unique and p.upload_id is distinct from ${uploadId}`);
-  await db.execute(sql`
-    update patient_results p set sample_unique = true
-     where p.upload_id = ${uploadId} and p.sample_hash is not null and not p.sample_unique
-       and not exists (select 1 from patient_results q
-                        where q.lab_id = p.lab_id and q.analyte_id = p.analyte_id
-                          and q.sample_hash = p.sample_hash and q.id <> p.id)`);
-}
-
-export async function countPatientResults(
-  db: Executor,
-  labId: string,
-  analyteId: string,
-  selection: StudySelection,
-): Promise<number> {
-  const result = await db.execute<{ n: string }>(
-    sql`select count(*) as n from (${deduplicated(where(labId, analyteId, selection))}) s`,
-  );
-  return Number(result.rows[0]?.n ?? 0);
+       and p.sample_unique
+       and exists (select 1 from patient_results q
+                    where q.lab_id = p.lab_id and q.analyte_id = p.analyte_id
+                      and q.sample_hash = p.sample_hash and q.id <> p.id)`);
 }
 
 /**
