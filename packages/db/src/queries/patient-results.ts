@@ -59,27 +59,48 @@ export async function markUniqueSamples(db: Executor, labId: string, uploadId: s
 }
 
 /**
- * A partition's values, read as one binary aggregate: each float8 in its 8-byte network form, so the
- * values arrive exactly, without a text conversion on either side.
+ * Each partition's values, read in one scan: the rows whose sample key is unique (or absent) go to
+ * every partition whose filter they meet, and each partition's other rows are deduplicated as in
+ * {@link deduplicated} (few rows, found by a partial index). Values travel as one binary aggregate per
+ * partition — each float8 in its 8-byte network form, exact, with no text conversion on either side.
  */
-export async function partitionValues(
+export async function studyValues(
   db: Executor,
   labId: string,
   analyteId: string,
   selection: StudySelection,
-  partition: PartitionKey,
-): Promise<number[]> {
-  // JIT compilation costs more than it saves on this plain scan (tens of ms per query).
-  const result = await db.transaction(async (tx) => {
+  partitions: PartitionKey[],
+): Promise<number[][]> {
+  if (partitions.length === 0) return [];
+  const aggregates = partitions.map(
+    (p, i) =>
+      sql`string_agg(float8send(value), ''::bytea) filter (where ${where(labId, analyteId, selection, p)}) as ${sql.identifier(`p${i}`)}`,
+  );
+  // JIT compilation costs more than it saves on these plain scans (tens of ms per query).
+  return db.transaction(async (tx) => {
     await tx.execute(sql`set local jit = off`);
-    return tx.execute<{ v: Buffer | null }>(
-      sql`select string_agg(float8send(value), ''::bytea) as v from (${deduplicated(where(labId, analyteId, selection, partition))}) s`,
-    );
+    const unique = await tx.execute<Record<string, Buffer | null>>(sql`
+      select ${sql.join(aggregates, sql`, `)} from patient_results
+       where ${where(labId, analyteId, selection)} and (sample_hash is null or sample_unique)`);
+    const row = unique.rows[0] ?? {};
+    const values: number[][] = [];
+    for (const [i, p] of partitions.entries()) {
+      const repeated = await tx.execute<{ v: Buffer | null }>(sql`
+        select string_agg(float8send(value), ''::bytea) as v from (
+          select distinct on (sample_hash collate "C") value from patient_results
+           where ${where(labId, analyteId, selection, p)} and sample_hash is not null and not sample_unique
+           order by sample_hash collate "C", id) d`);
+      values.push(float8s(row[`p${i}`] ?? null).concat(float8s(repeated.rows[0]?.v ?? null)));
+    }
+    return values;
   });
-  const bytes = result.rows[0]?.v;
+}
+
+/** Big-endian float8s packed back to back. */
+function float8s(bytes: Buffer | null): number[] {
   if (!bytes) return [];
   const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   const values = new Array<number>(bytes.byteLength / 8);
-  for (let i = 0; i < values.length; i++) values[i] = view.getFloat64(i * 8); // big-endian
+  for (let i = 0; i < values.length; i++) values[i] = view.getFloat64(i * 8);
   return values;
 }
