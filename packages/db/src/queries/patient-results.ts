@@ -36,6 +36,18 @@ function deduplicated(filter: SQL): SQL {
        order by sample_hash collate "C", id) d`;
 }
 
+export async function countPatientResults(
+  db: Executor,
+  labId: string,
+  analyteId: string,
+  selection: StudySelection,
+): Promise<number> {
+  const result = await db.execute<{ n: string }>(
+    sql`select count(*) as n from (${deduplicated(where(labId, analyteId, selection))}) s`,
+  );
+  return Number(result.rows[0]?.n ?? 0);
+}
+
 /**
  * After an upload's rows are stored with `sample_unique` true wherever they have a sample key (same
  * transaction): unmarks every row of the lab and analyte whose key another row shares — earlier rows
