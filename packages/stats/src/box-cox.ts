@@ -130,7 +130,7 @@ function groupedLogs(sorted: Float64Array): GroupedLogs {
   const counts = new Float64Array(sorted.length);
   let distinct = 0;
   let sumLogs = 0;
-  for (let i = 0; i < sorted.length; ) {
+  for (let i = 0; i < sorted.length;) {
     let j = i + 1;
     while (j < sorted.length && sorted[j] === sorted[i]) j++;
     const l = Math.log(sorted[i]);
@@ -140,7 +140,12 @@ function groupedLogs(sorted: Float64Array): GroupedLogs {
     distinct++;
     i = j;
   }
-  return { n: sorted.length, logs: logs.subarray(0, distinct), counts: counts.subarray(0, distinct), sumLogs };
+  return {
+    n: sorted.length,
+    logs: logs.subarray(0, distinct),
+    counts: counts.subarray(0, distinct),
+    sumLogs,
+  };
 }
 
 function logLikelihood({ n, logs, counts, sumLogs }: GroupedLogs, lambda: number): number {
