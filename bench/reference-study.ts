@@ -3,7 +3,7 @@
 //
 //   Pipeline: 1,000,000 stored patient results of one analyte (invented: both sexes, adults) are read
 //   by a study with two partitions (women, men), run end to end as a BullMQ job by a worker process:
-//   read from PostgreSQL (repeats of a sample key dropped), Tukey screening after Box-Cox, nonparametric
+//   read from PostgreSQL (repeats of a sample key dropped; ingest has marked the unique keys), Tukey screening after Box-Cox, nonparametric
 //   limits with 90 % CIs, histogram, Harris & Boyd, result stored as a new version.
 //   The clock runs from enqueueing the job to the study being 'done'.
 //   Baseline: sorting the same 1,000,000 values, already in memory, as a Float64Array.
@@ -19,6 +19,7 @@ import { Queue } from 'bullmq';
 import { Redis } from 'ioredis';
 import { sql } from 'drizzle-orm';
 import { STUDY_QUEUE_NAME } from '@plumbline/contracts';
+import { markUniqueSamples } from '@plumbline/db';
 import { createScratchDatabase } from '@plumbline/db/testing';
 import { spawnWorkerFor } from '../apps/api/src/testing/worker-process.ts';
 
@@ -44,13 +45,16 @@ try {
   const t0 = performance.now();
   // Normal-ish values (sum of three uniforms) around 140 with a 10 % pathological share, one sample key each.
   await db.execute(sql`
-    insert into patient_results (lab_id, upload_id, analyte_id, value, sex, age_years, collected_month, setting, sample_hash)
+    insert into patient_results (lab_id, upload_id, analyte_id, value, sex, age_years, collected_month, setting, sample_hash,
+                                 sample_unique)
     select ${lab}, ${upload}, ${analyte},
            round((case when random() < 0.9 then 140 + 2 * (random() + random() + random() - 1.5) * 2
                        else 125 + 30 * random() end)::numeric, 1)::float8,
-           case when g % 2 = 0 then 'female' else 'male' end, 18 + g % 60, '2026-01', 'outpatient', md5(g::text)
+           case when g % 2 = 0 then 'female' else 'male' end, 18 + g % 60, '2026-01', 'outpatient', md5(g::text), true
       from generate_series(1, ${ROWS}) g`);
-  await db.execute(sql`analyze patient_results`);
+  // As ingest does: rows stored with sample_unique true, then every repeated key unmarked.
+  await markUniqueSamples(db, lab, upload);
+  await db.execute(sql`vacuum analyze patient_results`);
   log(`stored ${ROWS.toLocaleString('en')} results in ${Math.round(performance.now() - t0)} ms`);
 
   const study = await db.execute<{ id: string }>(sql`

@@ -64,8 +64,7 @@ export function boxCoxInverseUnchecked(y: number, lambda: number): number {
 export function boxCoxLogLikelihood(values: readonly number[], lambda: number): number {
   checkPositiveValues('boxCoxLogLikelihood', values);
   checkFinite('boxCoxLogLikelihood', 'lambda', lambda);
-  const logs = Float64Array.from(values, Math.log);
-  return logLikelihood(logs, sumOf(logs), lambda);
+  return logLikelihood(groupedLogs(new Float64Array(values).sort()), lambda);
 }
 
 export interface BoxCoxLambdaOptions {
@@ -92,10 +91,18 @@ export function boxCoxLambda(values: readonly number[], options: BoxCoxLambdaOpt
   checkFinite(fn, 'range[0]', from);
   checkFinite(fn, 'range[1]', to);
   if (from >= to) fail(fn, `range must be increasing, got [${from}, ${to}]`);
-  const logs = Float64Array.from(values, Math.log);
-  if (logs.every((v) => v === logs[0])) fail(fn, 'all values are equal, so λ is undefined');
-  const sumLogs = sumOf(logs);
-  return maximise((lambda) => logLikelihood(logs, sumLogs, lambda), from, to);
+  return boxCoxLambdaOfSorted(new Float64Array(values).sort(), [from, to]);
+}
+
+/**
+ * {@link boxCoxLambda} for values already checked (finite, greater than 0, at least 3) and sorted
+ * ascending, so a caller that needs the sorted values anyway sorts them once.
+ */
+export function boxCoxLambdaOfSorted(sorted: Float64Array, range: [number, number] = [-3, 3]): number {
+  if (sorted[0] === sorted[sorted.length - 1])
+    fail('boxCoxLambda', 'all values are equal, so λ is undefined');
+  const grouped = groupedLogs(sorted);
+  return maximise((lambda) => logLikelihood(grouped, lambda), range[0], range[1]);
 }
 
 function checkPositiveValues(fn: string, values: readonly number[], min = 2): void {
@@ -106,23 +113,56 @@ function checkPositiveValues(fn: string, values: readonly number[], min = 2): vo
   }
 }
 
-function sumOf(values: Float64Array): number {
-  let sum = 0;
-  for (const v of values) sum += v;
-  return sum;
+/**
+ * The distinct logs of sorted positive values with their counts, and Σ ln x. Laboratory results
+ * are rounded, so a large sample holds few distinct values and each likelihood evaluation costs one
+ * transform per distinct value instead of one per value.
+ */
+interface GroupedLogs {
+  n: number;
+  logs: Float64Array;
+  counts: Float64Array;
+  sumLogs: number;
 }
 
-function logLikelihood(logs: Float64Array, sumLogs: number, lambda: number): number {
-  const n = logs.length;
-  // Two-pass variance of the transformed values.
-  let mean = 0;
+function groupedLogs(sorted: Float64Array): GroupedLogs {
+  const logs = new Float64Array(sorted.length);
+  const counts = new Float64Array(sorted.length);
+  let distinct = 0;
+  let sumLogs = 0;
+  for (let i = 0; i < sorted.length;) {
+    let j = i + 1;
+    while (j < sorted.length && sorted[j] === sorted[i]) j++;
+    const l = Math.log(sorted[i]);
+    logs[distinct] = l;
+    counts[distinct] = j - i;
+    sumLogs += (j - i) * l;
+    distinct++;
+    i = j;
+  }
+  return {
+    n: sorted.length,
+    logs: logs.subarray(0, distinct),
+    counts: counts.subarray(0, distinct),
+    sumLogs,
+  };
+}
+
+function logLikelihood({ n, logs, counts, sumLogs }: GroupedLogs, lambda: number): number {
+  // Two-pass variance of the transformed values, each distinct value weighted by its count.
   const asLog = Math.abs(lambda) < LOG_LAMBDA;
-  for (const l of logs) mean += asLog ? l : Math.expm1(lambda * l) / lambda;
+  const transformed = new Float64Array(logs.length);
+  let mean = 0;
+  for (let k = 0; k < logs.length; k++) {
+    const t = asLog ? logs[k] : Math.expm1(lambda * logs[k]) / lambda;
+    transformed[k] = t;
+    mean += counts[k] * t;
+  }
   mean /= n;
   let squares = 0;
-  for (const l of logs) {
-    const d = (asLog ? l : Math.expm1(lambda * l) / lambda) - mean;
-    squares += d * d;
+  for (let k = 0; k < logs.length; k++) {
+    const d = transformed[k] - mean;
+    squares += counts[k] * d * d;
   }
   return -(n / 2) * Math.log(squares / n) + (lambda - 1) * sumLogs;
 }

@@ -43,15 +43,21 @@ export function nonparametricInterval(
   values: readonly number[],
   options: NonparametricIntervalOptions = {},
 ): NonparametricInterval {
+  checkOptions(options);
+  return nonparametricIntervalOfSorted(sortedCopy('nonparametricInterval', values, 2), options);
+}
+
+/**
+ * {@link nonparametricInterval} of finite values already sorted ascending (at least 2), for a caller
+ * that has sorted them anyway.
+ */
+export function nonparametricIntervalOfSorted(
+  sorted: Float64Array,
+  options: NonparametricIntervalOptions = {},
+): NonparametricInterval {
   const fn = 'nonparametricInterval';
-  const lower = options.lower ?? 0.025;
-  const upper = options.upper ?? 0.975;
-  const confidence = options.confidence ?? 0.9;
-  checkProbability(fn, 'lower', lower);
-  checkProbability(fn, 'upper', upper);
-  checkProbability(fn, 'confidence', confidence);
-  if (lower >= upper) fail(fn, `lower (${lower}) must be below upper (${upper})`);
-  const sorted = sortedCopy(fn, values, 2);
+  const { lower, upper, confidence } = checkOptions(options);
+  if (sorted.length < 2) fail(fn, `needs at least 2 values, got ${sorted.length}`);
   const n = sorted.length;
   const limit = (p: number): ReferenceLimit => {
     const ranks = rankConfidenceInterval(n, p, confidence);
@@ -61,4 +67,16 @@ export function nonparametricInterval(
     };
   };
   return { n, lower: limit(lower), upper: limit(upper) };
+}
+
+function checkOptions(options: NonparametricIntervalOptions): Required<NonparametricIntervalOptions> {
+  const fn = 'nonparametricInterval';
+  const lower = options.lower ?? 0.025;
+  const upper = options.upper ?? 0.975;
+  const confidence = options.confidence ?? 0.9;
+  checkProbability(fn, 'lower', lower);
+  checkProbability(fn, 'upper', upper);
+  checkProbability(fn, 'confidence', confidence);
+  if (lower >= upper) fail(fn, `lower (${lower}) must be below upper (${upper})`);
+  return { lower, upper, confidence };
 }

@@ -1,4 +1,4 @@
-import { boxCoxLambda, boxCoxUnchecked } from './box-cox.ts';
+import { boxCoxLambdaOfSorted, boxCoxUnchecked } from './box-cox.ts';
 import { percentileOfSorted } from './percentile.ts';
 import { checkValues, fail } from './validate.ts';
 
@@ -34,52 +34,77 @@ export interface OutlierScreen {
  * // => { kept: [3.1, 3.3, 3.4, 3.4, 3.5, 3.6, 3.7, 3.8], removed: [9.9] }
  */
 export function screenOutliers(values: readonly number[], method: 'tukey' | 'dixon'): OutlierScreen {
+  const { kept, removed } = screenOutliersKeepingSorted(values, method);
+  return { kept, removed };
+}
+
+/**
+ * {@link screenOutliers}, also giving the kept values sorted ascending: the values are sorted once for
+ * the screen, and the kept ones are a run of them, so a caller going on to order statistics
+ * ({@link nonparametricIntervalOfSorted}) need not sort again.
+ */
+export function screenOutliersKeepingSorted(
+  values: readonly number[],
+  method: 'tukey' | 'dixon',
+): OutlierScreen & { keptSorted: Float64Array } {
   const fn = 'screenOutliers';
   if (method === 'tukey') {
     checkValues(fn, values, 4);
-    values.forEach((v, i) => {
-      if (v <= 0)
+    for (let i = 0; i < values.length; i++) {
+      if (values[i] <= 0)
         fail(
           fn,
-          `Tukey screening after a Box-Cox transform needs values greater than 0; value at index ${i} is ${v}`,
+          `Tukey screening after a Box-Cox transform needs values greater than 0; value at index ${i} is ${values[i]}`,
         );
-    });
-    const [low, high] = tukeyFences(values);
-    return split(values, (v) => v >= low && v <= high);
+    }
+    const sorted = new Float64Array(values).sort();
+    return split(values, sorted, tukeyFences(sorted));
   }
   if (method === 'dixon') {
     checkValues(fn, values, 3);
-    const [low, high] = dixonBounds(values);
-    return split(values, (v) => v >= low && v <= high);
+    const sorted = new Float64Array(values).sort();
+    return split(values, sorted, dixonBounds(sorted));
   }
   return fail(fn, `unknown method '${String(method)}', expected 'tukey' or 'dixon'`);
 }
 
-/** Fences in the original units: back-transformation keeps the order, so compare transformed values. */
-function tukeyFences(values: readonly number[]): [number, number] {
-  const lambda = boxCoxLambda(values);
-  const transformed = Float64Array.from(values, (v) => boxCoxUnchecked(v, lambda)).sort();
-  const q1 = percentileOfSorted('screenOutliers', transformed, 0.25);
-  const q3 = percentileOfSorted('screenOutliers', transformed, 0.75);
+/**
+ * Fences in the original units, from the values sorted once. The transform is increasing, so the
+ * transformed values are in the same order: each quartile interpolates between the transforms of two
+ * neighbouring sorted values, and the kept values are a run of the sorted ones.
+ */
+function tukeyFences(sorted: Float64Array): [number, number] {
+  const lambda = boxCoxLambdaOfSorted(sorted);
+  const quartile = (p: number) => {
+    percentileOfSorted('screenOutliers', sorted, p); // refuses a sample too small for rank p(n + 1)
+    const rank = p * (sorted.length + 1);
+    const below = Math.floor(rank);
+    const fraction = rank - below;
+    const low = boxCoxUnchecked(sorted[below - 1], lambda);
+    return fraction === 0 ? low : low + fraction * (boxCoxUnchecked(sorted[below], lambda) - low);
+  };
+  const q1 = quartile(0.25);
+  const q3 = quartile(0.75);
   const iqr = q3 - q1;
   const lowT = q1 - 1.5 * iqr;
   const highT = q3 + 1.5 * iqr;
-  // Smallest and largest values whose transform lies inside the fences.
+  // Smallest and largest values whose transform lies inside the fences (each distinct value once).
   let low = Infinity;
   let high = -Infinity;
-  for (const v of values) {
+  for (let i = 0; i < sorted.length; i++) {
+    const v = sorted[i];
+    if (i > 0 && v === sorted[i - 1]) continue;
     const t = boxCoxUnchecked(v, lambda);
     if (t >= lowT && t <= highT) {
       if (v < low) low = v;
-      if (v > high) high = v;
+      high = v;
     }
   }
   return [low, high];
 }
 
 /** The smallest and largest values kept by the repeated D/R ≥ 1/3 test. */
-function dixonBounds(values: readonly number[]): [number, number] {
-  const sorted = new Float64Array(values).sort();
+function dixonBounds(sorted: Float64Array): [number, number] {
   let first = 0;
   let last = sorted.length - 1;
   while (last - first + 1 >= 3) {
@@ -94,9 +119,16 @@ function dixonBounds(values: readonly number[]): [number, number] {
   return [sorted[first], sorted[last]];
 }
 
-function split(values: readonly number[], keep: (v: number) => boolean): OutlierScreen {
+/** Values within [low, high] kept, the others removed, both in their original order. */
+function split(
+  values: readonly number[],
+  sorted: Float64Array,
+  [low, high]: [number, number],
+): OutlierScreen & { keptSorted: Float64Array } {
   const kept: number[] = [];
   const removed: number[] = [];
-  for (const v of values) (keep(v) ? kept : removed).push(v);
-  return { kept, removed };
+  for (const v of values) (v >= low && v <= high ? kept : removed).push(v);
+  let first = 0;
+  while (first < sorted.length && sorted[first] < low) first++;
+  return { kept, removed, keptSorted: sorted.subarray(first, first + kept.length) };
 }

@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { recordAudit, type Database, type Executor } from '@plumbline/db';
+import { markUniqueSamples, recordAudit, type Database, type Executor } from '@plumbline/db';
 import type { RowError } from '@plumbline/contracts';
 import { boundError } from '../ingest/ingest.repository.ts';
 import type { AnalyteInfo, PatientRow } from './patient-rows.ts';
@@ -43,13 +43,17 @@ async function storeRows(
         const chunk = rows.slice(start, start + CHUNK);
         await tx.execute(sql`
         insert into patient_results
-          (lab_id, upload_id, analyte_id, value, sex, age_years, collected_month, setting, sample_hash)
-        select ${upload.labId}, ${upload.id}, * from unnest(
+          (lab_id, upload_id, analyte_id, value, sex, age_years, collected_month, setting, sample_hash,
+           sample_unique)
+        select ${upload.labId}, ${upload.id}, u.*, u.hash is not null from unnest(
           ${sql.param(chunk.map((r) => r.analyteId))}::uuid[], ${sql.param(chunk.map((r) => r.value))}::float8[],
           ${sql.param(chunk.map((r) => r.sex))}::text[], ${sql.param(chunk.map((r) => r.ageYears))}::int2[],
           ${sql.param(chunk.map((r) => r.collectedMonth))}::text[], ${sql.param(chunk.map((r) => r.setting))}::text[],
-          ${sql.param(chunk.map((r) => r.sampleHash))}::text[])`);
+          ${sql.param(chunk.map((r) => r.sampleHash))}::text[])
+          as u(analyte_id, value, sex, age_years, collected_month, setting, hash)`);
       }
+      // Keys this upload repeats (in itself or with earlier uploads) lose their mark.
+      await markUniqueSamples(tx, upload.labId, upload.id);
       const marked = await tx.execute(sql`
       update uploads set status = 'stored', stored_at = now(), progress = 1, rows_total = ${counts.rowsTotal},
              rows_accepted = ${counts.rowsAccepted}, rows_rejected = ${counts.rowsRejected},

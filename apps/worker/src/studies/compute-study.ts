@@ -2,8 +2,9 @@ import {
   harrisBoyd,
   indirectInterval,
   nonparametricInterval,
+  nonparametricIntervalOfSorted,
   robustInterval,
-  screenOutliers,
+  screenOutliersKeepingSorted,
 } from '@plumbline/stats';
 import type {
   OutlierScreening,
@@ -18,10 +19,13 @@ type Limits = Pick<PartitionResult, 'lower' | 'upper' | 'note'>;
 /**
  * The methods a study can use, one function each, so another method (a reworked indirect method, a
  * network-harmonised interval) is one more entry. Each gets the screened values and says why it gives
- * no limits or no confidence intervals.
+ * no limits or no confidence intervals. `sorted`, when given, holds the same values sorted ascending.
  */
-export const studyMethodImplementations: Record<StudyMethod, (values: number[]) => Limits> = {
-  nonparametric(values) {
+export const studyMethodImplementations: Record<
+  StudyMethod,
+  (values: number[], sorted?: Float64Array) => Limits
+> = {
+  nonparametric(values, sorted) {
     if (values.length < 120)
       return {
         lower: null,
@@ -30,7 +34,7 @@ export const studyMethodImplementations: Record<StudyMethod, (values: number[]) 
           `Only ${values.length} values: the nonparametric method needs at least 120 per partition ` +
           `(CLSI EP28-A3c). Use the robust method (Horn & Pesce) for 20 to 119 values.`,
       };
-    const r = nonparametricInterval(values);
+    const r = sorted ? nonparametricIntervalOfSorted(sorted) : nonparametricInterval(values);
     return { lower: r.lower, upper: r.upper, note: null };
   },
   robust(values) {
@@ -77,18 +81,19 @@ export function computePartition(
   screening: OutlierScreening,
 ): { result: Omit<PartitionResult, 'current'>; kept: number[] } {
   let kept = values;
+  let keptSorted: Float64Array | undefined;
   let removed: number[] = [];
   let screeningNote: string | null = null;
   if (screening !== 'none' && values.length >= 4) {
     try {
-      ({ kept, removed } = screenOutliers(values, screening));
+      ({ kept, removed, keptSorted } = screenOutliersKeepingSorted(values, screening));
     } catch (error) {
       screeningNote = `Outlier screening was not applied: ${(error as Error).message}.`;
     }
   }
   let limits: Limits;
   try {
-    limits = studyMethodImplementations[method](kept);
+    limits = studyMethodImplementations[method](kept, keptSorted);
   } catch (error) {
     limits = { lower: null, upper: null, note: `No limits: ${(error as Error).message}.` };
   }

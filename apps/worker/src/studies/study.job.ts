@@ -9,7 +9,7 @@ import {
   type StudyPartitioning,
   type StudySelection,
 } from '@plumbline/contracts';
-import { partitionValues, type Database } from '@plumbline/db';
+import { studyValues, type Database } from '@plumbline/db';
 import { computePartition, partitionAdvice } from './compute-study.ts';
 
 type StudyRow = {
@@ -41,7 +41,7 @@ export function partitionLabel(key: PartitionKey): string {
 }
 
 /**
- * Runs one study: claims it (queued → running), reads each partition's values from PostgreSQL, screens
+ * Runs one study: claims it (queued → running), reads every partition's values from PostgreSQL, screens
  * and computes them, and stores the result as the study's next version. Never overwrites a version.
  */
 export async function runStudy(
@@ -73,8 +73,9 @@ export async function runStudy(
        where lab_id = ${study.labId} and analyte_id = ${study.analyteId}`);
     const partitions: PartitionResult[] = [];
     const kept: { key: PartitionKey; label: string; kept: number[] }[] = [];
+    const allValues = await studyValues(db, study.labId, study.analyteId, selection, keys);
     for (const [i, key] of keys.entries()) {
-      const values = await partitionValues(db, study.labId, study.analyteId, selection, key);
+      const values = allValues[i];
       const label = partitionLabel(key);
       const computed = computePartition(key, label, values, study.method, study.screening);
       partitions.push({ ...computed.result, current: currentFor(currents.rows, key) });

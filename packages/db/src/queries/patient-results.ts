@@ -22,16 +22,18 @@ function where(labId: string, analyteId: string, selection: StudySelection, part
 
 /**
  * Matching results, keeping only the first result of each sample key (repeats of a person dropped).
- * The hashes are compared bytewise (collation "C"): they are hex, and a locale-aware sort is several
- * times slower.
+ * Rows whose key ingest found unique are read as they are; only the others are deduplicated. The
+ * hashes are compared bytewise (collation "C"): they are hex, and a locale-aware sort is several times
+ * slower.
  */
 function deduplicated(filter: SQL): SQL {
   return sql`
-    select value from patient_results where ${filter} and sample_hash is null
+    select value from patient_results where ${filter} and (sample_hash is null or sample_unique)
     union all
     select value from (
       select distinct on (sample_hash collate "C") value from patient_results
-       where ${filter} and sample_hash is not null order by sample_hash collate "C", id) d`;
+       where ${filter} and sample_hash is not null and not sample_unique
+       order by sample_hash collate "C", id) d`;
 }
 
 export async function countPatientResults(
@@ -46,21 +48,71 @@ export async function countPatientResults(
   return Number(result.rows[0]?.n ?? 0);
 }
 
-/** A partition's values, read as one text aggregate (much cheaper than a row per value). */
-export async function partitionValues(
+/**
+ * After an upload's rows are stored with `sample_unique` true wherever they have a sample key (same
+ * transaction): unmarks every row of the lab and analyte whose key another row shares — earlier rows
+ * that this upload repeats, and repeats within the upload. Only repeated rows are rewritten. Uploads of
+ * one lab are marked one at a time (transaction-level advisory lock), and each statement sees the
+ * uploads committed before it, so two concurrent uploads cannot both leave a shared key marked.
+ */
+export async function markUniqueSamples(db: Executor, labId: string, uploadId: string): Promise<void> {
+  await db.execute(
+    sql`select pg_advisory_xact_lock(hashtext('patient_results.sample_unique'), hashtext(${labId}))`,
+  );
+  await db.execute(sql`
+    update patient_results p set sample_unique = false
+      from (select distinct analyte_id, sample_hash from patient_results
+             where upload_id = ${uploadId} and sample_hash is not null) m
+     where p.lab_id = ${labId} and p.analyte_id = m.analyte_id and p.sample_hash = m.sample_hash
+       and p.sample_unique
+       and exists (select 1 from patient_results q
+                    where q.lab_id = p.lab_id and q.analyte_id = p.analyte_id
+                      and q.sample_hash = p.sample_hash and q.id <> p.id)`);
+}
+
+/**
+ * Each partition's values, read in one scan: the rows whose sample key is unique (or absent) go to
+ * every partition whose filter they meet, and each partition's other rows are deduplicated as in
+ * {@link deduplicated} (few rows, found by a partial index). Values travel as one binary aggregate per
+ * partition — each float8 in its 8-byte network form, exact, with no text conversion on either side.
+ */
+export async function studyValues(
   db: Executor,
   labId: string,
   analyteId: string,
   selection: StudySelection,
-  partition: PartitionKey,
-): Promise<number[]> {
-  const result = await db.execute<{ v: string | null }>(
-    sql`select string_agg(value::text, ',') as v from (${deduplicated(where(labId, analyteId, selection, partition))}) s`,
+  partitions: PartitionKey[],
+): Promise<number[][]> {
+  if (partitions.length === 0) return [];
+  const aggregates = partitions.map(
+    (p, i) =>
+      sql`string_agg(float8send(value), ''::bytea) filter (where ${where(labId, analyteId, selection, p)}) as ${sql.identifier(`p${i}`)}`,
   );
-  const text = result.rows[0]?.v;
-  if (!text) return [];
-  const parts = text.split(',');
-  const values = new Array<number>(parts.length);
-  for (let i = 0; i < parts.length; i++) values[i] = Number(parts[i]);
+  // JIT compilation costs more than it saves on these plain scans (tens of ms per query).
+  return db.transaction(async (tx) => {
+    await tx.execute(sql`set local jit = off`);
+    const unique = await tx.execute<Record<string, Buffer | null>>(sql`
+      select ${sql.join(aggregates, sql`, `)} from patient_results
+       where ${where(labId, analyteId, selection)} and (sample_hash is null or sample_unique)`);
+    const row = unique.rows[0] ?? {};
+    const values: number[][] = [];
+    for (const [i, p] of partitions.entries()) {
+      const repeated = await tx.execute<{ v: Buffer | null }>(sql`
+        select string_agg(float8send(value), ''::bytea) as v from (
+          select distinct on (sample_hash collate "C") value from patient_results
+           where ${where(labId, analyteId, selection, p)} and sample_hash is not null and not sample_unique
+           order by sample_hash collate "C", id) d`);
+      values.push(float8s(row[`p${i}`] ?? null).concat(float8s(repeated.rows[0]?.v ?? null)));
+    }
+    return values;
+  });
+}
+
+/** Big-endian float8s packed back to back. */
+function float8s(bytes: Buffer | null): number[] {
+  if (!bytes) return [];
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const values = new Array<number>(bytes.byteLength / 8);
+  for (let i = 0; i < values.length; i++) values[i] = view.getFloat64(i * 8);
   return values;
 }

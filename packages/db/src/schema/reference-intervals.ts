@@ -42,9 +42,20 @@ export const patientResults = pgTable(
     collectedMonth: text().notNull(),
     setting: text().notNull(),
     sampleHash: text(),
+    /**
+     * True when no other result of the lab and analyte has this sample key, so a study reads the row
+     * without deduplicating it (ingest stores true for rows with a key and then unmarks every key it
+     * repeats). False (the default) is always safe: the row's key is then deduplicated when read.
+     */
+    sampleUnique: boolean().notNull().default(false),
   },
   (t) => [
     index().on(t.labId, t.analyteId),
+    index().on(t.labId, t.analyteId, t.sampleHash),
+    // The few rows a study must deduplicate, found without scanning the table.
+    index('patient_results_sample_not_unique_index')
+      .on(t.labId, t.analyteId)
+      .where(sql`${t.sampleHash} is not null and not ${t.sampleUnique}`),
     index().on(t.uploadId),
     check('patient_results_sex', sql`${t.sex} in ('female', 'male')`),
     check('patient_results_age', sql`${t.ageYears} between 0 and 130`),

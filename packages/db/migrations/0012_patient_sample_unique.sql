@@ -1,0 +1,3 @@
+ALTER TABLE "patient_results" ADD COLUMN "sample_unique" boolean DEFAULT false NOT NULL;--> statement-breakpoint
+CREATE INDEX "patient_results_lab_id_analyte_id_sample_hash_index" ON "patient_results" USING btree ("lab_id","analyte_id","sample_hash");--> statement-breakpoint
+CREATE INDEX "patient_results_sample_not_unique_index" ON "patient_results" USING btree ("lab_id","analyte_id") WHERE "patient_results"."sample_hash" is not null and not "patient_results"."sample_unique";
