@@ -15,7 +15,7 @@ import { Redis } from 'ioredis';
 import { and, eq, sql } from 'drizzle-orm';
 import { createScratchDatabase } from '@plumbline/db/testing';
 import { seedDemoNetwork, demoAccounts } from '@plumbline/db/seed';
-import { controlLots, labs, procedures, recomputeAllPeerStatistics } from '@plumbline/db';
+import { controlLots, labs, procedures, recomputeAllPeerStatistics, type Database } from '@plumbline/db';
 import { createApp } from '../../apps/api/src/app.ts';
 import { loadEnv } from '../../apps/api/src/config/env.ts';
 import { createIngestQueue } from '../../apps/api/src/queues/ingest-queue.ts';
@@ -28,15 +28,28 @@ import { chromiumAvailable, launchBrowser, snap } from '../helpers/browser.ts';
 const PASSWORD = 'e2e-demo-password';
 const supervisor = demoAccounts.find((a) => a.role === 'supervisor' && a.labCode === 'PL-003')!;
 const PERIOD = '2026-12';
-// PL-003's December: sodium 6 % above its usual level (the SDI jumps), potassium as usual.
-const file = [
-  'Month;Assay code;Lot;Level;N;Mean;SD;Unit',
-  `${PERIOD};NA1;PGC-26187;1;30;136,1;1,2;mmol/L`,
-  `${PERIOD};NA1;PGC-26187;2;30;160,7;1,3;mmol/L`,
-  `${PERIOD};K1;PGC-26187;1;30;3,62;0,05;mmol/L`,
-  `${PERIOD};K1;PGC-26187;2;30;6,21;0,07;mmol/L`,
-  '',
-].join('\n');
+// PL-003's December, built from its own November figures: sodium 15 % above them (a jump well beyond
+// the peers' spread, so the month stands out whatever the group's size), potassium as in November.
+let file = '';
+
+async function decemberFile(db: Database): Promise<string> {
+  const rows = await db.execute<{ code: string; level: number; n: number; mean: number; sd: number }>(sql`
+    select p.code, s.level, s.n, s.mean, s.sd
+    from qc_summaries s join procedures p on p.id = s.procedure_id join labs l on l.id = s.lab_id
+    join control_lots c on c.id = s.control_lot_id
+    where l.code = 'PL-003' and s.period = '2026-11' and c.lot_number = 'PGC-26187'
+      and p.code in ('NA1', 'K1')
+    order by p.code desc, s.level`);
+  const decimal = (x: number, digits: number) => x.toFixed(digits).replace('.', ',');
+  return [
+    'Month;Assay code;Lot;Level;N;Mean;SD;Unit',
+    ...rows.rows.map((r) => {
+      const mean = r.code === 'NA1' ? r.mean * 1.15 : r.mean;
+      return `${PERIOD};${r.code};PGC-26187;${r.level};${r.n};${decimal(mean, 2)};${decimal(r.sd, 3)};mmol/L`;
+    }),
+    '',
+  ].join('\n');
+}
 
 /**
  * The API serving the built web app, with file storage and the ingest queue, and the ingest worker on
@@ -55,6 +68,7 @@ async function startUploadStack() {
     from qc_summaries s join labs l on l.id = s.lab_id
     where s.period = '2026-11' and l.code <> 'PL-003'`);
   await recomputeAllPeerStatistics(scratch.db);
+  file = await decemberFile(scratch.db);
   const storageDir = mkdtempSync(join(tmpdir(), 'plumbline-e2e-insight-'));
   const queuePrefix = `plumbline-e2e-insight-${randomBytes(4).toString('hex')}`;
   const env = loadEnv({

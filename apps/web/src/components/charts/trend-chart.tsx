@@ -72,7 +72,10 @@ export function TrendChart({
   headingLevel,
   thresholds = measure === 'sdi' ? DEFAULT_SDI_THRESHOLDS : DEFAULT_CVR_THRESHOLDS,
   marks = [],
+  testId = `trend-chart-${measure}`,
 }: {
+  /** Test id of the figure; a page with two charts of one measure gives the second its own. */
+  testId?: string;
   /** Vertical marks on the time axis (a detected shift, a recorded event), with a short label. */
   marks?: readonly { period: string; label: string; kind: 'shift' | 'event' }[];
   /** Oldest first. */
@@ -163,7 +166,7 @@ export function TrendChart({
       title={title}
       headingLevel={headingLevel}
       size={size}
-      testId={`trend-chart-${measure}`}
+      testId={testId}
       description={
         measure === 'sdi'
           ? `Your lab's SDI each month: 0 is the peer mean. Beyond the dashed lines (±${thresholds.acceptable}) is a warning, beyond the solid lines (±${thresholds.warning}) calls for action.`

@@ -85,6 +85,7 @@ export function ProcedureInsightPanel({
       {series && series.points.length > 0 ? (
         <TrendChart
           measure="sdi"
+          testId="trend-chart-sdi-shifts"
           headingLevel={3}
           title="SDI with detected shifts and recorded events"
           points={series.points.map((p) => ({ period: p.period, value: p.sdi }))}
