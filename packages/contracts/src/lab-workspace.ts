@@ -5,7 +5,7 @@ import { peerTierSchema } from './peer-report.ts';
 import { uploadSummarySchema } from './uploads.ts';
 
 /**
- * The lab workspace (issue 6): overview, drill-down of one report row, comments and sign-off, the
+ * The lab workspace: overview, drill-down of one report row, comments and sign-off, the
  * lab's test menu, exports. Routes are listed in docs/api.md ("Lab workspace").
  */
 

@@ -27,7 +27,7 @@ export function labTargetBefore(history: readonly MonthFigures[], period: string
   return pooled.sd > 0 ? { mean: pooled.mean, sd: pooled.sd, source: 'lab' } : null;
 }
 
-/** Lab's figures first, then the peers', then the month's own (METHODS.md §4 and issue 4). */
+/** Lab's figures first, then the peers', then the month's own (METHODS.md §4). */
 export function chooseTarget(
   lab: Target | null,
   peer: Target | null,

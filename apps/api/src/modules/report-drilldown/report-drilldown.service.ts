@@ -20,7 +20,7 @@ import { UUID, visibleLab } from '../lab-review/lab-scope.ts';
 import { compare, figuresOf } from '../peer-report/report-row.ts';
 import * as repo from './report-drilldown.repository.ts';
 
-/** How many periods the SDI/CVR trend covers (issue 6: the last 12). */
+/** How many periods the SDI/CVR trend covers (the last 12). */
 export const TREND_PERIODS = 12;
 
 type Chosen = { tier: PeerTierName; row: repo.PeerStatisticsRow; published: boolean };
