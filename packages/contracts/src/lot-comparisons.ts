@@ -44,6 +44,8 @@ export const lotComparisonSchema = z.object({
   labDifferences: z.array(z.number()),
   labsHigher: z.number().int(),
   labsLower: z.number().int(),
+  /** Paired labs that recorded a reagent-lot change (procedure event) in either month. */
+  reagentLotChanges: z.number().int(),
   /** Paired t interval of the mean per-lab difference; null with fewer than 2 paired labs. */
   paired: lotDifferenceSchema.nullable(),
   /** Welch interval of the difference of the two lots' peer means; null with fewer than 2 labs per lot. */

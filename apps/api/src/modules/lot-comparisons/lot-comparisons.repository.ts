@@ -1,5 +1,12 @@
-import { and, eq, inArray } from 'drizzle-orm';
-import { analytes, controlLots, procedures, qcSummaries, type Executor } from '@plumbline/db';
+import { and, eq, gte, inArray, lt } from 'drizzle-orm';
+import {
+  analytes,
+  controlLots,
+  procedureEvents,
+  procedures,
+  qcSummaries,
+  type Executor,
+} from '@plumbline/db';
 
 export async function findAnalyte(db: Executor, id: string) {
   const [row] = await db
@@ -25,4 +32,21 @@ export async function analyteSummaries(db: Executor, analyteId: string, periodKe
     .innerJoin(procedures, eq(procedures.id, qcSummaries.procedureId))
     .innerJoin(controlLots, eq(controlLots.id, qcSummaries.controlLotId))
     .where(and(eq(procedures.analyteId, analyteId), inArray(qcSummaries.period, periodKeys)));
+}
+
+/** Procedures of the analyte with a reagent-lot change recorded on a day in [from, to). */
+export async function reagentLotChangeProcedures(db: Executor, analyteId: string, from: string, to: string) {
+  const rows = await db
+    .selectDistinct({ procedureId: procedureEvents.procedureId })
+    .from(procedureEvents)
+    .innerJoin(procedures, eq(procedures.id, procedureEvents.procedureId))
+    .where(
+      and(
+        eq(procedures.analyteId, analyteId),
+        eq(procedureEvents.kind, 'reagent-lot'),
+        gte(procedureEvents.occurredOn, from),
+        lt(procedureEvents.occurredOn, to),
+      ),
+    );
+  return new Set(rows.map((r) => r.procedureId));
 }

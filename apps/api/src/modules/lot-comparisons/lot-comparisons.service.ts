@@ -22,6 +22,12 @@ export function previousPeriodOf(period: string): string {
   return month === 1 ? `${year - 1}-12` : `${year}-${String(month - 1).padStart(2, '0')}`;
 }
 
+/** The month after a YYYY-MM period. */
+function nextPeriodOf(period: string): string {
+  const [year, month] = period.split('-').map(Number) as [number, number];
+  return month === 12 ? `${year + 1}-01` : `${year}-${String(month + 1).padStart(2, '0')}`;
+}
+
 function mean(values: number[]): number {
   return values.reduce((sum, v) => sum + v, 0) / values.length;
 }
@@ -84,7 +90,15 @@ export async function lotComparisons(db: Database, rawQuery: unknown): Promise<L
   const analyte = await repo.findAnalyte(db, query.analyteId);
   if (!analyte) throw notFound('Analyte');
   const previousPeriod = previousPeriodOf(query.period);
-  const rows = await repo.analyteSummaries(db, analyte.id, [previousPeriod, query.period]);
+  const [rows, reagentChanged] = await Promise.all([
+    repo.analyteSummaries(db, analyte.id, [previousPeriod, query.period]),
+    repo.reagentLotChangeProcedures(
+      db,
+      analyte.id,
+      `${previousPeriod}-01`,
+      `${nextPeriodOf(query.period)}-01`,
+    ),
+  ]);
   return {
     analyteId: analyte.id,
     analyteCode: analyte.code,
@@ -92,7 +106,7 @@ export async function lotComparisons(db: Database, rawQuery: unknown): Promise<L
     unit: analyte.unit,
     period: query.period,
     previousPeriod,
-    comparisons: compareLots(rows, previousPeriod, query.period),
+    comparisons: compareLots(rows, previousPeriod, query.period, reagentChanged),
     caution: CAUTION,
   };
 }
@@ -101,7 +115,12 @@ export async function lotComparisons(db: Database, rawQuery: unknown): Promise<L
  * Pairs each procedure that reported exactly one lot in the previous month and another lot (not reported
  * before) this month, per level; every pair of lots with at least one such procedure is compared.
  */
-export function compareLots(rows: Summary[], previousPeriod: string, period: string): LotComparison[] {
+export function compareLots(
+  rows: Summary[],
+  previousPeriod: string,
+  period: string,
+  reagentChanged: ReadonlySet<string>,
+): LotComparison[] {
   const before = rows.filter((r) => r.period === previousPeriod);
   const after = rows.filter((r) => r.period === period);
   const beforeOf = new Map<string, Summary[]>();
@@ -109,20 +128,21 @@ export function compareLots(rows: Summary[], previousPeriod: string, period: str
     const key = `${r.procedureId}|${r.level}`;
     beforeOf.set(key, [...(beforeOf.get(key) ?? []), r]);
   }
-  const pairs = new Map<string, { from: Summary; to: Summary; differences: number[] }>();
+  const pairs = new Map<string, { from: Summary; to: Summary; differences: number[]; reagent: number }>();
   for (const to of after) {
     const previous = beforeOf.get(`${to.procedureId}|${to.level}`) ?? [];
     if (previous.length !== 1) continue;
     const from = previous[0]!;
     if (from.controlLotId === to.controlLotId) continue;
     const key = `${to.level}|${from.controlLotId}|${to.controlLotId}`;
-    const pair = pairs.get(key) ?? { from, to, differences: [] };
+    const pair = pairs.get(key) ?? { from, to, differences: [], reagent: 0 };
     pair.differences.push(to.mean - from.mean);
+    if (reagentChanged.has(to.procedureId)) pair.reagent += 1;
     pairs.set(key, pair);
   }
 
   const comparisons: LotComparison[] = [];
-  for (const { from, to, differences } of pairs.values()) {
+  for (const { from, to, differences, reagent } of pairs.values()) {
     const fromMeans = before
       .filter((r) => r.level === from.level && r.controlLotId === from.controlLotId)
       .map((r) => r.mean);
@@ -144,6 +164,12 @@ export function compareLots(rows: Summary[], previousPeriod: string, period: str
     }
     const labsHigher = differences.filter((d) => d > 0).length;
     const labsLower = differences.filter((d) => d < 0).length;
+    const verdict = verdictOf(paired, welch, labsHigher, labsLower, differences.length);
+    // A reagent lot changed in the same months is the other explanation of a common shift.
+    const reagentNote =
+      reagent > 0
+        ? ` ${reagent} of ${differences.length} labs also recorded a reagent-lot change in these two months; their shift may come from the reagent.`
+        : '';
     comparisons.push({
       level: to.level,
       fromLot: {
@@ -159,7 +185,9 @@ export function compareLots(rows: Summary[], previousPeriod: string, period: str
       labsLower,
       paired,
       welch,
-      ...verdictOf(paired, welch, labsHigher, labsLower, differences.length),
+      reagentLotChanges: reagent,
+      verdict: verdict.verdict,
+      explanation: verdict.explanation + reagentNote,
     });
   }
   return comparisons.sort((a, b) => a.level - b.level || b.pairedLabs - a.pairedLabs);

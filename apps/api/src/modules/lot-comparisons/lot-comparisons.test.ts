@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { lotComparisonsSchema } from '@plumbline/contracts';
-import { controlLots, qcSummaries } from '@plumbline/db';
+import { controlLots, procedureEvents, qcSummaries } from '@plumbline/db';
 import { createQcCatalogue, type QcCatalogue } from '@plumbline/db/testing';
 import { pairedMeanDifference, welchMeanDifference } from '@plumbline/stats';
 import { createTestApp, type TestApp } from '../../testing/test-app.ts';
@@ -38,6 +38,15 @@ beforeAll(async () => {
   for (let i = 0; i < 7; i++) {
     const { lab, procedures } = await catalogue.makeLabWithProcedures([{ code: 'GLU1' }]);
     if (i === 0) analyst = await t.makeUser('analyst', lab.id);
+    // Lab 0 changed reagent lot inside the two months, lab 1 before them (not counted).
+    if (i < 2) {
+      await t.db.insert(procedureEvents).values({
+        labId: lab.id,
+        procedureId: procedures[0]!.id,
+        occurredOn: i === 0 ? '2026-03-05' : '2026-01-15',
+        kind: 'reagent-lot',
+      });
+    }
     for (const level of [1, 2] as const) {
       const offset = i < 6 ? offsets[i]! : 0.1;
       const before = base[level] + offset;
@@ -101,6 +110,8 @@ describe('GET /api/lot-comparisons', () => {
 
     expect(level1.verdict).toBe('lot-effect');
     expect(level1.explanation).toMatch(/reads higher in 6 of 6 labs/);
+    expect(level1.reagentLotChanges).toBe(1);
+    expect(level1.explanation).toMatch(/1 of 6 labs also recorded a reagent-lot change/);
     // The labs differ more than the lot moved, so only the paired interval sees the shift.
     expect(level1.welch!.low).toBeLessThan(0);
     expect(level1.paired!.low).toBeGreaterThan(0);

@@ -54,6 +54,7 @@ const answer: LotComparisons = lotComparisonsSchema.parse({
       labDifferences: [0.18, 0.19, 0.2, 0.21, 0.22, 0.23],
       labsHigher: 6,
       labsLower: 0,
+      reagentLotChanges: 0,
       paired: difference(0.205, 0.186, 0.224),
       welch: difference(0.2, -0.05, 0.45),
       verdict: 'lot-effect',

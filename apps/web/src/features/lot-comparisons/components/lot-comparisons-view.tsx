@@ -59,6 +59,8 @@ function ComparisonCard({ comparison, unit }: { comparison: LotComparison; unit:
         <dd>{formatDifference(comparison.paired, unit)}</dd>
         <dt className="text-slate-600">Difference of peer means (Welch)</dt>
         <dd>{formatDifference(comparison.welch, unit)}</dd>
+        <dt className="text-slate-600">Labs that also changed reagent lot</dt>
+        <dd>{comparison.reagentLotChanges}</dd>
         <dt className="text-slate-600">Labs reading higher / lower</dt>
         <dd>
           {comparison.labsHigher} / {comparison.labsLower}
