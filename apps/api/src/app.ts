@@ -22,6 +22,7 @@ import { catalogueAdminRouter } from './modules/catalogue-admin/catalogue-admin.
 import { networkLabsRouter } from './modules/network-labs/network-labs.router.ts';
 import { cyclesRouter } from './modules/cycles/cycles.router.ts';
 import { peerGroupsRouter } from './modules/peer-groups/peer-groups.router.ts';
+import { lotComparisonsRouter } from './modules/lot-comparisons/lot-comparisons.router.ts';
 import { recomputeFailuresRouter } from './modules/recompute-failures/recompute-failures.router.ts';
 import { publishingRouter } from './modules/publishing/publishing.router.ts';
 import { labOverviewRouter } from './modules/lab-overview/lab-overview.router.ts';
@@ -66,6 +67,7 @@ export function createApp(deps: AppDeps): Express {
   api.use(cyclesRouter(deps, requireUser));
   api.use(recomputeFailuresRouter(deps, requireUser));
   api.use(peerGroupsRouter(deps, requireUser));
+  api.use(lotComparisonsRouter(deps, requireUser));
   api.use(publishingRouter(deps, requireUser));
   api.use(labOverviewRouter(deps, requireUser));
   api.use(labReviewRouter(deps, requireUser));

@@ -17,3 +17,4 @@ export * from './publishing.ts';
 export * from './lab-workspace.ts';
 export * from './reference-intervals.ts';
 export * from './qc-insight.ts';
+export * from './lot-comparisons.ts';

@@ -29,3 +29,4 @@ export * from './random.ts';
 export * from './detect-shifts.ts';
 export * from './qc-plan.ts';
 export * from './qc-plan-recommend.ts';
+export * from './lot-difference.ts';

@@ -103,6 +103,7 @@ export const routeDocs: RouteDoc[] = [
   { method: 'get', path: '/periods/:period/participation', tag: 'Cycles', summary: 'Participation board of a period', auth: U, query: c.participationQuerySchema, response: c.participationBoardSchema },
   { method: 'get', path: '/peer-groups', tag: 'Peer groups', summary: 'Peer groups of an analyte and lot', auth: U, query: c.peerGroupsQuerySchema, response: c.peerGroupsViewSchema },
   { method: 'get', path: '/peer-groups/analytes', tag: 'Peer groups', summary: 'Analytes with peer groups', auth: U, query: c.peerGroupAnalytesQuerySchema, response: c.peerGroupAnalyteListSchema },
+  { method: 'get', path: '/lot-comparisons', tag: 'Peer groups', summary: 'Lot-to-lot comparison of peer means across a control lot change (coordinator)', auth: U, query: c.lotComparisonsQuerySchema, response: c.lotComparisonsSchema },
   { method: 'post', path: '/peer-groups/merge/preview', tag: 'Peer groups', summary: 'Preview merging groups', auth: U, body: c.mergePreviewRequestSchema, response: c.adjustmentPreviewSchema },
   { method: 'post', path: '/peer-groups/merge', tag: 'Peer groups', summary: 'Merge groups', auth: U, body: c.mergeRequestSchema },
   { method: 'post', path: '/peer-groups/split/preview', tag: 'Peer groups', summary: 'Preview splitting a group', auth: U, body: c.splitPreviewRequestSchema, response: c.adjustmentPreviewSchema },

@@ -105,6 +105,10 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
                   path: paths.network.peerGroups.path,
                   lazy: page(() => import('./routes/network/peer-groups.tsx')),
                 },
+                {
+                  path: paths.network.lotComparisons.path,
+                  lazy: page(() => import('./routes/network/lot-comparisons.tsx')),
+                },
                 { path: paths.network.cycles.path, lazy: page(() => import('./routes/network/cycles.tsx')) },
                 {
                   path: paths.network.participation.path,

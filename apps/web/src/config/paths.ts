@@ -96,6 +96,7 @@ export const paths = {
     },
     procedures: { path: '/network/procedures', getHref: () => '/network/procedures' },
     peerGroups: { path: '/network/peer-groups', getHref: () => '/network/peer-groups' },
+    lotComparisons: { path: '/network/lot-comparisons', getHref: () => '/network/lot-comparisons' },
     cycles: { path: '/network/cycles', getHref: () => '/network/cycles' },
     participation: {
       path: '/network/participation',

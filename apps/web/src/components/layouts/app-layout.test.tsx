@@ -10,6 +10,7 @@ const coordinatorItems = [
   'Catalogue',
   'Labs',
   'Peer groups',
+  'Lot comparisons',
   'Cycles',
   'Participation',
   'Audit log',

@@ -57,6 +57,7 @@ export const navigationSections: NavigationSection[] = [
       { label: 'Labs', to: paths.network.labs.getHref(), policy: 'network' },
       { label: 'Network procedures', to: paths.network.procedures.getHref(), policy: 'network' },
       { label: 'Peer groups', to: paths.network.peerGroups.getHref(), policy: 'network' },
+      { label: 'Lot comparisons', to: paths.network.lotComparisons.getHref(), policy: 'network' },
     ],
   },
   {
