@@ -143,7 +143,7 @@ export const leveyJenningsPointSchema = z.object({
   run: z.string(),
   value: z.number(),
   z: z.number(),
-  /** Multirule violations of the point against the chosen target (METHODS.md §4). */
+  /** Multirule violations of the point against the chosen target (docs/methods.md §4). */
   rules: z.array(z.string()),
 });
 export type LeveyJenningsPoint = z.infer<typeof leveyJenningsPointSchema>;
@@ -207,7 +207,7 @@ export const drilldownSchema = z.object({
     ),
   }),
   /**
-   * Measurement uncertainty (METHODS.md §3, Nordtest TR 537), all in %: u(Rw) = the lab's CV over the trend
+   * Measurement uncertainty (docs/methods.md §3, Nordtest TR 537), all in %: u(Rw) = the lab's CV over the trend
    * periods pooled; u(bias) = √(RMS(bias)² + u(Cref)²) over the periods with a peer comparison; U = k·uc.
    * Null (with `uncertaintyNote`) when there is no peer comparison or no spread.
    */

@@ -126,7 +126,7 @@ export const networkProceduresQuerySchema = z.object({
   labId: uuidSchema.optional(),
   /** Only procedures that no tier can peer. */
   unpeerable: z.stringbool().optional(),
-  /** Labs a tier needs before its figures are published (METHODS.md: 3, a setting). */
+  /** Labs a tier needs before its figures are published (docs/methods.md: 3, a setting). */
   minLabs: z.coerce.number().int().min(1).max(100).default(3),
   limit: z.coerce.number().int().min(1).max(500).default(100),
   offset: z.coerce.number().int().min(0).default(0),

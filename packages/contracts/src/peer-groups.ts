@@ -44,7 +44,7 @@ export type PeerGroupAnalyte = z.infer<typeof peerGroupAnalyteSchema>;
 
 export const excludedReasonSchema = z.enum(['outlier', 'manual']);
 
-/** Figures of one group for one level and period (METHODS.md §2); null where they cannot be computed. */
+/** Figures of one group for one level and period (docs/methods.md §2); null where they cannot be computed. */
 export const peerGroupFiguresSchema = z.object({
   labs: z.number().int(),
   n: z.number().int(),

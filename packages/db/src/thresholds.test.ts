@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { parseThresholds } from './thresholds.ts';
 
 describe('parseThresholds', () => {
-  it('when nothing is set, then the documented defaults apply (METHODS.md §2: 3 labs; 50 % CV and n 10,000, common practice)', () => {
+  it('when nothing is set, then the documented defaults apply (docs/methods.md §2: 3 labs; 50 % CV and n 10,000, common practice)', () => {
     expect(parseThresholds({})).toEqual({
       peerMinLabs: 3,
       maxCvPct: 50,

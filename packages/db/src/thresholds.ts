@@ -6,7 +6,7 @@ import { z } from 'zod';
  * the process at start-up with a message naming the variable.
  */
 const thresholdsSchema = z.object({
-  /** Labs a peer group needs before its figures are published (METHODS.md §2: 3, a setting). */
+  /** Labs a peer group needs before its figures are published (docs/methods.md §2: 3, a setting). */
   PEER_MIN_LABS: z.coerce.number().int().min(1).max(100).default(3),
   /** A monthly summary whose CV (100 · SD / mean) is above this, in %, is a row error (common practice: 50 %). */
   INGEST_MAX_CV_PCT: z.coerce.number().positive().max(1000).default(50),

@@ -41,7 +41,7 @@ export interface HarmonisationOptions extends NonparametricIntervalOptions {
  * interval of all values together (in original units), reported whether or not they can share.
  *
  * Source: Harris EK, Boyd JC, Clin Chem 1990;36:265–270 (between subgroups, here sites);
- * CLSI EP28-A3c (pooled nonparametric interval); METHODS.md §5 (network harmonisation).
+ * CLSI EP28-A3c (pooled nonparametric interval); docs/methods.md §5 (network harmonisation).
  *
  * @throws {Error} when there are fewer than 2 sites, an id is empty or repeated, a site has fewer
  *   than 2 values, a value is not finite (or not > 0 with 'box-cox'), or the pooled interval cannot

@@ -39,7 +39,7 @@ export interface MeasurementUncertainty {
  *
  * Source: Magnusson B, Näykki T, Hovind H, Krysell M, Sahlin E. Handbook for calculation of
  * measurement uncertainty in environmental laboratories, Nordtest Report TR 537 (ed. 4, 2017),
- * §6 (bias from interlaboratory comparisons); METHODS.md §3.
+ * §6 (bias from interlaboratory comparisons); docs/methods.md §3.
  *
  * @throws {Error} when the CV is not greater than 0, there are no comparisons, a bias is not
  *   finite, a u(Cref) is negative or not finite, or the coverage factor is not greater than 0.

@@ -61,7 +61,7 @@ export const DEFAULT_MIN_LABS_FOR_SCREENING = 5;
 export const GROSS_ERROR_FACTOR = 10;
 
 /**
- * Peer-group statistics from member labs' summaries (METHODS.md §2).
+ * Peer-group statistics from member labs' summaries (docs/methods.md §2).
  *
  * 1. Labs in `excludeIds` are left out with reason 'manual'.
  * 2. Algorithm A (ISO 13528) gives the robust mean x* and robust SD s* of the remaining lab
@@ -79,7 +79,7 @@ export const GROSS_ERROR_FACTOR = 10;
  * the peer mean is 0. No figure is ever ±Infinity: that throws, naming the figure.
  *
  * Source: ISO 13528:2015 Annex C.3 (Algorithm A); the x* ± 3s* limit mirrors the standard's
- * |z| > 3 action signal (METHODS.md §2); pooling as in {@link pool}.
+ * |z| > 3 action signal (docs/methods.md §2); pooling as in {@link pool}.
  *
  * @throws {Error} when `labs` is empty, an id is empty or repeated, a lab has n < 2, a non-finite
  *   mean, a negative or non-finite SD, the options are invalid, or a figure would not be finite
@@ -236,7 +236,7 @@ export interface PeerTierChoice<T extends string = string> {
  * e.g. [instrument model + method + reagent, method principle, all procedures for the analyte].
  * When no tier is sufficient, the broadest tier with labs is returned with `sufficient: false`.
  *
- * Source: METHODS.md §2 (tier fallback), a choice of this service (no published source).
+ * Source: docs/methods.md §2 (tier fallback), a choice of this service (no published source).
  *
  * @throws {Error} when no tier has any lab, or as {@link peerStatistics}.
  * @example

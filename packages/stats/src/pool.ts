@@ -23,7 +23,7 @@ export interface Pooled {
  * and the pooled within-part SD √(Σ(nᵢ − 1)sᵢ² / Σ(nᵢ − 1)).
  *
  * Source: the analysis-of-variance decomposition of the total sum of squares (any one-way
- * ANOVA text); METHODS.md §1. A part with n = 1 must have SD 0.
+ * ANOVA text); docs/methods.md §1. A part with n = 1 must have SD 0.
  *
  * @throws {Error} when there are no parts, a part has a non-integer n < 1, a non-finite mean,
  *   a negative or non-finite SD, all parts together hold fewer than 2 values, or a pooled figure

@@ -5,7 +5,7 @@ import { checkFinite, checkPositive, fail } from './validate.ts';
  * exceeds the allowable total error.
  *
  * Source: Westgard JO, "Six Sigma quality design and control" (2001), as used in
- * Biochem Med 2018;28(2):020711; METHODS.md §3.
+ * Biochem Med 2018;28(2):020711; docs/methods.md §3.
  *
  * @throws {Error} when TEa or CV is not greater than 0, or the bias is not finite.
  * @example
@@ -44,7 +44,7 @@ export interface EvaluatedTea {
  *
  * Source: the form in which published rules state acceptance limits, e.g. the US CLIA proficiency
  * testing acceptance limits of the 2024 rule (42 CFR 493.931): "± X units or ± Y %, whichever is
- * greater"; METHODS.md §3.
+ * greater"; docs/methods.md §3.
  *
  * @throws {Error} when neither part is given, a given part is not greater than 0, the concentration
  *   is not finite, or the concentration is 0 while the absolute part governs (no % exists).

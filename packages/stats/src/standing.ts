@@ -14,7 +14,7 @@ export interface Standing {
  * A lab's standing against its peer group: SDI = (lab mean − peer mean) / peer SD;
  * CVR = lab CV % / peer within-lab CV %; bias % = 100 · (lab mean − peer mean) / peer mean.
  *
- * Source: METHODS.md §3 (definitions in common use in interlaboratory QC programmes).
+ * Source: docs/methods.md §3 (definitions in common use in interlaboratory QC programmes).
  *
  * @throws {Error} when a figure is not finite, the lab's n < 2, its SD is negative, the lab or peer
  *   mean is 0, the peer SD or peer within-lab CV is not greater than 0, or the SDI, CVR or bias %
@@ -95,7 +95,7 @@ function classify(fn: string, value: number, thresholds: FlagThresholds): Flag {
  * Flag an SDI by its absolute value: ≤ fine → 'fine', ≤ acceptable → 'acceptable',
  * ≤ warning → 'warning', above → 'action'. A value exactly on a bound takes the better flag.
  *
- * Source: METHODS.md §3 — common practice, no single published source; thresholds are settings.
+ * Source: docs/methods.md §3 — common practice, no single published source; thresholds are settings.
  *
  * @throws {Error} when the SDI is not finite or the thresholds are not ordered.
  * @example
@@ -109,7 +109,7 @@ export function classifySdi(sdi: number, thresholds: FlagThresholds = DEFAULT_SD
 /**
  * Flag a CVR: ≤ fine → 'fine', ≤ acceptable → 'acceptable', ≤ warning → 'warning', above → 'action'.
  *
- * Source: METHODS.md §3 — common practice, no single published source; thresholds are settings.
+ * Source: docs/methods.md §3 — common practice, no single published source; thresholds are settings.
  *
  * @throws {Error} when the CVR is negative or not finite, or the thresholds are not ordered.
  * @example

@@ -18,7 +18,7 @@ export interface Summary {
  * their precision (NIST StRD NumAcc1–4 give the certified values).
  *
  * Source: Chan, Golub & LeVeque, "Algorithms for computing the sample variance", Am Stat
- * 1983;37:242–247 (corrected two-pass formula); CV as in METHODS.md §1.
+ * 1983;37:242–247 (corrected two-pass formula); CV as in docs/methods.md §1.
  *
  * @throws {Error} when there are fewer than 2 values or a value is not a finite number.
  * @example

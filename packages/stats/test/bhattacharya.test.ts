@@ -3,7 +3,7 @@ import jStat from 'jstat';
 import { bhattacharya, seededRandom } from '../src/index.ts';
 
 describe('bhattacharya (Biometrics 1967;23:115–135)', () => {
-  it('when the exact bin probabilities of N(140, 2²) with unit bins 134–146 are used, then μ = 140 and σ² = 3.9995 (CHECKS.md, computed identity)', () => {
+  it('when the exact bin probabilities of N(140, 2²) with unit bins 134–146 are used, then μ = 140 and σ² = 3.9995 (computed identity)', () => {
     const edges = Array.from({ length: 13 }, (_, i) => 134 + i);
     const counts = edges
       .slice(0, -1)

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { harrisBoyd, harrisBoydFromSummaries, summarize } from '../src/index.ts';
 
 describe('harrisBoyd (Clin Chem 1990;36:265–270)', () => {
-  it('when n₁ = n₂ = 120, means 140 and 141, SDs 2 and 2, then z = 3.872983 > z* = 3 and the groups are partitioned (CHECKS.md computed example)', () => {
+  it('when n₁ = n₂ = 120, means 140 and 141, SDs 2 and 2, then z = 3.872983 > z* = 3 and the groups are partitioned (computed example)', () => {
     const result = harrisBoydFromSummaries({ n: 120, mean: 140, sd: 2 }, { n: 120, mean: 141, sd: 2 });
     expect(result.z).toBeCloseTo(3.872983, 6);
     expect(result.zCritical).toBeCloseTo(3, 12);

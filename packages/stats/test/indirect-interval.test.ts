@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { indirectInterval, seededRandom } from '../src/index.ts';
 
 // No published worked example of a truncated-normal indirect method with its raw data was available,
-// so recovery is checked by simulation where the true healthy limits are known (CHECKS.md).
+// so recovery is checked by simulation where the true healthy limits are known.
 //
 // Stated tolerance: each recovered limit within 0.4 healthy SD of the true limit for n ≥ 10 000 and
 // within 0.5 SD for n = 5 000 (SD on the scale where the healthy data are normal: mmol/L for the
@@ -21,8 +21,8 @@ interface Scenario {
 
 const z975 = 1.959963984540054;
 const gaussianWithTails: Scenario = {
-  // 80 % healthy N(140, 2²) (limits 140 ∓ z₀.₉₇₅·2 = 136.08 / 143.92, computed from the normal quantile;
-  // CHECKS.md) + 8 % N(130, 4²) + 12 % N(150, 4²). z₀.₉₇₅ is the standard normal quantile (textbook value).
+  // 80 % healthy N(140, 2²) (limits 140 ∓ z₀.₉₇₅·2 = 136.08 / 143.92, computed from the normal quantile)
+  // + 8 % N(130, 4²) + 12 % N(150, 4²). z₀.₉₇₅ is the standard normal quantile (textbook value).
   name: '80 % N(140, 2²) with 20 % pathological tails',
   truth: [140 - z975 * 2, 140 + z975 * 2],
   sd: 2,

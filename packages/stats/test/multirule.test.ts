@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { evaluateMultirule, type ControlPoint } from '../src/index.ts';
 
 // Westgard JO, Barry PL, Hunt MR, Groth T. Clin Chem 1981;27:493–501 published the rule definitions
-// but no numeric example, so every sequence here is built from the definitions (CHECKS.md).
+// but no numeric example, so every sequence here is built from the definitions.
 const targets = { 1: { mean: 100, sd: 2 }, 2: { mean: 200, sd: 4 } };
 const valueAt = (level: 1 | 2, z: number) => targets[level].mean + z * targets[level].sd;
 

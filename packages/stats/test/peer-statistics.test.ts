@@ -22,13 +22,13 @@ function simulatedLabs(count: number, seed: number): { id: string; raw: number[]
 const summaryOf = ({ id, raw }: { id: string; raw: number[] }): LabSummary => ({ id, ...summarize(raw) });
 
 // Lab means equal to the ISO 13528 Annex E.3 example results. The standard prints the start values and
-// iterations 1–2 only; the converged x* = 1.453333, s* = 0.496148 are computed from its algorithm (CHECKS.md),
+// iterations 1–2 only; the converged x* = 1.453333, s* = 0.496148 are computed from its algorithm,
 // not read in the standard.
 const isoMeans = [1.69, 0.74, 2.05, 1.14, 2.19, 1.39, 1.52, 1.5, 1.58, 0.8, 1.21, 1.63];
 const isoLabs = isoMeans.map((mean, i) => ({ id: `L${i + 1}`, n: 20, mean, sd: 0.1 }));
 
 describe('peerStatistics', () => {
-  it('when no lab is excluded, then mean, SD and n equal the summary of all raw values (pooling formula, METHODS.md §2)', () => {
+  it('when no lab is excluded, then mean, SD and n equal the summary of all raw values (pooling formula, docs/methods.md §2)', () => {
     const labs = simulatedLabs(12, 7);
     const result = peerStatistics(labs.map(summaryOf));
     const direct = summarize(labs.flatMap((lab) => lab.raw));
@@ -61,7 +61,7 @@ describe('peerStatistics', () => {
     expect(result.excluded).toEqual([]);
   });
 
-  it('when one lab mean lies outside x* ± 3s*, then that lab is excluded as an outlier and the rest are pooled (METHODS.md §2)', () => {
+  it('when one lab mean lies outside x* ± 3s*, then that lab is excluded as an outlier and the rest are pooled (docs/methods.md §2)', () => {
     const labs = [...isoLabs, { id: 'far', n: 20, mean: 4.2, sd: 0.1 }];
     const robust = robustMeanSd(labs.map((lab) => lab.mean));
     expect(4.2).toBeGreaterThan(robust.mean + 3 * robust.sd); // the constructed lab is beyond the limit
@@ -83,7 +83,7 @@ describe('peerStatistics', () => {
     expect(result.robustMean).toBeCloseTo(robustMeanSd(remaining).mean, 12);
   });
 
-  it('when fewer labs than minLabs remain, then sufficient is false (METHODS.md §2: at least 3 labs)', () => {
+  it('when fewer labs than minLabs remain, then sufficient is false (docs/methods.md §2: at least 3 labs)', () => {
     expect(peerStatistics(isoLabs.slice(0, 3)).sufficient).toBe(true);
     expect(peerStatistics(isoLabs.slice(0, 2)).sufficient).toBe(false);
     expect(peerStatistics(isoLabs.slice(0, 4), { minLabs: 5 }).sufficient).toBe(false);
@@ -107,7 +107,7 @@ describe('peerStatistics', () => {
       const labs = [...isoLabs.slice(0, count), { id: 'absurd', n: 20, mean: 1e300, sd: 0.1 }];
       const result = peerStatistics(labs);
       expect(result.excluded).toEqual([{ id: 'absurd', reason: 'outlier' }]);
-      // The remaining labs' figures are their pooled figures (pooling formula, METHODS.md §2).
+      // The remaining labs' figures are their pooled figures (pooling formula, docs/methods.md §2).
       const { mean } = summarize(isoMeans.slice(0, count));
       expect(result.labs).toBe(count);
       for (const figure of [result.mean, result.sd, result.cv, result.robustMean, result.robustSd]) {
@@ -217,7 +217,7 @@ describe('selectPeerTier', () => {
   const method = isoLabs.slice(0, 5);
   const analyte = isoLabs;
 
-  it('when the narrowest tier has enough labs, then it is used (METHODS.md §2 tier fallback)', () => {
+  it('when the narrowest tier has enough labs, then it is used (docs/methods.md §2 tier fallback)', () => {
     const choice = selectPeerTier([
       { tier: 'instrument', labs: method },
       { tier: 'method', labs: analyte },

@@ -6,7 +6,7 @@ import { readNistDataset, referenceFolder, relativeError } from './helpers/refer
 const nist = referenceFolder('nist-strd');
 
 describe.skipIf(!nist.present)(`pool: Lew monthly split ${nist.skipReason}`, () => {
-  it('when Lew.dat is split in file order into 10 months of 20 and pooled, then the certified mean and SD return (NIST StRD certified values, published; the monthly split is our consistency check, CHECKS.md)', () => {
+  it('when Lew.dat is split in file order into 10 months of 20 and pooled, then the certified mean and SD return (NIST StRD certified values, published; the monthly split is our consistency check)', () => {
     const lew = readNistDataset('Lew');
     const months = Array.from({ length: 10 }, (_, i) => summarize(lew.slice(20 * i, 20 * i + 20)));
     const pooled = pool(months);
@@ -29,7 +29,7 @@ describe.skipIf(!nist.present)(`pool: Lew monthly split ${nist.skipReason}`, () 
 });
 
 describe('pool', () => {
-  it('when parts are summaries of pieces of one data set, then the pooled figures equal the summary of all values (property, METHODS.md §1)', () => {
+  it('when parts are summaries of pieces of one data set, then the pooled figures equal the summary of all values (property, docs/methods.md §1)', () => {
     const part = fc.array(fc.double({ min: -1000, max: 1000, noNaN: true }), { minLength: 2, maxLength: 30 });
     fc.assert(
       fc.property(fc.array(part, { minLength: 1, maxLength: 8 }), (pieces) => {

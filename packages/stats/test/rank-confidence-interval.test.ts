@@ -5,7 +5,7 @@ import { rankConfidenceInterval } from '../src/index.ts';
 
 describe('rankConfidenceInterval', () => {
   // CLSI EP28-A3c table of ranks for the 90 % CI of the 2.5th percentile (published rows, each also
-  // confirmed by a binomial computation; CHECKS.md).
+  // confirmed by a binomial computation).
   const tableRows = [
     { from: 119, to: 132, ranks: [1, 7] },
     { from: 133, to: 160, ranks: [1, 8] },
@@ -21,8 +21,8 @@ describe('rankConfidenceInterval', () => {
     });
   }
 
-  // Ranks 114–120 mirror the lower limit's 1–7 for n = 120 (n + 1 − r); listed with the EP28-A3c values in
-  // CHECKS.md and confirmed by the binomial computation in the property test below.
+  // Ranks 114–120 mirror the lower limit's 1–7 for n = 120 (n + 1 − r); listed with the EP28-A3c values and
+  // confirmed by the binomial computation in the property test below.
   it('when n = 120, then the 97.5th percentile CI spans ranks 114–120 (EP28-A3c, by symmetry of ranks 1–7)', () => {
     expect(rankConfidenceInterval(120, 0.975)).toEqual([114, 120]);
   });

@@ -3,7 +3,7 @@ import { evaluateTea, sigmaMetric, teaFromBiologicalVariation } from '../src/ind
 
 describe('sigmaMetric', () => {
   // Biochem Med 2018;28(2):020711, Table 2 (published rows): TEa %, bias %, CV % → printed σ.
-  // Tolerance ±0.1 for the rounding of the printed inputs (CHECKS.md); albumin recomputes to 4.70.
+  // Tolerance ±0.1 for the rounding of the printed inputs; albumin recomputes to 4.70.
   const rows = [
     { analyte: 'ALT', tea: 27.48, bias: 8.7, cv: 4.6, printed: 4.1 },
     { analyte: 'albumin', tea: 10.0, bias: 0.6, cv: 2.0, printed: 4.6 },
@@ -32,7 +32,7 @@ describe('sigmaMetric', () => {
 
 describe('teaFromBiologicalVariation', () => {
   // Desirable specification, TEa < 1.65·(0.5·CV_I) + 0.25·√(CV_I² + CV_G²) (Fraser; Clin Chem 2005;51:450).
-  // Published TEa values, Biochem Med 2018 (as listed in CHECKS.md).
+  // Published TEa values, Biochem Med 2018.
   const rows = [
     { analyte: 'potassium', cvI: 4.6, cvG: 5.6, tea: 5.61 },
     { analyte: 'creatinine', cvI: 5.95, cvG: 14.7, tea: 8.87 },
@@ -61,8 +61,8 @@ describe('teaFromBiologicalVariation', () => {
 });
 
 describe('evaluateTea', () => {
-  // US CLIA proficiency-testing acceptance limits of the 2024 rule (42 CFR 493.931), as listed in
-  // CHECKS.md — from memory of the rule, not re-read in the Federal Register: glucose ± 6 mg/dL or
+  // US CLIA proficiency-testing acceptance limits of the 2024 rule (42 CFR 493.931), recalled
+  // from memory of the rule, not re-read in the Federal Register: glucose ± 6 mg/dL or
   // ± 8 %, creatinine ± 0.2 mg/dL or ± 10 %, ALT ± 6 U/L or ± 15 % ("whichever is greater");
   // sodium ± 4 mmol/L and potassium ± 0.3 mmol/L (absolute only); chloride ± 5 % (percent only).
   // The evaluated figures follow from the rule's wording by arithmetic.

@@ -12,7 +12,7 @@ import {
 } from '../src/index.ts';
 
 describe('standing', () => {
-  it('when given lab and peer figures, then SDI, CVR and bias % follow their definitions (METHODS.md §3)', () => {
+  it('when given lab and peer figures, then SDI, CVR and bias % follow their definitions (docs/methods.md §3)', () => {
     // Hand computation: SDI = (102 − 100)/4 = 0.5; lab CV = 300/102 %; CVR = (300/102)/2.5; bias = 2 %.
     const result = standing({ n: 20, mean: 102, sd: 3 }, { mean: 100, sd: 4, withinCv: 2.5 });
     expect(result.sdi).toBe(0.5);
@@ -103,7 +103,7 @@ describe('standing', () => {
   });
 });
 
-describe('classifySdi and classifyCvr (METHODS.md §3 thresholds, common practice with no single source)', () => {
+describe('classifySdi and classifyCvr (docs/methods.md §3 thresholds, common practice with no single source)', () => {
   it('when |SDI| is on or inside a bound, then it takes the better flag', () => {
     expect([0, 1, 1.0001, 2, 2.5, 3, 3.0001].map((v) => classifySdi(v))).toEqual([
       'fine',
@@ -129,7 +129,7 @@ describe('classifySdi and classifyCvr (METHODS.md §3 thresholds, common practic
     ]);
   });
 
-  it('when thresholds are given, then they replace the defaults; the defaults are the METHODS.md figures', () => {
+  it('when thresholds are given, then they replace the defaults; the defaults are the docs/methods.md figures', () => {
     expect(DEFAULT_SDI_THRESHOLDS).toEqual({ fine: 1, acceptable: 2, warning: 3 });
     expect(DEFAULT_CVR_THRESHOLDS).toEqual({ fine: 1, acceptable: 1.5, warning: 2 });
     expect(classifySdi(1.8, { fine: 0.5, acceptable: 1.5, warning: 2.5 })).toBe('warning');

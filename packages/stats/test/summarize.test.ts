@@ -7,7 +7,7 @@ import { readNistDataset, referenceFolder, relativeError } from './helpers/refer
 const nist = referenceFolder('nist-strd');
 
 // Certified values: NIST Statistical Reference Datasets, Univariate Summary Statistics
-// (https://www.itl.nist.gov/div898/strd/univ/homepage.html), as listed in CHECKS.md.
+// (https://www.itl.nist.gov/div898/strd/univ/homepage.html).
 const certified = [
   { name: 'Lew', n: 200, mean: -177.435, sd: 277.332168044316, tolerance: 1e-12 },
   { name: 'Lottery', n: 218, mean: 518.95871559633, sd: 291.699727470969, tolerance: 1e-12 },
@@ -15,7 +15,7 @@ const certified = [
   { name: 'Michelso', n: 100, mean: 299.8524, sd: 0.0790105478190518, tolerance: 1e-12 },
   { name: 'PiDigits', n: 5000, mean: 4.5348, sd: 2.86733906028871, tolerance: 1e-12 },
   { name: 'NumAcc1', n: 3, mean: 10000002, sd: 1, tolerance: 1e-12 },
-  // NumAcc2–4: the decimal inputs are not exact in binary, so 1e-8 is the attainable accuracy (CHECKS.md).
+  // NumAcc2–4: the decimal inputs are not exact in binary, so 1e-8 is the attainable accuracy.
   { name: 'NumAcc2', n: 1001, mean: 1.2, sd: 0.1, tolerance: 1e-8 },
   { name: 'NumAcc3', n: 1001, mean: 1000000.2, sd: 0.1, tolerance: 1e-8 },
   { name: 'NumAcc4', n: 1001, mean: 10000000.2, sd: 0.1, tolerance: 1e-8 },
@@ -35,7 +35,7 @@ describe.skipIf(!nist.present)(`summarize against NIST StRD certified values ${n
     expect(summarize(readNistDataset('Michelso')).cv).toBeCloseTo((100 * 0.0790105478190518) / 299.8524, 12);
   });
 
-  it('when given NumAcc4.dat, then the naive Σx² − (Σx)²/n formula fails where summarize does not (CHECKS.md)', () => {
+  it('when given NumAcc4.dat, then the naive Σx² − (Σx)²/n formula fails where summarize does not', () => {
     const values = readNistDataset('NumAcc4');
     const n = values.length;
     const sum = values.reduce((a, b) => a + b, 0);

@@ -4,7 +4,7 @@ import { chooseTarget, evaluateGroup, labTargetBefore, type Target } from './mul
 import { ValuesBuffer } from './values-buffer.ts';
 
 describe('labTargetBefore', () => {
-  it('when the lab has earlier months, then the target is their pooled figures (METHODS.md §1 pooling)', () => {
+  it('when the lab has earlier months, then the target is their pooled figures (docs/methods.md §1 pooling)', () => {
     const history = [
       { period: '2026-01', n: 20, mean: 5.0, sd: 0.1 },
       { period: '2026-02', n: 18, mean: 5.2, sd: 0.12 },

@@ -16,7 +16,7 @@ export type MonthFigures = { period: string; n: number; mean: number; sd: number
 
 /**
  * The lab's own established figures for a lot and level before a period: its earlier monthly summaries
- * pooled (METHODS.md §1). Null when it has none (or they give no spread).
+ * pooled (docs/methods.md §1). Null when it has none (or they give no spread).
  */
 export function labTargetBefore(history: readonly MonthFigures[], period: string): Target | null {
   const earlier = history.filter((h) => h.period < period);
@@ -27,7 +27,7 @@ export function labTargetBefore(history: readonly MonthFigures[], period: string
   return pooled.sd > 0 ? { mean: pooled.mean, sd: pooled.sd, source: 'lab' } : null;
 }
 
-/** Lab's figures first, then the peers', then the month's own (METHODS.md §4). */
+/** Lab's figures first, then the peers', then the month's own (docs/methods.md §4). */
 export function chooseTarget(
   lab: Target | null,
   peer: Target | null,

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { UnitConverter, normalizeUnit } from './units.ts';
 
-// Expected factors are the textbook conversion factors listed in ../shared/design/CHECKS.md "Units"
+// Expected factors are the textbook conversion factors used in every laboratory
 // (common practice): glucose mmol/L = mg/dL ÷ 18.016 (molar mass 180.16 g/mol); creatinine
 // µmol/L = mg/dL × 88.42 (113.12 g/mol). The converter itself is the NLM UCUM library.
 describe('UnitConverter', () => {

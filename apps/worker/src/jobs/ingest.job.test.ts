@@ -100,7 +100,7 @@ describe('summary files', () => {
     expect(cumulative.mean).toBeCloseTo(expected.mean, 12);
   });
 
-  it('when a glucose file is in mg/dL, then it is stored in mmol/L (÷ 18.016, textbook factor from CHECKS.md "Units", common practice)', async () => {
+  it('when a glucose file is in mg/dL, then it is stored in mmol/L (÷ 18.016, textbook factor, common practice)', async () => {
     const { lab } = await h.catalogue.makeLabWithProcedures([{ code: 'GLU-CONV', unit: 'mg/dL' }]);
     const id = await h.addUpload({
       labId: lab.id,
@@ -444,7 +444,7 @@ describe('exactly once', () => {
     expect(events).toHaveLength(1);
   });
 
-  it('lab to date: cumulative peer figures pool every month of the lot (METHODS.md §2)', async () => {
+  it('lab to date: cumulative peer figures pool every month of the lot (docs/methods.md §2)', async () => {
     const procedureMeans = [
       [5.0, 5.1],
       [5.2, 5.15],

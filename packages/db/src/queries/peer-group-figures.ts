@@ -7,7 +7,7 @@ import { thresholds } from '../thresholds.ts';
 // at a time, so a group whose figures cannot be computed is reported and the others still are.
 
 export type PeerStatisticsSettings = {
-  /** Labs that must remain for figures to be published (METHODS.md §2: 3, a setting). */
+  /** Labs that must remain for figures to be published (docs/methods.md §2: 3, a setting). */
   minLabs?: number;
   /** Replaces the statistics function (tests use it to make one group fail). */
   computeGroupStatistics?: ComputeGroupStatistics;
@@ -27,7 +27,7 @@ export type SummaryRow = {
 
 export type ExclusionRow = { procedureId: string; level: number | null; period: string; reason: string };
 
-/** Each procedure's to-date figures: its monthly summaries pooled (METHODS.md §1). */
+/** Each procedure's to-date figures: its monthly summaries pooled (docs/methods.md §1). */
 export function cumulativeByProcedure(rows: readonly SummaryRow[]): SummaryRow[] {
   const byProcedure = new Map<string, SummaryRow[]>();
   for (const r of rows) {

@@ -16,7 +16,7 @@ const analyte = (code: string) => {
   return found;
 };
 
-/** Pooled n, mean and SD of monthly summaries (METHODS.md §1: N = Σnᵢ, SS = Σ(nᵢ−1)sᵢ² + Σnᵢ(x̄ᵢ−mean)²). */
+/** Pooled n, mean and SD of monthly summaries (docs/methods.md §1: N = Σnᵢ, SS = Σ(nᵢ−1)sᵢ² + Σnᵢ(x̄ᵢ−mean)²). */
 function pool(rows: { n: number; mean: number; sd: number }[]) {
   const n = rows.reduce((sum, r) => sum + r.n, 0);
   const mean = rows.reduce((sum, r) => sum + r.n * r.mean, 0) / n;
@@ -62,7 +62,7 @@ describe('the demo network plan', () => {
   });
 
   it('stores molar masses that reproduce the textbook conversion factors', () => {
-    // Common practice (METHODS.md §6): glucose mg/dL ÷ 18.016 = mmol/L; creatinine umol/L ÷ 88.4 = mg/dL;
+    // Common practice: glucose mg/dL ÷ 18.016 = mmol/L; creatinine umol/L ÷ 88.4 = mg/dL;
     // calcium mg/dL × 0.2495 = mmol/L; urea mmol/L × 6.006 = mg/dL (urea, not urea nitrogen).
     const mgPerDlPerMmolPerL = (molarMass: number) => molarMass / 10;
     expect(mgPerDlPerMmolPerL(analyte('GLU').molarMass!)).toBeCloseTo(18.016, 3);
@@ -306,7 +306,7 @@ describe('seeding the demo network into an empty database', () => {
           r.period === mine.period,
       );
       const peer = pool(peers);
-      // CVR = lab CV / peer pooled within-lab CV (METHODS.md §3).
+      // CVR = lab CV / peer pooled within-lab CV (docs/methods.md §3).
       return mine.sd / mine.mean / (peer.withinSd / peer.mean);
     });
     expect(ratios.length).toBeGreaterThanOrEqual(12);

@@ -3,7 +3,7 @@ import type { ParticipationFlag } from '@plumbline/contracts';
 import type { Principal } from '../../auth/principal.ts';
 import { buildPeerReport } from '../peer-report/peer-report.service.ts';
 
-/** Action-level bounds (METHODS.md §3; common practice with no single published source). */
+/** Action-level bounds (docs/methods.md §3; common practice with no single published source). */
 const SDI_ACTION = 3;
 const CVR_ACTION = 2;
 

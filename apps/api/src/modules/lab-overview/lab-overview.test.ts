@@ -51,7 +51,7 @@ describe('the lab overview', () => {
     const deadline = new Date(body.currentPeriod!.deadline).getTime();
     expect(body.currentPeriod!.daysToDeadline).toBe(Math.floor((deadline - Date.now()) / 86_400_000));
 
-    // Expected flags: SDI and CVR bands (METHODS.md §3) of each row, plus an action flag when the lab was left out as an outlier.
+    // Expected flags: SDI and CVR bands (docs/methods.md §3) of each row, plus an action flag when the lab was left out as an outlier.
     const expected: Record<Flag, number> = { fine: 0, acceptable: 0, warning: 0, action: 0 };
     for (const analyte of ['glucose', 'creatinine'] as Analyte[]) {
       for (const level of [1, 2]) {

@@ -75,7 +75,7 @@ export function membersOf(membership: Membership, group: Pick<GroupRow, 'id' | '
 const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
 /**
- * The figures of a group from its members' summaries (METHODS.md §2, `peerStatistics`), with the
+ * The figures of a group from its members' summaries (docs/methods.md §2, `peerStatistics`), with the
  * coordinator's exclusions of that level passed as manual exclusions. Null when no member has data;
  * `{ notComputable }` when the statistics cannot be computed (the other groups of a preview still are).
  */

@@ -57,7 +57,7 @@ import {
 } from './peer-group-model.ts';
 import * as repo from './peer-groups.repository.ts';
 
-/** Labs that must remain for figures to be published (METHODS.md §2), the one setting the worker also uses. */
+/** Labs that must remain for figures to be published (docs/methods.md §2), the one setting the worker also uses. */
 const minLabs = () => thresholds().peerMinLabs;
 /** Adjustments and their undos run one at a time, so each sees the arrangement the previous one left. */
 const ADJUSTMENT_LOCK_KEY = 740_100_002;

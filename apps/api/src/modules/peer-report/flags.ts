@@ -1,7 +1,7 @@
 import { classifyCvr, classifySdi } from '@plumbline/stats';
 import type { ReportFlag } from '@plumbline/contracts';
 
-/** What each SDI band means for the lab (thresholds: @plumbline/stats, METHODS.md §3, common practice). */
+/** What each SDI band means for the lab (thresholds: @plumbline/stats, docs/methods.md §3, common practice). */
 const sdiMeaning: Record<ReportFlag['severity'], string> = {
   fine: 'within 1 SD of the peer mean',
   acceptable: 'within 2 SD of the peer mean',

@@ -133,7 +133,7 @@ describe('the peer report', () => {
     expect(row.analyte).toMatchObject({ name: 'Glucose', unit: 'mmol/L', teaPct: 8 });
   });
 
-  it('when figures are taken lot to date, then lab and peer pool January and February (METHODS.md §1–2)', async () => {
+  it('when figures are taken lot to date, then lab and peer pool January and February (docs/methods.md §1–2)', async () => {
     const row = rowOf((await report(labs.A)).body);
     const toDate = (n: string) => ({ id: labs[n].procedureId, ...pool([january[n], february[n]]) });
     const labToDate = pool([january.A, february.A]);

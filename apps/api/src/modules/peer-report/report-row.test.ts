@@ -4,7 +4,7 @@ import type { PeerFigures, PeerReportRow } from '@plumbline/contracts';
 import { compare, figuresOf, finiteRow, notComputableRow, type RowIdentity } from './report-row.ts';
 
 // Invented figures in mmol/L; the expected standing comes from @plumbline/stats (whose own tests check
-// it against METHODS.md §3), so these tests are about which rows can be compared, not the arithmetic.
+// it against docs/methods.md §3), so these tests are about which rows can be compared, not the arithmetic.
 const lab = figuresOf({ n: 20, mean: 5.6, sd: 0.12 });
 const peer: PeerFigures = { tier: 'instrument', labs: 6, n: 120, mean: 5.5, sd: 0.1, cv: 1.8, withinCv: 1.9 };
 

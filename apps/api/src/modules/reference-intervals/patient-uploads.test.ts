@@ -85,7 +85,7 @@ describe('a canonical patient-results CSV', () => {
     expect(done).toMatchObject({ status: 'stored', rowsAccepted: 2, rowsRejected: 0 });
     const rows = await t.db.select().from(patientResults).where(eq(patientResults.uploadId, res.body.id));
     const crea = rows.find((r) => r.analyteId === ri.creatinine.id)!;
-    // 1 mg/dL creatinine = 88.4 µmol/L (common practice factor, METHODS.md §6).
+    // 1 mg/dL creatinine = 88.4 µmol/L (common practice factor).
     expect(crea.value).toBeCloseTo(88.4, 1);
     expect(crea).toMatchObject({
       sex: 'male',

@@ -196,7 +196,7 @@ export async function buildDrilldown(
     },
   });
 
-  // 5. Measurement uncertainty over the trend periods (METHODS.md §3, Nordtest TR 537).
+  // 5. Measurement uncertainty over the trend periods (docs/methods.md §3, Nordtest TR 537).
   const { uncertainty, uncertaintyNote } = uncertaintyOf(
     trendRows,
     trend.flatMap((t) => {
@@ -271,7 +271,7 @@ type Target = {
 };
 
 /**
- * The lab's own target for a level: its figures from the periods before this one pooled (METHODS.md §1),
+ * The lab's own target for a level: its figures from the periods before this one pooled (docs/methods.md §1),
  * or this period's own figures when there are none.
  */
 export function labTarget(history: readonly repo.SummaryRow[], period: string): Target | null {

@@ -99,7 +99,7 @@ describe('unit preference', () => {
     const pair = (code: string, level: number) =>
       [si, conventional].map((r) => r.rows.find((x) => x.procedure.code === code && x.level === level)!);
 
-    // Glucose: mg/dL = mmol/L × 18.016 (molar mass 180.16 g/mol; CHECKS.md "Units": common practice, textbook factor).
+    // Glucose: mg/dL = mmol/L × 18.016 (molar mass 180.16 g/mol; common practice, textbook factor).
     const [gluSi, gluConv] = pair('GLU1', 1);
     expect(gluConv.unit).toBe('mg/dL');
     expect(gluConv.canonicalUnit).toBe('mmol/L');
@@ -112,7 +112,7 @@ describe('unit preference', () => {
     expect(gluConv.cvr).toBe(gluSi.cvr);
     expect(gluConv.biasPct).toBe(gluSi.biasPct);
 
-    // Creatinine: mg/dL = µmol/L ÷ 88.42 (CHECKS.md "Units": common practice, textbook factor). With the catalogue's
+    // Creatinine: mg/dL = µmol/L ÷ 88.42 (common practice, textbook factor). With the catalogue's
     // 113.12 g/mol the exact factor is 10000 / 113.12 = 88.40; the textbook's rounding differs by 0.03 %.
     const [creaSi, creaConv] = pair('CREA1', 2);
     expect(creaConv.unit).toBe('mg/dL');
@@ -252,7 +252,7 @@ describe('the drill-down of one row', () => {
     const si = await getDrilldown(1, 'period=2026-03&units=si');
     const conv = await getDrilldown(1, 'period=2026-03&units=conventional');
     expect(conv.unit).toBe('mg/dL');
-    // Glucose mg/dL = mmol/L × 18.016 (CHECKS.md "Units").
+    // Glucose mg/dL = mmol/L × 18.016 (textbook factor, common practice).
     expect(conv.leveyJennings.points[3].value).toBeCloseTo(si.leveyJennings.points[3].value * 18.016, 9);
     expect(conv.leveyJennings.target!.sd).toBeCloseTo(si.leveyJennings.target!.sd * 18.016, 9);
     expect(conv.leveyJennings.points[3].z).toBe(si.leveyJennings.points[3].z);

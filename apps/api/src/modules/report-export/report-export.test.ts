@@ -52,7 +52,7 @@ describe('the monthly PDF report', () => {
       .parse(binary);
 
   it('when an unsigned period with flagged rows is downloaded, then it says "not signed" and charts the flagged rows', async () => {
-    // Lab A reads high in March: its glucose level-1 row is flagged (|SDI| > 2 or left out as an outlier; METHODS.md §2–3).
+    // Lab A reads high in March: its glucose level-1 row is flagged (|SDI| > 2 or left out as an outlier; docs/methods.md §2–3).
     const peer = expectedPeer(net, 'glucose', '2026-03', 1);
     const sdi = standing(net.table.glucose.A['2026-03'][1], peer).sdi;
     expect(Math.abs(sdi) > 2 || peer.excluded.some((e) => e.id === net.labs.A.glucose)).toBe(true);

@@ -47,7 +47,7 @@ describe('TrendChart', () => {
       expect(at.x).toBeCloseTo(x(point.period)!, 6);
       expect(at.y).toBeCloseTo(y(point.value!), 6);
     }
-    // Flags by the thresholds of METHODS.md §3 (|SDI| ≤ 1 fine, ≤ 2 acceptable, ≤ 3 warning, > 3 action).
+    // Flags by the thresholds of docs/methods.md §3 (|SDI| ≤ 1 fine, ≤ 2 acceptable, ≤ 3 warning, > 3 action).
     const severities = Object.fromEntries(
       [...marks].map((m) => [m.getAttribute('data-period'), m.getAttribute('data-severity')]),
     );
@@ -98,7 +98,7 @@ describe('TrendChart', () => {
       .range([height - margin.bottom, margin.top]);
     const november = figure.querySelector('[data-period="2026-11"]')!;
     expect(translation(november).y).toBeCloseTo(y(1.7), 6);
-    // CVR ≤ 1 fine, ≤ 1.5 acceptable, ≤ 2 warning (METHODS.md §3).
+    // CVR ≤ 1 fine, ≤ 1.5 acceptable, ≤ 2 warning (docs/methods.md §3).
     expect(november.getAttribute('data-severity')).toBe('warning');
     expect(figure.querySelector('[data-period="2026-10"]')!.getAttribute('data-severity')).toBe('fine');
   });

@@ -1,4 +1,4 @@
-// The parts of the lab's measurement uncertainty (Nordtest approach, METHODS.md §3) as bars in %:
+// The parts of the lab's measurement uncertainty (Nordtest approach, docs/methods.md §3) as bars in %:
 // within-lab reproducibility, the bias components, the combined and the expanded uncertainty.
 import { scaleBand, scaleLinear } from 'd3';
 import { AxisBottom } from './axis.tsx';

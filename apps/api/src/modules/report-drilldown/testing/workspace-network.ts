@@ -138,7 +138,7 @@ export type WorkspaceNetwork = Awaited<ReturnType<typeof seedWorkspaceNetwork>>;
 
 export type Analyte = 'glucose' | 'creatinine';
 
-/** Peer figures of a period recomputed from the stored inputs with @plumbline/stats (METHODS.md §2). */
+/** Peer figures of a period recomputed from the stored inputs with @plumbline/stats (docs/methods.md §2). */
 export function expectedPeer(net: WorkspaceNetwork, analyte: Analyte, period: string, level: number) {
   return computePeerStatistics(
     LAB_NAMES.map((name) => ({ id: net.labs[name][analyte], ...net.table[analyte][name][period][level] })),
@@ -146,7 +146,7 @@ export function expectedPeer(net: WorkspaceNetwork, analyte: Analyte, period: st
   );
 }
 
-/** Lot-to-date peer figures: each lab's months pooled, then peerStatistics (METHODS.md §1–2). */
+/** Lot-to-date peer figures: each lab's months pooled, then peerStatistics (docs/methods.md §1–2). */
 export function expectedPeerToDate(net: WorkspaceNetwork, analyte: Analyte, period: string, level: number) {
   return computePeerStatistics(
     LAB_NAMES.map((name) => ({

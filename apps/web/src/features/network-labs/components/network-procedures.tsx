@@ -25,7 +25,7 @@ export type ProcedureFilterOptions = {
   methods: FilterOption[];
 };
 
-/** The default of METHODS.md: a tier's figures are published from 3 labs on. */
+/** The default of docs/methods.md: a tier's figures are published from 3 labs on. */
 const DEFAULT_MIN_LABS = 3;
 
 /** A catalogue entry by its code; the name is a hover away (and read out to screen readers). */

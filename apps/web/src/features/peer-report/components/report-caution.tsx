@@ -1,4 +1,4 @@
-/** The caution every report carries (PRODUCT.md, "Cautions"). */
+/** The caution every report carries (the product's standing cautions). */
 export const REPORT_CAUTION =
   'These results inform, they do not decide: accepting QC runs, reference intervals and patient reporting remain the responsibility of the laboratory director under local regulation and accreditation. Reference intervals must be reviewed before clinical use.';
 
