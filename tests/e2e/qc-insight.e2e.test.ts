@@ -5,24 +5,10 @@
 // eslint-disable-next-line @typescript-eslint/triple-slash-reference
 /// <reference path="../../apps/worker/src/types/ucum-lhc.d.ts" />
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
-import { existsSync, mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { randomBytes } from 'node:crypto';
-import { Redis } from 'ioredis';
 import { and, eq, sql } from 'drizzle-orm';
-import { createScratchDatabase } from '@plumbline/db/testing';
 import { seedDemoNetwork, demoAccounts } from '@plumbline/db/seed';
 import { controlLots, labs, procedures, recomputeAllPeerStatistics, type Database } from '@plumbline/db';
-import { createApp } from '../../apps/api/src/app.ts';
-import { loadEnv } from '../../apps/api/src/config/env.ts';
-import { createIngestQueue } from '../../apps/api/src/queues/ingest-queue.ts';
-import { LocalFileStorage } from '../../apps/api/src/storage/local-storage.ts';
-import { startIngestWorker } from '../../apps/worker/src/queues/ingest.queue.ts';
-import { LocalFileSource } from '../../apps/worker/src/storage/file-source.ts';
-import { WEB_DIST } from '../helpers/server.ts';
+import { startUploadStack } from '../helpers/server.ts';
 import { chromiumAvailable, launchBrowser, snap } from '../helpers/browser.ts';
 
 const PASSWORD = 'e2e-demo-password';
@@ -51,78 +37,20 @@ async function decemberFile(db: Database): Promise<string> {
   ].join('\n');
 }
 
-/**
- * The API serving the built web app, with file storage and the ingest queue, and the ingest worker on
- * the same scratch database, storage directory and queue prefix, all in this process.
- */
-async function startUploadStack() {
-  if (!existsSync(`${WEB_DIST}/index.html`)) {
-    throw new Error(`The web app is not built (${WEB_DIST}/index.html missing): run npm run build first.`);
-  }
-  const scratch = await createScratchDatabase('e2einsight');
-  await seedDemoNetwork(scratch.db, { password: PASSWORD });
-  // Every other lab has sent December as November, so December has peer figures.
-  await scratch.db.execute(sql`
-    insert into qc_summaries (lab_id, procedure_id, control_lot_id, level, period, n, mean, sd, source)
-    select s.lab_id, s.procedure_id, s.control_lot_id, s.level, ${PERIOD}, s.n, s.mean, s.sd, s.source
-    from qc_summaries s join labs l on l.id = s.lab_id
-    where s.period = '2026-11' and l.code <> 'PL-003'`);
-  await recomputeAllPeerStatistics(scratch.db);
-  file = await decemberFile(scratch.db);
-  const storageDir = mkdtempSync(join(tmpdir(), 'plumbline-e2e-insight-'));
-  const queuePrefix = `plumbline-e2e-insight-${randomBytes(4).toString('hex')}`;
-  const env = loadEnv({
-    ...process.env,
-    NODE_ENV: 'test',
-    DATABASE_URL: scratch.url,
-    JWT_SECRET: randomBytes(32).toString('hex'),
-    WEB_DIST_DIR: WEB_DIST,
-    STORAGE_DIR: storageDir,
-    QUEUE_PREFIX: queuePrefix,
-    S3_BUCKET: '',
-  });
-  const redis = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
-  const ingestQueue = createIngestQueue(redis, queuePrefix);
-  const app = createApp({
-    env,
-    db: scratch.db,
-    redis,
-    storage: new LocalFileStorage(storageDir),
-    ingestQueue,
-  });
-  const server: Server = await new Promise((resolve) => {
-    const s = app.listen(0, '127.0.0.1', () => resolve(s));
-  });
-  const workerConnection = new Redis(env.REDIS_URL, { maxRetriesPerRequest: null });
-  const worker = startIngestWorker(
-    {
-      db: scratch.db,
-      pool: scratch.pool,
-      files: new LocalFileSource(storageDir),
-      minLabs: 3,
-    },
-    { connection: workerConnection, prefix: queuePrefix, concurrency: 1, recoveryIntervalMs: 0 },
-  );
-  return {
-    db: scratch.db,
-    url: `http://127.0.0.1:${(server.address() as AddressInfo).port}`,
-    close: async () => {
-      await worker.close().catch(() => {});
-      server.closeAllConnections();
-      await new Promise<void>((resolve) => server.close(() => resolve()));
-      await ingestQueue.close().catch(() => {});
-      workerConnection.disconnect();
-      redis.disconnect();
-      await scratch.drop();
-      rmSync(storageDir, { recursive: true, force: true });
-    },
-  };
-}
-
 let server: Awaited<ReturnType<typeof startUploadStack>>;
 
 beforeAll(async () => {
-  server = await startUploadStack();
+  server = await startUploadStack('e2einsight', async (scratch) => {
+    await seedDemoNetwork(scratch.db, { password: PASSWORD });
+    // Every other lab has sent December as November, so December has peer figures.
+    await scratch.db.execute(sql`
+      insert into qc_summaries (lab_id, procedure_id, control_lot_id, level, period, n, mean, sd, source)
+      select s.lab_id, s.procedure_id, s.control_lot_id, s.level, ${PERIOD}, s.n, s.mean, s.sd, s.source
+      from qc_summaries s join labs l on l.id = s.lab_id
+      where s.period = '2026-11' and l.code <> 'PL-003'`);
+    await recomputeAllPeerStatistics(scratch.db);
+    file = await decemberFile(scratch.db);
+  });
 });
 afterAll(async () => server?.close());
 

@@ -11,6 +11,8 @@ import { createApp } from '../../apps/api/src/app.ts';
 import { loadEnv, type Env } from '../../apps/api/src/config/env.ts';
 import { LocalFileStorage } from '../../apps/api/src/storage/local-storage.ts';
 import { createIngestQueue } from '../../apps/api/src/queues/ingest-queue.ts';
+import { startIngestWorker } from '../../apps/worker/src/queues/ingest.queue.ts';
+import { LocalFileSource } from '../../apps/worker/src/storage/file-source.ts';
 
 export const WEB_DIST = fileURLToPath(new URL('../../apps/web/dist', import.meta.url));
 
@@ -65,6 +67,37 @@ export async function startServer(
       redis.disconnect();
       await scratch.drop();
       rmSync(storageDir, { recursive: true, force: true });
+    },
+  };
+}
+
+/**
+ * `startServer` plus the ingest worker on the same scratch database, storage directory and queue
+ * prefix, all in this process: what a browser test of an upload journey needs.
+ */
+export async function startUploadStack(
+  label: string,
+  prepare?: (scratch: ScratchDatabase) => Promise<void>,
+  options: { holdBeforeCommitMs?: number } = {},
+) {
+  const server = await startServer(label, prepare);
+  const workerConnection = new Redis(server.env.REDIS_URL, { maxRetriesPerRequest: null });
+  const worker = startIngestWorker(
+    {
+      db: server.db,
+      pool: server.scratch.pool,
+      files: new LocalFileSource(server.storageDir),
+      minLabs: 3,
+      holdBeforeCommitMs: options.holdBeforeCommitMs,
+    },
+    { connection: workerConnection, prefix: server.queuePrefix, concurrency: 1, recoveryIntervalMs: 0 },
+  );
+  return {
+    ...server,
+    close: async () => {
+      await worker.close().catch(() => {});
+      workerConnection.disconnect();
+      await server.close();
     },
   };
 }
